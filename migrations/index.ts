@@ -1,0 +1,25 @@
+import type { Knex } from 'knex';
+import * as m20261201090000 from './20261201090000_create_organisations_and_users';
+import * as m20261201090100 from './20261201090100_create_sessions';
+import * as m20261201090200 from './20261201090200_create_user_tokens';
+import * as m20261201090300 from './20261201090300_create_mail_outbox';
+
+interface Migration {
+  up: (knex: Knex) => Promise<void>;
+  down: (knex: Knex) => Promise<void>;
+}
+
+// Knex loads migrations with Node's own import, which cannot read .ts under vitest; listing them
+// here keeps one order for the server, the tests and the CLI. Add each new migration at the end.
+const migrations: Record<string, Migration> = {
+  '20261201090000_create_organisations_and_users': m20261201090000,
+  '20261201090100_create_sessions': m20261201090100,
+  '20261201090200_create_user_tokens': m20261201090200,
+  '20261201090300_create_mail_outbox': m20261201090300,
+};
+
+export const migrationSource: Knex.MigrationSource<string> = {
+  getMigrations: async () => Object.keys(migrations),
+  getMigrationName: (name) => name,
+  getMigration: async (name) => migrations[name],
+};

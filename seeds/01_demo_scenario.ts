@@ -1,0 +1,41 @@
+import type { Knex } from 'knex';
+import bcrypt from 'bcryptjs';
+import { DEMO_ORGANISATIONS, DEMO_USERS } from './demo-people';
+
+export interface SeedOptions {
+  password: string;
+  bcryptRounds: number;
+}
+
+/**
+ * Loads the invented demo scenario. Safe to run twice: rows have fixed ids and existing ones are
+ * left as they are.
+ */
+export async function seedDemoScenario(db: Knex, opts: SeedOptions): Promise<void> {
+  const now = new Date().toISOString();
+  const hash = await bcrypt.hash(opts.password, opts.bcryptRounds);
+  await db.transaction(async (trx) => {
+    await trx('organisations')
+      .insert(DEMO_ORGANISATIONS.map((o) => ({ id: o.id, name: o.name, created_at: now })))
+      .onConflict('id')
+      .ignore();
+    await trx('users')
+      .insert(
+        DEMO_USERS.map((u) => ({
+          id: u.id,
+          organisation_id: DEMO_ORGANISATIONS[u.org].id,
+          name: u.name,
+          email: u.email,
+          password_hash: hash,
+          role: u.role,
+          active: true,
+          units: 'us',
+          language: 'language' in u ? u.language : 'en',
+          created_at: now,
+          updated_at: now,
+        })),
+      )
+      .onConflict('id')
+      .ignore();
+  });
+}

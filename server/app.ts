@@ -1,0 +1,141 @@
+import path from 'node:path';
+import express, { type Express } from 'express';
+import session from 'express-session';
+import { pinoHttp } from 'pino-http';
+import { pino, type Logger } from 'pino';
+import type { Knex } from 'knex';
+import type { ViteDevServer } from 'vite';
+import type { Config } from './config';
+import { configurePassport } from './auth/passport';
+import { SessionStore } from './auth/session-store';
+import { signInLimits } from './auth/sign-in-limits';
+import { ROLE_LABELS } from './auth/roles';
+import { errorHandler, notFound } from './http/errors';
+import { csrfProtection, securityHeaders } from './http/security';
+import { CLIENT_DIST, readOfficeAssets } from './http/assets';
+import { createMailer, type Mailer } from './mail/mailer';
+import { sessionApi } from './routes/api/session';
+import { authPages } from './routes/office/auth';
+import { homePages } from './routes/office/home';
+import { userAdminPages } from './routes/office/users';
+import { outboxPages } from './routes/office/outbox';
+import { accountPages } from './routes/office/account';
+import { captureApp } from './routes/capture';
+
+export interface AppDeps {
+  config: Config;
+  db: Knex;
+  logger?: Logger;
+  mailer?: Mailer;
+  /** Vite in middleware mode, for `npm run dev` only. */
+  vite?: ViteDevServer;
+  /** The secret that signs session cookies. */
+  sessionSecret: string;
+}
+
+export interface AppContext {
+  config: Config;
+  db: Knex;
+  logger: Logger;
+  mailer: Mailer;
+}
+
+/** Builds the whole app; only server/main.ts listens, so tests build it on a fresh database each. */
+export function createApp(deps: AppDeps): Express {
+  const { config, db } = deps;
+  const logger = deps.logger ?? pino({ level: config.isTest ? 'silent' : config.LOG_LEVEL });
+  const mailer = deps.mailer ?? createMailer(db, { smtpUrl: config.SMTP_URL, from: config.MAIL_FROM, logger });
+  const ctx: AppContext = { config, db, logger, mailer };
+
+  const app = express();
+  app.set('trust proxy', config.TRUST_PROXY);
+  app.set('view engine', 'ejs');
+  app.set('views', path.resolve('views'));
+  app.disable('x-powered-by');
+  app.locals.roleLabels = ROLE_LABELS;
+
+  app.use(securityHeaders(Boolean(deps.vite)));
+
+  // Built assets come first: they need no session, so no session row is made for them.
+  if (deps.vite) {
+    app.use(deps.vite.middlewares);
+  } else {
+    app.use(
+      '/static',
+      express.static(CLIENT_DIST, {
+        index: false,
+        redirect: false,
+        setHeaders(res, file) {
+          // Hashed file names never change content: cache them for a year.
+          if (file.includes(`${path.sep}assets${path.sep}`)) res.setHeader('Cache-Control', 'public, max-age=31536000, immutable');
+        },
+      }),
+    );
+  }
+
+  // Cheap request logging: one line per request, none for health checks.
+  app.use(
+    pinoHttp({
+      logger,
+      autoLogging: { ignore: (req) => req.url === '/healthz' },
+      quietReqLogger: true,
+    }),
+  );
+  app.get('/healthz', (_req, res) => {
+    res.json({ ok: true });
+  });
+
+  app.use(express.json({ limit: '1mb' }));
+  app.use(express.urlencoded({ extended: false, limit: '1mb' }));
+
+  const passport = configurePassport(db);
+  app.use(
+    session({
+      name: 'crowntip.sid',
+      secret: deps.sessionSecret,
+      store: new SessionStore(db, 60_000, config.isTest ? 0 : 10 * 60_000),
+      resave: false,
+      saveUninitialized: false, // no session row for anonymous page views (STACK.md, gotcha 2)
+      cookie: {
+        httpOnly: true,
+        sameSite: 'lax',
+        secure: 'auto', // Secure whenever the request came over HTTPS (through a trusted proxy)
+        maxAge: config.SESSION_HOURS * 3600 * 1000,
+      },
+    }),
+  );
+  app.use(passport.initialize());
+  app.use(passport.session());
+
+  // Sign-in limits run before the CSRF check, so a flood of bad tokens still counts (gotcha 3).
+  const limits = signInLimits(config.SIGNIN_LIMIT_PER_ACCOUNT, config.SIGNIN_LIMIT_PER_ADDRESS);
+  app.post('/login', ...limits);
+  app.post('/api/session', ...limits);
+
+  app.use(csrfProtection());
+
+  const assets = readOfficeAssets(Boolean(deps.vite));
+  app.use((req, res, next) => {
+    res.locals.user = req.user ?? null;
+    res.locals.csrfToken = req.csrfToken ? req.csrfToken() : '';
+    res.locals.assets = assets;
+    res.locals.currentPath = req.path;
+    res.locals.flash = req.session?.flash ?? null;
+    if (req.session?.flash) delete req.session.flash;
+    next();
+  });
+
+  app.use('/api/session', sessionApi(ctx, passport));
+  app.use('/api', notFound);
+
+  app.use(authPages(ctx, passport));
+  app.use(homePages(ctx));
+  app.use(accountPages(ctx));
+  app.use('/admin/users', userAdminPages(ctx));
+  app.use('/admin/outbox', outboxPages(ctx));
+  app.use(captureApp(deps.vite));
+
+  app.use(notFound);
+  app.use(errorHandler(logger));
+  return app;
+}

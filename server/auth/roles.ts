@@ -1,0 +1,25 @@
+/** The four roles of ../shared/PRODUCT.md and what they may do, in one place. */
+export const ROLES = ['admin', 'clerk', 'sampler', 'auditor'] as const;
+export type Role = (typeof ROLES)[number];
+
+export const ROLE_LABELS: Record<Role, string> = {
+  admin: 'Administrator',
+  clerk: 'Office clerk',
+  sampler: 'Sampler',
+  auditor: 'Auditor (read-only)',
+};
+
+export const ROLE_SUMMARIES: Record<Role, string> = {
+  admin: 'users, roles, organisation settings, credit rules and calibrations',
+  clerk: 'the farm registry, walk review and credit registers',
+  sampler: 'field walks on a phone in /capture',
+  auditor: 'reads registers, walks, calibrations and the change history; prints and exports',
+};
+
+/** Roles that use the office pages; samplers work in /capture. */
+export const OFFICE_ROLES: Role[] = ['admin', 'clerk', 'auditor'];
+
+/** Where each role lands after signing in. */
+export function homeFor(role: Role): string {
+  return role === 'sampler' ? '/capture' : '/office';
+}

@@ -1,0 +1,51 @@
+import helmet from 'helmet';
+import lusca from 'lusca';
+import type { RequestHandler } from 'express';
+
+/**
+ * Security headers. The content security policy allows only the app's own scripts, styles, fonts
+ * and images; no inline script. In development Vite's hot reload needs inline styles and a socket.
+ */
+export function securityHeaders(dev: boolean): RequestHandler {
+  return helmet({
+    contentSecurityPolicy: {
+      directives: {
+        defaultSrc: ["'self'"],
+        scriptSrc: ["'self'"],
+        styleSrc: dev ? ["'self'", "'unsafe-inline'"] : ["'self'"],
+        fontSrc: ["'self'"],
+        imgSrc: ["'self'", 'data:', 'blob:'],
+        connectSrc: dev ? ["'self'", 'ws:'] : ["'self'"],
+        workerSrc: ["'self'"],
+        manifestSrc: ["'self'"],
+        objectSrc: ["'none'"],
+        baseUri: ["'self'"],
+        formAction: ["'self'"],
+        frameAncestors: ["'none'"],
+        // Served over plain HTTP on a farm office network too (../shared/STACK.md, gotcha 6).
+        upgradeInsecureRequests: null,
+      },
+    },
+    crossOriginEmbedderPolicy: false,
+  });
+}
+
+/**
+ * lusca's CSRF check on every mutating request. The JSON sign-in is the one exception: a
+ * cross-site page cannot send an application/json body without a CORS preflight, which this
+ * server never grants, and a signed-out client has no token yet.
+ */
+export function csrfProtection(): RequestHandler {
+  const check = lusca.csrf();
+  return (req, res, next) => {
+    if (req.method === 'POST' && req.path === '/api/session' && req.is('application/json')) {
+      // Let lusca treat it as a safe read, so req.csrfToken() still hands out a token.
+      const asRead = Object.create(req, { method: { value: 'GET' } });
+      return check(asRead, res, (err?: unknown) => {
+        req.csrfToken = asRead.csrfToken;
+        next(err);
+      });
+    }
+    return check(req, res, next);
+  };
+}

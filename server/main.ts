@@ -1,0 +1,75 @@
+import fs from 'node:fs';
+import path from 'node:path';
+import { randomBytes } from 'node:crypto';
+import { pino } from 'pino';
+import { loadConfig, type Config } from './config';
+import { openDatabase, migrateLatest } from './db/knex';
+import { countOrganisations } from './db/organisations';
+import { createApp } from './app';
+import { clientIsBuilt } from './http/assets';
+import { seedDemoScenario } from '../seeds/01_demo_scenario';
+import { DEMO_USERS } from '../seeds/demo-people';
+
+/** The cookie-signing secret: from the environment, or made once and kept beside the database. */
+function sessionSecret(config: Config): string {
+  if (config.SESSION_SECRET) return config.SESSION_SECRET;
+  const file = path.join(path.dirname(path.resolve(config.DATABASE_FILE)), '.session-secret');
+  if (!fs.existsSync(file)) {
+    fs.mkdirSync(path.dirname(file), { recursive: true });
+    fs.writeFileSync(file, randomBytes(32).toString('hex'), { mode: 0o600 });
+  }
+  return fs.readFileSync(file, 'utf8').trim();
+}
+
+async function main() {
+  const config = loadConfig();
+  const logger = pino({ level: config.LOG_LEVEL });
+  fs.mkdirSync(path.resolve(config.UPLOADS_DIR), { recursive: true });
+
+  const db = openDatabase(config.DATABASE_FILE);
+  const applied = await migrateLatest(db);
+  if (applied.length) logger.info({ applied }, 'database migrated');
+
+  let seeded = false;
+  if (config.SEED_DEMO && (await countOrganisations(db)) === 0) {
+    await seedDemoScenario(db, { password: config.DEMO_PASSWORD, bcryptRounds: config.BCRYPT_ROUNDS });
+    seeded = true;
+  }
+
+  let vite;
+  if (config.isDev) {
+    const { createServer } = await import('vite');
+    vite = await createServer({ server: { middlewareMode: true }, appType: 'custom' });
+  } else if (!clientIsBuilt()) {
+    logger.info('building the capture app (first start)…');
+    const { build } = await import('vite');
+    await build({ logLevel: 'warn' });
+  }
+
+  const app = createApp({ config, db, logger, vite, sessionSecret: sessionSecret(config) });
+  const server = app.listen(config.PORT, config.HOST, () => {
+    const url = config.PUBLIC_URL;
+    const lines = [
+      '',
+      `Crowntip is running at ${url}`,
+      seeded ? 'The invented demo scenario was loaded into the new database.' : '',
+      config.SEED_DEMO
+        ? `Demo sign-ins (password "${config.DEMO_PASSWORD}"):\n${DEMO_USERS.map((u) => `  ${u.role.padEnd(8)} ${u.email}`).join('\n')}`
+        : '',
+      '',
+    ].filter((l) => l !== '');
+    console.log(lines.join('\n'));
+  });
+
+  const stop = () => {
+    server.close(() => void db.destroy().then(() => process.exit(0)));
+    setTimeout(() => process.exit(0), 5000).unref();
+  };
+  process.on('SIGINT', stop);
+  process.on('SIGTERM', stop);
+}
+
+main().catch((err) => {
+  console.error(err instanceof Error ? err.message : err);
+  process.exit(1);
+});

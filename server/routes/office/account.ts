@@ -1,0 +1,51 @@
+import { Router } from 'express';
+import { z } from 'zod';
+import type { AppContext } from '../../app';
+import { requireSignIn } from '../../auth/guards';
+import { hashPassword, passwordSchema, verifyPassword } from '../../auth/passwords';
+import { parseForm } from '../../http/validate';
+import { findUserForSignIn, setUserPassword, setUserPreferences } from '../../db/users';
+
+const passwordForm = z
+  .object({ current: z.string().min(1, 'Enter your current password.'), password: passwordSchema, confirm: z.string() })
+  .refine((v) => v.password === v.confirm, { message: 'The two passwords differ.', path: ['confirm'] });
+
+const preferencesForm = z.object({
+  units: z.enum(['us', 'metric'], { message: 'Choose US customary or metric units.' }),
+  language: z.enum(['en', 'es'], { message: 'Choose English or Spanish.' }),
+});
+
+/** Every signed-in user: own password, units and language. */
+export function accountPages(ctx: AppContext): Router {
+  const router = Router();
+  router.use('/account', requireSignIn);
+
+  const show = (res: import('express').Response, status: number, extra: Record<string, unknown> = {}) =>
+    res.status(status).render('account/index', { title: 'Your account', passwordErrors: {}, prefErrors: {}, ...extra });
+
+  router.get('/account', (_req, res) => show(res, 200));
+
+  router.post('/account/password', async (req, res) => {
+    const user = req.user!;
+    const parsed = parseForm(passwordForm, req.body);
+    if (!parsed.ok) return show(res, 400, { passwordErrors: parsed.errors });
+    const stored = await findUserForSignIn(ctx.db, user.email);
+    if (!(await verifyPassword(parsed.value.current, stored?.passwordHash))) {
+      return show(res, 400, { passwordErrors: { current: 'That is not your current password.' } });
+    }
+    await setUserPassword(ctx.db, user.organisationId, user.id, await hashPassword(parsed.value.password, ctx.config.BCRYPT_ROUNDS));
+    req.session.flash = { kind: 'info', text: 'Your password is changed.' };
+    res.redirect('/account');
+  });
+
+  router.post('/account/preferences', async (req, res) => {
+    const user = req.user!;
+    const parsed = parseForm(preferencesForm, req.body);
+    if (!parsed.ok) return show(res, 400, { prefErrors: parsed.errors });
+    await setUserPreferences(ctx.db, user.organisationId, user.id, parsed.value);
+    req.session.flash = { kind: 'info', text: 'Your preferences are saved.' };
+    res.redirect('/account');
+  });
+
+  return router;
+}

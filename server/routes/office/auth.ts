@@ -1,0 +1,117 @@
+import { Router } from 'express';
+import type passport from 'passport';
+import { z } from 'zod';
+import type { AppContext } from '../../app';
+import { homeFor } from '../../auth/roles';
+import { SIGN_IN_FAILED } from '../../auth/passport';
+import { hashPassword, passwordSchema } from '../../auth/passwords';
+import { parseForm } from '../../http/validate';
+import { findUserById, findUserForSignIn, recordSignIn, setUserPassword } from '../../db/users';
+import { checkUserToken, spendUserToken, type TokenPurpose } from '../../db/user-tokens';
+import { sendPasswordResetLink } from '../../services/account-links';
+
+/** Only paths on this site are followed after sign-in, never another host. */
+export function safeNext(next: unknown): string | null {
+  return typeof next === 'string' && next.startsWith('/') && !next.startsWith('//') && !next.startsWith('/\\') ? next : null;
+}
+
+const setPasswordForm = z
+  .object({ password: passwordSchema, confirm: z.string() })
+  .refine((v) => v.password === v.confirm, { message: 'The two passwords differ.', path: ['confirm'] });
+
+const TOKEN_PROBLEMS = {
+  unknown: 'This link is not valid. Ask for a new one.',
+  used: 'This link has already been used. Ask for a new one if you need it.',
+  expired: 'This link has expired. Ask for a new one.',
+};
+
+export function authPages(ctx: AppContext, pp: passport.PassportStatic): Router {
+  const router = Router();
+
+  router.get('/login', (req, res) => {
+    if (req.user) return res.redirect(homeFor(req.user.role));
+    res.render('auth/login', { title: 'Sign in', email: '', error: null, next: safeNext(req.query.next) });
+  });
+
+  router.post('/login', (req, res, next) => {
+    const target = safeNext(req.body?.next);
+    const email = typeof req.body?.email === 'string' ? req.body.email : '';
+    pp.authenticate('local', (err: unknown, user: Express.User | false) => {
+      if (err) return next(err);
+      if (!user) {
+        res.status(401).render('auth/login', { title: 'Sign in', email, error: SIGN_IN_FAILED, next: target });
+        return;
+      }
+      req.logIn(user, async (loginErr) => {
+        if (loginErr) return next(loginErr);
+        await recordSignIn(ctx.db, user.organisationId, user.id);
+        res.redirect(target ?? homeFor(user.role));
+      });
+    })(req, res, next);
+  });
+
+  router.post('/logout', (req, res, next) => {
+    req.logout((err) => {
+      if (err) return next(err);
+      req.session.destroy(() => {
+        res.clearCookie('crowntip.sid');
+        res.redirect('/login');
+      });
+    });
+  });
+
+  router.get('/password/forgot', (_req, res) => {
+    res.render('auth/forgot', { title: 'Forgotten password', email: '', sent: false, errors: {} });
+  });
+
+  router.post('/password/forgot', async (req, res) => {
+    const parsed = parseForm(z.object({ email: z.string().trim().email('Enter an e-mail address.') }), req.body);
+    if (!parsed.ok) {
+      res.status(400).render('auth/forgot', { title: 'Forgotten password', email: req.body?.email ?? '', sent: false, errors: parsed.errors });
+      return;
+    }
+    const user = await findUserForSignIn(ctx.db, parsed.value.email);
+    // The same answer whether or not the address has an account.
+    if (user && user.active) await sendPasswordResetLink(ctx, user);
+    res.render('auth/forgot', { title: 'Forgotten password', email: parsed.value.email, sent: true, errors: {} });
+  });
+
+  const tokenRoutes = (purpose: TokenPurpose, base: string, title: string) => {
+    router.get(`${base}/:token`, async (req, res) => {
+      const check = await checkUserToken(ctx.db, req.params.token, purpose);
+      const who = check.ok ? await findUserById(ctx.db, check.userId) : undefined;
+      res.status(check.ok ? 200 : 410).render('auth/set-password', {
+        title,
+        purpose,
+        who,
+        problem: check.ok ? null : TOKEN_PROBLEMS[check.reason],
+        errors: {},
+      });
+    });
+    router.post(`${base}/:token`, async (req, res) => {
+      const token = req.params.token;
+      const check = await checkUserToken(ctx.db, token, purpose);
+      if (!check.ok) {
+        res.status(410).render('auth/set-password', { title, purpose, who: undefined, problem: TOKEN_PROBLEMS[check.reason], errors: {} });
+        return;
+      }
+      const who = await findUserById(ctx.db, check.userId);
+      const parsed = parseForm(setPasswordForm, req.body);
+      if (!parsed.ok || !who) {
+        res.status(400).render('auth/set-password', { title, purpose, who, problem: null, errors: parsed.ok ? {} : parsed.errors });
+        return;
+      }
+      if (!(await spendUserToken(ctx.db, token, purpose))) {
+        res.status(410).render('auth/set-password', { title, purpose, who: undefined, problem: TOKEN_PROBLEMS.used, errors: {} });
+        return;
+      }
+      await setUserPassword(ctx.db, who.organisationId, who.id, await hashPassword(parsed.value.password, ctx.config.BCRYPT_ROUNDS));
+      req.session.flash = { kind: 'info', text: 'Your password is set. Sign in with it now.' };
+      res.redirect('/login');
+    });
+  };
+  tokenRoutes('reset', '/password/reset', 'Choose a new password');
+  tokenRoutes('invite', '/invite', 'Welcome to Crowntip');
+
+  return router;
+}

@@ -1,0 +1,37 @@
+import { Router } from 'express';
+import { z } from 'zod';
+import type { AppContext } from '../../app';
+import { requireRole } from '../../auth/guards';
+import { HttpError } from '../../http/errors';
+import { getOutboxMessage, listOutbox } from '../../db/outbox';
+
+const PAGE = 50;
+const pageQuery = z.object({ page: z.coerce.number().int().min(1).default(1).catch(1) });
+
+/** Admin only: every message Crowntip sent or captured for this organisation. */
+export function outboxPages(ctx: AppContext): Router {
+  const router = Router();
+  router.use(requireRole('admin'));
+
+  router.get('/', async (req, res) => {
+    const { page } = pageQuery.parse(req.query);
+    const { items, total } = await listOutbox(ctx.db, req.user!.organisationId, { limit: PAGE, offset: (page - 1) * PAGE });
+    res.render('admin/outbox', {
+      title: 'Outbox',
+      items,
+      total,
+      page,
+      pages: Math.max(1, Math.ceil(total / PAGE)),
+      capturing: !ctx.config.SMTP_URL,
+    });
+  });
+
+  router.get('/:id', async (req, res) => {
+    const message = await getOutboxMessage(ctx.db, req.user!.organisationId, req.params.id);
+    if (!message) throw new HttpError('not_found');
+    // Links in the text become clickable so an invitation can be followed from here in development.
+    res.render('admin/outbox-message', { title: message.subject, message, links: message.text.match(/https?:\/\/\S+/g) ?? [] });
+  });
+
+  return router;
+}

@@ -1,0 +1,20 @@
+import type { User as CrowntipUser } from './db/users';
+
+declare global {
+  namespace Express {
+    // The signed-in user, loaded fresh from the database on every request.
+    interface User extends CrowntipUser {}
+    interface Request {
+      /** Set by lusca: the CSRF token for forms and the X-CSRF-Token header. */
+      csrfToken?: () => string;
+    }
+  }
+}
+
+declare module 'express-session' {
+  interface SessionData {
+    flash?: { kind: 'info' | 'error'; text: string };
+  }
+}
+
+export {};
