@@ -112,16 +112,20 @@ export function createApp(deps: AppDeps): Express {
   app.post('/login', ...limits);
   app.post('/api/session', ...limits);
 
-  app.use(csrfProtection());
-
-  const assets = readOfficeAssets(Boolean(deps.vite));
+  // Page defaults first, so that even a page rejected by the CSRF check renders its error.
+  app.locals.assets = readOfficeAssets(Boolean(deps.vite));
   app.use((req, res, next) => {
     res.locals.user = req.user ?? null;
-    res.locals.csrfToken = req.csrfToken ? req.csrfToken() : '';
-    res.locals.assets = assets;
     res.locals.currentPath = req.path;
+    res.locals.csrfToken = '';
     res.locals.flash = req.session?.flash ?? null;
     if (req.session?.flash) delete req.session.flash;
+    next();
+  });
+
+  app.use(csrfProtection());
+  app.use((req, res, next) => {
+    res.locals.csrfToken = req.csrfToken ? req.csrfToken() : '';
     next();
   });
 

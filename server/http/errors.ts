@@ -106,11 +106,20 @@ export function errorHandler(logger: Logger): ErrorRequestHandler {
       res.redirect(`/login?next=${encodeURIComponent(req.originalUrl)}`);
       return;
     }
-    res.render('error', {
+    const locals = {
       title: httpError.status === 404 ? 'Not found' : httpError.status === 403 ? 'Not allowed' : 'Something went wrong',
       status: httpError.status,
       code: httpError.code,
       message: httpError.message,
+    };
+    res.render('error', locals, (renderErr, html) => {
+      if (renderErr) {
+        // Never show a stack trace: fall back to plain words.
+        logger.error({ err: renderErr }, 'error page failed to render');
+        res.type('text').send(`${locals.title}: ${locals.message}`);
+        return;
+      }
+      res.send(html);
     });
   };
 }
