@@ -31,10 +31,3 @@ export const sessionResponseSchema = z.object({
   csrfToken: z.string().min(1),
 });
 export type SessionResponse = z.infer<typeof sessionResponseSchema>;
-
-/** `POST /api/session` body (sign-in). */
-export const signInSchema = z.object({
-  email: z.string().trim().min(1).max(254),
-  password: z.string().min(1).max(1024),
-});
-export type SignIn = z.infer<typeof signInSchema>;
