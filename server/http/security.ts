@@ -11,7 +11,7 @@ export function securityHeaders(dev: boolean): RequestHandler {
     contentSecurityPolicy: {
       directives: {
         defaultSrc: ["'self'"],
-        scriptSrc: ["'self'"],
+        scriptSrc: dev ? ["'self'", "'unsafe-inline'"] : ["'self'"], // Vite's React refresh preamble is inline
         styleSrc: dev ? ["'self'", "'unsafe-inline'"] : ["'self'"],
         fontSrc: ["'self'"],
         imgSrc: ["'self'", 'data:', 'blob:'],

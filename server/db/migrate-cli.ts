@@ -1,0 +1,9 @@
+// `npm run migrate`: applies pending migrations to DATABASE_FILE without starting the server.
+import { loadConfig } from '../config';
+import { migrateLatest, openDatabase } from './knex';
+
+const config = loadConfig();
+const db = openDatabase(config.DATABASE_FILE);
+const applied = await migrateLatest(db);
+console.log(applied.length ? `Applied: ${applied.join(', ')}` : 'The database is up to date.');
+await db.destroy();

@@ -1,0 +1,48 @@
+import fs from 'node:fs';
+import os from 'node:os';
+import path from 'node:path';
+import { chromium, type BrowserContext, type Page } from 'playwright-core';
+
+export const SCREENSHOTS = path.resolve('tests/browser/screenshots');
+
+/** Debian's Chromium, headless, with the flags this closed network needs (../shared/STACK.md, 7). */
+export async function openBrowser(options: { viewport?: { width: number; height: number } } = {}): Promise<{
+  context: BrowserContext;
+  close: () => Promise<void>;
+}> {
+  const profile = fs.mkdtempSync(path.join(os.tmpdir(), 'crowntip-chromium-'));
+  const context = await chromium.launchPersistentContext(profile, {
+    executablePath: process.env.CHROMIUM_PATH || '/usr/bin/chromium',
+    headless: true,
+    viewport: options.viewport ?? { width: 1280, height: 860 },
+    args: [
+      '--no-sandbox',
+      '--disable-gpu',
+      '--disable-quic',
+      '--no-first-run',
+      '--disable-background-networking',
+      '--disable-component-update',
+      '--disable-sync',
+    ],
+  });
+  return {
+    context,
+    close: async () => {
+      await context.close();
+      fs.rmSync(profile, { recursive: true, force: true });
+    },
+  };
+}
+
+export async function screenshot(page: Page, name: string) {
+  fs.mkdirSync(SCREENSHOTS, { recursive: true });
+  await page.screenshot({ path: path.join(SCREENSHOTS, `${name}.png`), fullPage: true });
+}
+
+export async function signIn(page: Page, baseUrl: string, email: string, password: string) {
+  await page.goto(`${baseUrl}/login`);
+  await page.getByLabel('E-mail').fill(email);
+  await page.getByLabel('Password').fill(password);
+  await page.getByRole('button', { name: 'Sign in' }).click();
+  await page.waitForLoadState('networkidle');
+}
