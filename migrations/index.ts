@@ -3,6 +3,8 @@ import * as m20261201090000 from './20261201090000_create_organisations_and_user
 import * as m20261201090100 from './20261201090100_create_sessions';
 import * as m20261201090200 from './20261201090200_create_user_tokens';
 import * as m20261201090300 from './20261201090300_create_mail_outbox';
+import * as m20261201100000 from './20261201100000_create_registry';
+import * as m20261201100100 from './20261201100100_fill_crop_list';
 
 interface Migration {
   up: (knex: Knex) => Promise<void>;
@@ -16,6 +18,8 @@ const migrations: Record<string, Migration> = {
   '20261201090100_create_sessions': m20261201090100,
   '20261201090200_create_user_tokens': m20261201090200,
   '20261201090300_create_mail_outbox': m20261201090300,
+  '20261201100000_create_registry': m20261201100000,
+  '20261201100100_fill_crop_list': m20261201100100,
 };
 
 export const migrationSource: Knex.MigrationSource<string> = {

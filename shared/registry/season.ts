@@ -1,0 +1,27 @@
+/**
+ * A cover-crop season is the winter it grows through, written "2026-27". Seeding from July on
+ * belongs to the season starting that year; seeding before July to the one that started the year
+ * before (a late-winter seeding still scavenges that winter's rain).
+ */
+export const SEASON_PATTERN = /^(\d{4})-(\d{2})$/;
+
+export function isSeason(s: string): boolean {
+  const m = SEASON_PATTERN.exec(s);
+  return Boolean(m && (Number(m[1]) + 1) % 100 === Number(m[2]));
+}
+
+export function seasonOfDate(isoDate: string): string {
+  const year = Number(isoDate.slice(0, 4));
+  const month = Number(isoDate.slice(5, 7));
+  const start = month >= 7 ? year : year - 1;
+  return seasonStarting(start);
+}
+
+export const seasonStarting = (year: number) => `${year}-${String((year + 1) % 100).padStart(2, '0')}`;
+
+export const seasonStartYear = (season: string) => Number(season.slice(0, 4));
+
+/** Shown with an en dash, as people write it: "2026–27". */
+export const seasonLabel = (season: string) => season.replace('-', '–');
+
+export const todayIso = (now = new Date()) => now.toISOString().slice(0, 10);
