@@ -21,6 +21,7 @@ import { userAdminPages } from './routes/office/users';
 import { outboxPages } from './routes/office/outbox';
 import { accountPages } from './routes/office/account';
 import { captureApp } from './routes/capture';
+import { mountRegistryApi } from './routes/api/registry-routes';
 
 export interface AppDeps {
   config: Config;
@@ -130,6 +131,7 @@ export function createApp(deps: AppDeps): Express {
   });
 
   app.use('/api/session', sessionApi(ctx, passport));
+  mountRegistryApi(app, ctx);
   app.use('/api', notFound);
 
   app.use(authPages(ctx, passport));

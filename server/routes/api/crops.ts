@@ -1,0 +1,14 @@
+import { Router } from 'express';
+import type { AppContext } from '../../app';
+import { requireSignIn } from '../../auth/guards';
+import { listCrops } from '../../db/plantings';
+
+/** GET /api/crops: the crop list every install has (from a migration), for any signed-in role. */
+export function cropsApi(ctx: AppContext): Router {
+  const router = Router();
+  router.get('/', requireSignIn, async (_req, res) => {
+    const items = await listCrops(ctx.db);
+    res.json({ items, total: items.length });
+  });
+  return router;
+}

@@ -1,0 +1,76 @@
+import { Router, type Request, type Response } from 'express';
+import { z } from 'zod';
+import type { AppContext } from '../../app';
+import { requireRole, requireSignIn } from '../../auth/guards';
+import { HttpError } from '../../http/errors';
+import { validateBody, validateQuery } from '../../http/validate';
+import { getRanch, listRanches, RANCH_SORTS, type Ranch, type RanchSort } from '../../db/ranches';
+import { createRanch, deleteRanch, updateRanch } from '../../services/registry';
+import { pagingSchema, ranchInputSchema, ranchPatchSchema, seasonSchema } from '../../../shared/schemas/registry';
+import { actorOf, currentSeason, listQuery, searchText } from './registry-helpers';
+
+// Sort keys as the answer spells them (camelCase); the office pages' column names work too.
+const SORT_ALIASES: Record<string, RanchSort> = {
+  fieldCount: 'field_count',
+  totalAreaHa: 'total_area_ha',
+  coverCroppedAreaHa: 'cover_cropped_area_ha',
+};
+const SORT_KEYS = [...RANCH_SORTS, ...Object.keys(SORT_ALIASES)];
+const sortSchema = z
+  .string()
+  .refine((s) => SORT_KEYS.includes(s), `Sort by one of: name, code, county, ${Object.keys(SORT_ALIASES).join(', ')}.`)
+  .transform((s) => SORT_ALIASES[s] ?? (s as RanchSort));
+
+const listSchema = listQuery(
+  pagingSchema.extend({
+    q: searchText.optional(),
+    season: seasonSchema.optional(),
+    sort: sortSchema.optional(),
+    dir: z.enum(['asc', 'desc'], { message: 'Use asc or desc.' }).optional(),
+  }),
+);
+const seasonQuery = listQuery(z.object({ season: seasonSchema.optional() }));
+
+/** A ranch as the API answers it: with the season its cover-cropped area was counted for. */
+const answer = (ranch: Ranch, season: string) => ({ ...ranch, coverCroppedSeason: season });
+
+/** /api/ranches (../shared/API.md, Registry): everyone in the organisation reads, clerk and admin write. */
+export function ranchesApi(ctx: AppContext): Router {
+  const router = Router();
+  const writers = requireRole('clerk', 'admin');
+
+  const list = async (req: Request, res: Response) => {
+    const query = res.locals.query as z.infer<typeof listSchema>;
+    const season = query.season ?? currentSeason();
+    const { items, total } = await listRanches(ctx.db, req.user!.organisationId, { ...query, season });
+    res.json({ items: items.map((r) => answer(r, season)), total });
+  };
+
+  const show = async (req: Request<{ id: string }>, res: Response) => {
+    const season = (res.locals.query as z.infer<typeof seasonQuery>).season ?? currentSeason();
+    const ranch = await getRanch(ctx.db, req.user!.organisationId, req.params.id, season);
+    if (!ranch) throw new HttpError('not_found');
+    res.json(answer(ranch, season));
+  };
+
+  // The service counts a written ranch's totals for the current season.
+  const create = async (req: Request, res: Response) => {
+    res.status(201).json(answer(await createRanch(ctx.db, actorOf(req), req.body), currentSeason()));
+  };
+
+  const update = async (req: Request<{ id: string }>, res: Response) => {
+    res.json(answer(await updateRanch(ctx.db, actorOf(req), req.params.id, req.body), currentSeason()));
+  };
+
+  const remove = async (req: Request<{ id: string }>, res: Response) => {
+    await deleteRanch(ctx.db, actorOf(req), req.params.id);
+    res.status(204).end();
+  };
+
+  router.get('/', requireSignIn, validateQuery(listSchema), list);
+  router.post('/', writers, validateBody(ranchInputSchema), create);
+  router.get('/:id', requireSignIn, validateQuery(seasonQuery), show);
+  router.patch('/:id', writers, validateBody(ranchPatchSchema), update);
+  router.delete('/:id', writers, remove);
+  return router;
+}
