@@ -1,6 +1,7 @@
 import type { Knex } from 'knex';
 import bcrypt from 'bcryptjs';
 import { DEMO_ORGANISATIONS, DEMO_USERS } from './demo-people';
+import { seedDemoRegistry } from './02_demo_registry';
 
 export interface SeedOptions {
   password: string;
@@ -38,4 +39,5 @@ export async function seedDemoScenario(db: Knex, opts: SeedOptions): Promise<voi
       .onConflict('id')
       .ignore();
   });
+  await seedDemoRegistry(db);
 }

@@ -10,9 +10,11 @@ import { configurePassport } from './auth/passport';
 import { SessionStore } from './auth/session-store';
 import { signInLimits } from './auth/sign-in-limits';
 import { ROLE_LABELS } from './auth/roles';
+import { CROP_LABELS } from '../shared/registry/crops';
 import { errorHandler, notFound } from './http/errors';
 import { csrfProtection, securityHeaders } from './http/security';
 import { CLIENT_DIST, readOfficeAssets } from './http/assets';
+import { makeFormatter, pickLocale } from './http/format';
 import { createMailer, type Mailer } from './mail/mailer';
 import { sessionApi } from './routes/api/session';
 import { authPages } from './routes/office/auth';
@@ -21,6 +23,9 @@ import { userAdminPages } from './routes/office/users';
 import { outboxPages } from './routes/office/outbox';
 import { accountPages } from './routes/office/account';
 import { captureApp } from './routes/capture';
+import { FIELD_FORM_PATHS, boundaryUpload, registryPages } from './routes/office/registry';
+import { seasonPages } from './routes/office/season';
+import { historyPages } from './routes/office/history';
 import { mountRegistryApi } from './routes/api/registry-routes';
 
 export interface AppDeps {
@@ -54,6 +59,7 @@ export function createApp(deps: AppDeps): Express {
   app.set('views', path.resolve('views'));
   app.disable('x-powered-by');
   app.locals.roleLabels = ROLE_LABELS;
+  app.locals.cropLabels = CROP_LABELS;
 
   app.use(securityHeaders(Boolean(deps.vite)));
 
@@ -118,12 +124,15 @@ export function createApp(deps: AppDeps): Express {
   app.use((req, res, next) => {
     res.locals.user = req.user ?? null;
     res.locals.currentPath = req.path;
+    res.locals.fmt = makeFormatter(req.user?.units ?? 'us', pickLocale((l) => req.acceptsLanguages(l)));
     res.locals.csrfToken = '';
     res.locals.flash = req.session?.flash ?? null;
     if (req.session?.flash) delete req.session.flash;
     next();
   });
 
+  // Multipart field forms are parsed before the CSRF check so that it can read their token.
+  app.post(FIELD_FORM_PATHS, boundaryUpload);
   app.use(csrfProtection());
   app.use((req, res, next) => {
     res.locals.csrfToken = req.csrfToken ? req.csrfToken() : '';
@@ -139,6 +148,9 @@ export function createApp(deps: AppDeps): Express {
   app.use(accountPages(ctx));
   app.use('/admin/users', userAdminPages(ctx));
   app.use('/admin/outbox', outboxPages(ctx));
+  app.use(registryPages(ctx));
+  app.use(seasonPages(ctx));
+  app.use(historyPages(ctx));
   app.use(captureApp(deps.vite));
 
   app.use(notFound);

@@ -1,0 +1,42 @@
+import { haToAc, kgPerHaToLbPerAc } from '../../shared/calc/units';
+import type { Units } from '../db/users';
+
+/**
+ * Numbers and dates as one user reads them: their units (SI is what is stored) and their
+ * browser's locale for dates.
+ */
+export interface Formatter {
+  units: Units;
+  areaUnit: string;
+  rateUnit: string;
+  area: (ha: number | null | undefined, digits?: number) => string;
+  areaValue: (ha: number | null | undefined) => string;
+  rate: (kgHa: number | null | undefined) => string;
+  rateValue: (kgHa: number | null | undefined) => string;
+  date: (iso: string | null | undefined) => string;
+  number: (n: number, digits?: number) => string;
+}
+
+const SUPPORTED = ['en-US', 'en-GB', 'en-AU', 'en-CA', 'es-MX', 'es-ES', 'es-US', 'en', 'es'];
+
+export function makeFormatter(units: Units, acceptLanguage: string | false): Formatter {
+  const locale = acceptLanguage || 'en-US';
+  const numberFmt = (digits: number) => new Intl.NumberFormat(locale, { maximumFractionDigits: digits, minimumFractionDigits: digits });
+  const areaOf = (ha: number) => (units === 'us' ? haToAc(ha) : ha);
+  const rateOf = (kg: number) => (units === 'us' ? kgPerHaToLbPerAc(kg) : kg);
+  const dateFmt = new Intl.DateTimeFormat(locale, { year: 'numeric', month: 'short', day: 'numeric', timeZone: 'UTC' });
+  return {
+    units,
+    areaUnit: units === 'us' ? 'ac' : 'ha',
+    rateUnit: units === 'us' ? 'lb/ac' : 'kg/ha',
+    area: (ha, digits = 1) => (ha == null ? '—' : `${numberFmt(digits).format(areaOf(ha))} ${units === 'us' ? 'ac' : 'ha'}`),
+    // Plain numbers for form inputs: dot decimals whatever the locale, as <input type=number> wants.
+    areaValue: (ha) => (ha == null ? '' : String(Math.round(areaOf(ha) * 1000) / 1000)),
+    rate: (kg) => (kg == null ? '—' : `${numberFmt(0).format(rateOf(kg))} ${units === 'us' ? 'lb/ac' : 'kg/ha'}`),
+    rateValue: (kg) => (kg == null ? '' : String(Math.round(rateOf(kg) * 10) / 10)),
+    date: (iso) => (iso ? dateFmt.format(new Date(`${iso.slice(0, 10)}T00:00:00Z`)) : '—'),
+    number: (n, digits = 0) => numberFmt(digits).format(n),
+  };
+}
+
+export const pickLocale = (accepts: (langs: string[]) => string | false) => accepts(SUPPORTED);
