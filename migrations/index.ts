@@ -5,6 +5,7 @@ import * as m20261201090200 from './20261201090200_create_user_tokens';
 import * as m20261201090300 from './20261201090300_create_mail_outbox';
 import * as m20261201100000 from './20261201100000_create_registry';
 import * as m20261201100100 from './20261201100100_fill_crop_list';
+import * as m20261201130000 from './20261201130000_create_credit_rules';
 
 interface Migration {
   up: (knex: Knex) => Promise<void>;
@@ -20,10 +21,12 @@ const migrations: Record<string, Migration> = {
   '20261201090300_create_mail_outbox': m20261201090300,
   '20261201100000_create_registry': m20261201100000,
   '20261201100100_fill_crop_list': m20261201100100,
+  '20261201130000_create_credit_rules': m20261201130000,
 };
 
 export const migrationSource: Knex.MigrationSource<string> = {
-  getMigrations: async () => Object.keys(migrations),
+  // Sorted by timestamp, whatever order lines were added in.
+  getMigrations: async () => Object.keys(migrations).sort(),
   getMigrationName: (name) => name,
   getMigration: async (name) => migrations[name],
 };

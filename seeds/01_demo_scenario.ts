@@ -2,6 +2,7 @@ import type { Knex } from 'knex';
 import bcrypt from 'bcryptjs';
 import { DEMO_ORGANISATIONS, DEMO_USERS } from './demo-people';
 import { seedDemoRegistry } from './02_demo_registry';
+import { seedDemoRules } from './05_demo_rules';
 
 export interface SeedOptions {
   password: string;
@@ -40,4 +41,5 @@ export async function seedDemoScenario(db: Knex, opts: SeedOptions): Promise<voi
       .ignore();
   });
   await seedDemoRegistry(db);
+  await seedDemoRules(db);
 }

@@ -23,6 +23,8 @@ import { userAdminPages } from './routes/office/users';
 import { outboxPages } from './routes/office/outbox';
 import { accountPages } from './routes/office/account';
 import { captureApp } from './routes/capture';
+import { rulesPages } from './routes/office/rules';
+import { rulesAdminApi } from './routes/api/rules-admin';
 import { FIELD_FORM_PATHS, boundaryUpload, registryPages } from './routes/office/registry';
 import { seasonPages } from './routes/office/season';
 import { historyPages } from './routes/office/history';
@@ -141,6 +143,7 @@ export function createApp(deps: AppDeps): Express {
 
   app.use('/api/session', sessionApi(ctx, passport));
   mountRegistryApi(app, ctx);
+  app.use('/api/rules', rulesAdminApi(ctx));
   app.use('/api', notFound);
 
   app.use(authPages(ctx, passport));
@@ -151,6 +154,7 @@ export function createApp(deps: AppDeps): Express {
   app.use(registryPages(ctx));
   app.use(seasonPages(ctx));
   app.use(historyPages(ctx));
+  app.use(rulesPages(ctx));
   app.use(captureApp(deps.vite));
 
   app.use(notFound);

@@ -1,11 +1,37 @@
 import type { Knex } from 'knex';
 import { DEMO_RULE, type CreditRule } from '../../shared/calc/rules';
+import { todayIso } from '../../shared/registry/season';
+import { ruleInEffect, type StoredCreditRule } from '../db/credit-rules';
+
+export type RuleInUse = CreditRule & {
+  label: string;
+  id: string | null;
+  version: number | null;
+  effectiveFrom: string | null;
+  isDemo: boolean;
+};
+
+const describe = (r: StoredCreditRule) =>
+  `version ${r.version}, in effect from ${r.effectiveFrom}${r.isDemo ? ' (demo values, not confirmed with the local authority)' : ''}`;
+
+function inUse(stored: StoredCreditRule | undefined): RuleInUse {
+  if (!stored) {
+    // No version recorded yet: the typical values, plainly marked as unconfirmed.
+    return { ...DEMO_RULE, eligibleCrops: [...DEMO_RULE.eligibleCrops], label: 'typical values; no rule has been set for this organisation', id: null, version: null, effectiveFrom: null, isDemo: true };
+  }
+  const { id, version, effectiveFrom, isDemo, notes: _n, createdByName: _c, createdAt: _a, ...rule } = stored;
+  return { ...rule, id, version, effectiveFrom, isDemo, label: describe(stored) };
+}
+
+/** The organisation's credit rule in effect today (or on `onDate`). */
+export async function currentCreditRule(db: Knex, organisationId: string, onDate = todayIso()): Promise<RuleInUse> {
+  return inUse(await ruleInEffect(db, organisationId, onDate));
+}
 
 /**
- * The credit rule an organisation's pages and registers use. Until administrators can set and
- * version their own rule (the rules issue), every organisation uses the demo scenario's values,
- * from this one place.
+ * The rule a register for reporting year Y uses: the version in effect on 1 January of Y, the
+ * start of the year the grower reports on. A later version never changes an earlier year.
  */
-export async function currentCreditRule(_db: Knex, _organisationId: string): Promise<CreditRule & { label: string }> {
-  return { ...DEMO_RULE, eligibleCrops: [...DEMO_RULE.eligibleCrops], label: 'demo values, not yet confirmed with the local authority' };
+export async function creditRuleForYear(db: Knex, organisationId: string, year: number): Promise<RuleInUse> {
+  return inUse(await ruleInEffect(db, organisationId, `${year}-01-01`));
 }

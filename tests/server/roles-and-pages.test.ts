@@ -24,6 +24,11 @@ const MATRIX: { path: string; admin: number; clerk: number; sampler: number; aud
   { path: '/admin/users', admin: 200, clerk: 403, sampler: 403, auditor: 403 },
   { path: '/admin/users/invite', admin: 200, clerk: 403, sampler: 403, auditor: 403 },
   { path: '/admin/outbox', admin: 200, clerk: 403, sampler: 403, auditor: 403 },
+  { path: '/admin/rules', admin: 200, clerk: 403, sampler: 403, auditor: 403 },
+  { path: '/registry/ranches', admin: 200, clerk: 200, sampler: 200, auditor: 200 },
+  { path: '/registry/ranches/new', admin: 200, clerk: 200, sampler: 403, auditor: 403 },
+  { path: '/registry/season', admin: 200, clerk: 200, sampler: 200, auditor: 200 },
+  { path: '/history', admin: 200, clerk: 200, sampler: 403, auditor: 200 },
   { path: '/account', admin: 200, clerk: 200, sampler: 200, auditor: 200 },
 ];
 
