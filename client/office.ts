@@ -15,3 +15,138 @@ document.addEventListener('click', (event) => {
   const target = event.target instanceof Element ? event.target.closest('[data-print]') : null;
   if (target) window.print();
 });
+
+// ---- Registry CSV import (views/registry/import*.ejs, server/routes/office/registry-import.ts) ----
+// The upload goes through XMLHttpRequest: it reports upload progress, and it carries the CSRF
+// token in the X-CSRF-Token header, because lusca checks the token before multer has read the
+// multipart body. The commit runs as a background job on the server; this polls its progress.
+
+interface ImportStatus {
+  phase: 'uploaded' | 'checking' | 'writing' | 'imported' | 'failed' | 'error';
+  done: number;
+  total: number;
+  percent: number;
+  result: { rows: number; ranchesCreated: string[]; fieldsCreated: number; plantingsCreated: number } | null;
+  message: string | null;
+  previewUrl: string;
+  statusUrl: string;
+  resultUrl: string;
+}
+
+const importCount = (n: number, one: string, many: string) => `${n.toLocaleString('en-US')} ${n === 1 ? one : many}`;
+
+function importParts(form: HTMLFormElement) {
+  const token = (form.elements.namedItem('_csrf') as HTMLInputElement | null)?.value ?? '';
+  const error = form.querySelector<HTMLElement>('[data-import-error]');
+  const box = form.querySelector<HTMLElement>('[data-import-progress], [data-import-job]');
+  const bar = box?.querySelector('progress') ?? null;
+  const text = box?.querySelector<HTMLElement>('[data-import-progress-text]') ?? null;
+  const button = form.querySelector<HTMLButtonElement>('button[type="submit"]');
+  const showError = (message: string) => {
+    if (error) {
+      error.textContent = message;
+      error.hidden = false;
+    }
+    if (box) box.hidden = true;
+    if (button) button.disabled = false;
+  };
+  const showProgress = (percent: number | null, message: string) => {
+    if (error) error.hidden = true;
+    if (box) box.hidden = false;
+    if (bar) {
+      if (percent === null) bar.removeAttribute('value'); // indeterminate while the server works
+      else bar.value = percent;
+    }
+    if (text) text.textContent = message;
+  };
+  return { token, button, showError, showProgress };
+}
+
+function uploadImport(form: HTMLFormElement) {
+  const { token, button, showError, showProgress } = importParts(form);
+  const file = (form.elements.namedItem('file') as HTMLInputElement | null)?.files?.[0];
+  if (!file) return showError('Choose a CSV file first.');
+  const maxBytes = Number(form.dataset.maxBytes || Infinity);
+  if (file.size > maxBytes) return showError(`The file is larger than ${Math.round(maxBytes / 1024 / 1024)} MB. Split it into smaller files.`);
+  if (button) button.disabled = true;
+  const xhr = new XMLHttpRequest();
+  xhr.open('POST', form.action);
+  xhr.setRequestHeader('X-CSRF-Token', token);
+  xhr.setRequestHeader('Accept', 'application/json');
+  xhr.upload.onprogress = (e) => {
+    if (e.lengthComputable) {
+      const percent = Math.floor((100 * e.loaded) / e.total);
+      showProgress(percent, `Uploading ${file.name}: ${percent} %`);
+    }
+  };
+  xhr.upload.onload = () => showProgress(null, 'Uploaded. Reading and checking the rows…');
+  xhr.onerror = () => showError('The upload failed. Check the connection and try again.');
+  xhr.onload = () => {
+    let body: { previewUrl?: string; error?: { message?: string } } | null = null;
+    try {
+      body = JSON.parse(xhr.responseText);
+    } catch {
+      body = null;
+    }
+    if (xhr.status >= 200 && xhr.status < 300 && body?.previewUrl) {
+      showProgress(100, 'Opening the preview…');
+      window.location.assign(body.previewUrl);
+    } else {
+      showError(body?.error?.message ?? `The upload was refused (HTTP ${xhr.status}). Reload the page and try again.`);
+    }
+  };
+  showProgress(0, `Uploading ${file.name}…`);
+  xhr.send(new FormData(form));
+}
+
+async function commitImport(form: HTMLFormElement) {
+  const { token, button, showError, showProgress } = importParts(form);
+  const done = form.querySelector<HTMLElement>('[data-import-done]');
+  const doneText = form.querySelector<HTMLElement>('[data-import-done-text]');
+  const params = new URLSearchParams();
+  for (const [key, value] of new FormData(form)) if (typeof value === 'string') params.append(key, value);
+  if (button) button.disabled = true;
+  showProgress(0, 'Starting the import…');
+  const headers = { Accept: 'application/json', 'X-CSRF-Token': token };
+  const read = async (res: Response): Promise<ImportStatus | null> => (res.ok ? ((await res.json()) as ImportStatus) : null);
+  try {
+    let status = await read(await fetch(form.action, { method: 'POST', body: params, headers, credentials: 'same-origin' }));
+    for (;;) {
+      if (!status) return showError('The import could not be started or followed. Reload the page to see where it stands.');
+      if (status.phase === 'imported') {
+        const r = status.result;
+        showProgress(100, 'Import complete: 100 %');
+        if (doneText && r) {
+          doneText.textContent = `Imported ${importCount(r.rows, 'row', 'rows')}: ${importCount(r.ranchesCreated.length, 'new ranch', 'new ranches')}, ${importCount(r.fieldsCreated, 'new field', 'new fields')}, ${importCount(r.plantingsCreated, 'planting', 'plantings')}.`;
+        }
+        if (done) done.hidden = false;
+        return;
+      }
+      if (status.phase === 'failed') return window.location.assign(status.previewUrl);
+      if (status.phase === 'error') return showError(status.message ?? 'The import stopped on an error; nothing was written.');
+      const total = status.total.toLocaleString('en-US');
+      if (status.phase === 'writing') {
+        showProgress(status.percent, `Writing ${total} rows in one transaction (all or nothing)… ${status.percent} %`);
+      } else {
+        showProgress(status.percent, `Checking rows: ${status.done.toLocaleString('en-US')} of ${total}… ${status.percent} %`);
+      }
+      await new Promise((resolve) => setTimeout(resolve, 300));
+      status = await read(await fetch(status.statusUrl, { headers: { Accept: 'application/json' }, credentials: 'same-origin' }));
+    }
+  } catch {
+    showError('The connection was lost. Reload the page to see whether the import finished.');
+  }
+}
+
+document.addEventListener('submit', (event) => {
+  const form = event.target;
+  if (!(form instanceof HTMLFormElement) || event.defaultPrevented) return;
+  if (form.matches('[data-import-upload]')) {
+    event.preventDefault();
+    uploadImport(form);
+  } else if (form.matches('[data-import-commit]')) {
+    event.preventDefault();
+    void commitImport(form);
+  }
+});
+// ---- end of the registry CSV import ----

@@ -25,6 +25,7 @@ import { accountPages } from './routes/office/account';
 import { captureApp } from './routes/capture';
 import { rulesPages } from './routes/office/rules';
 import { rulesAdminApi } from './routes/api/rules-admin';
+import { registryImportPages } from './routes/office/registry-import';
 import { FIELD_FORM_PATHS, boundaryUpload, registryPages } from './routes/office/registry';
 import { seasonPages } from './routes/office/season';
 import { historyPages } from './routes/office/history';
@@ -154,6 +155,7 @@ export function createApp(deps: AppDeps): Express {
   app.use(registryPages(ctx));
   app.use(seasonPages(ctx));
   app.use(historyPages(ctx));
+  app.use('/registry/import', registryImportPages(ctx));
   app.use(rulesPages(ctx));
   app.use(captureApp(deps.vite));
 

@@ -1,0 +1,269 @@
+import { Router, type NextFunction, type Request, type Response } from 'express';
+import multer from 'multer';
+import { z } from 'zod';
+import type { AppContext } from '../../app';
+import { requireRole } from '../../auth/guards';
+import { HttpError } from '../../http/errors';
+import { parseForm } from '../../http/validate';
+import { toCsv } from '../../http/csv-safe';
+import {
+  AREA_UNITS,
+  COLUMN_BY_KEY,
+  EXAMPLE_HEADER,
+  EXAMPLE_ROWS,
+  IMPORT_COLUMNS,
+  ImportFileError,
+  MAX_ROWS,
+  MAX_UPLOAD_BYTES,
+  RATE_UNITS,
+  canImport,
+  createRegistryImports,
+  isImportId,
+  jobPercent,
+  mappingToParams,
+  templateHeader,
+  templateRows,
+  type ImportActor,
+  type ImportJob,
+  type ImportMeta,
+  type ImportPreview,
+} from '../../services/registry-import';
+
+/**
+ * The registry CSV import (clerk and admin): upload → preview with mapping and every problem →
+ * commit of all rows in one transaction, or none.
+ *
+ * CSRF and the upload: lusca runs for every POST before this router, and it reads the token from
+ * req.body._csrf or the X-CSRF-Token header. A multipart body is not parsed yet at that point, so
+ * the upload form is sent by a small script (client/office.ts) with XMLHttpRequest and the token
+ * in X-CSRF-Token; the same request gives the upload progress bar. Every other form here is a
+ * plain urlencoded POST with the hidden _csrf field and works without JavaScript.
+ */
+const BASE = '/registry/import';
+/** Where the result page sends the clerk next (routes/office/registry.ts and season.ts). */
+const RANCH_LIST_URL = '/registry/ranches';
+const seasonUrl = (season: string) => `/registry/season?season=${encodeURIComponent(season)}`;
+const PREVIEW_ROWS = 50;
+const PAGE_PROBLEMS = 1000;
+const PAGE_WARNINGS = 200;
+
+const commitForm = z.object({ id: z.string().refine(isImportId, 'This import was not found. Upload the file again.') });
+
+const wantsJson = (req: Request) => req.accepts(['html', 'json']) === 'json';
+const actorOf = (req: Request): ImportActor => ({ id: req.user!.id, name: req.user!.name, organisationId: req.user!.organisationId });
+const unitsOf = (req: Request) => req.user!.units;
+const idParam = (req: Request) => String(req.params.id);
+const previewUrl = (id: string, params?: Record<string, string>, extra: Record<string, string> = {}) => {
+  const q = new URLSearchParams({ ...(params ?? {}), ...extra }).toString();
+  return `${BASE}/${id}${q ? `?${q}` : ''}`;
+};
+const resultUrl = (id: string) => `${BASE}/${id}/result`;
+
+export function registryImportPages(ctx: AppContext): Router {
+  const imports = createRegistryImports(ctx.db, ctx.config.UPLOADS_DIR);
+  const router = Router();
+  router.use(requireRole('clerk', 'admin'));
+
+  router.get('/', uploadPage);
+  router.get('/template.csv', templateCsv);
+  router.get('/example.csv', exampleCsv);
+  router.post('/preview', receiveUpload, storeUpload);
+  router.post('/commit', commit);
+  router.get('/:id', previewPage);
+  router.get('/:id/status', status);
+  router.get('/:id/result', resultPage);
+  router.get('/:id/errors.csv', errorsCsv);
+  return router;
+
+  // Handlers ------------------------------------------------------------------------------------
+
+  function renderUpload(res: Response, status = 200, error?: string) {
+    res.status(status).render('registry/import', {
+      title: 'Import the registry from a CSV file',
+      columns: IMPORT_COLUMNS,
+      maxBytes: MAX_UPLOAD_BYTES,
+      maxRows: MAX_ROWS,
+      error: error ?? null,
+    });
+  }
+
+  function uploadPage(_req: Request, res: Response) {
+    renderUpload(res);
+  }
+
+  function uploadFailed(req: Request, res: Response, err: HttpError) {
+    if (wantsJson(req)) res.status(err.status).json({ error: { code: err.code, message: err.message } });
+    else renderUpload(res, err.status, err.message);
+  }
+
+  function templateCsv(req: Request, res: Response) {
+    res.attachment('crowntip-registry-template.csv');
+    res.send(toCsv(templateRows(unitsOf(req)), templateHeader(unitsOf(req))));
+  }
+
+  function exampleCsv(_req: Request, res: Response) {
+    res.attachment('crowntip-registry-example.csv');
+    res.send(toCsv(EXAMPLE_ROWS, EXAMPLE_HEADER));
+  }
+
+  /** Runs multer and turns its errors (size, type) into the page's or the script's answer. */
+  function receiveUpload(req: Request, res: Response, next: NextFunction) {
+    upload(req, res, (err?: unknown) => {
+      if (!err) return next();
+      if (err instanceof HttpError) return uploadFailed(req, res, err);
+      const tooLarge = (err as { code?: string }).code === 'LIMIT_FILE_SIZE';
+      uploadFailed(
+        req,
+        res,
+        tooLarge
+          ? new HttpError('too_large', `The file is larger than ${MAX_UPLOAD_BYTES / 1024 / 1024} MB. Split it into smaller files.`)
+          : new HttpError('invalid', 'The upload could not be read. Choose the file and send it again.'),
+      );
+    });
+  }
+
+  async function storeUpload(req: Request, res: Response) {
+    if (!req.file || !req.file.size) return uploadFailed(req, res, new HttpError('invalid', 'Choose a CSV file to upload.', { file: 'Choose a CSV file.' }));
+    let meta: ImportMeta;
+    try {
+      ({ meta } = await imports.upload(actorOf(req), req.file.originalname, req.file.buffer));
+    } catch (err) {
+      if (err instanceof ImportFileError) return uploadFailed(req, res, new HttpError('invalid', err.message, { file: err.message }));
+      throw err;
+    }
+    const url = previewUrl(meta.id);
+    if (wantsJson(req)) res.status(201).json({ id: meta.id, previewUrl: url });
+    else res.redirect(303, url);
+  }
+
+  async function previewPage(req: Request, res: Response) {
+    const meta = await imports.load(req.user!.organisationId, idParam(req));
+    if (meta.status === 'imported') return res.redirect(303, resultUrl(meta.id));
+    const preview = await imports.preview(meta, req.query as Record<string, unknown>, unitsOf(req));
+    renderPreview(res, preview, 200, req.query.failed === '1');
+  }
+
+  function renderPreview(res: Response, p: ImportPreview, status: number, failed: boolean) {
+    const { check, parsed, mapping } = p;
+    const used = new Set(Object.values(mapping.columns).filter((i) => i !== null));
+    const cropLabels = Object.fromEntries(p.crops.map((c) => [c.code, c.label]));
+    const params = mappingToParams(mapping);
+    res.status(status).render('registry/import-preview', {
+      title: 'Check the import',
+      meta: p.meta,
+      headers: parsed.headers,
+      delimiter: parsed.delimiter,
+      bom: parsed.bom,
+      rowCount: parsed.rows.length,
+      mapping,
+      params,
+      columns: IMPORT_COLUMNS,
+      columnLabel: (k: keyof typeof COLUMN_BY_KEY | null) => (k ? COLUMN_BY_KEY[k].label : 'File'),
+      areaUnits: AREA_UNITS,
+      rateUnits: RATE_UNITS,
+      ignoredHeaders: parsed.headers.filter((h, i) => !used.has(i) && h !== ''),
+      rows: check.rows.slice(0, PREVIEW_ROWS),
+      fileProblems: check.fileProblems,
+      problems: check.problems.slice(0, PAGE_PROBLEMS),
+      problemTotal: check.problems.length,
+      problemRows: new Set(check.problems.map((x) => x.line)).size,
+      warnings: check.warnings.slice(0, PAGE_WARNINGS),
+      warningTotal: check.warnings.length,
+      newRanches: check.newRanches,
+      newFieldCount: check.newFields.length,
+      plantingsOnExistingFields: check.plantingsOnExistingFields,
+      seasons: check.seasons,
+      cropLabels,
+      canImport: canImport(check),
+      failed,
+      running: imports.jobs.isRunning(p.meta.id),
+      errorsUrl: `${BASE}/${p.meta.id}/errors.csv?${new URLSearchParams(params)}`,
+      num: (n: number, digits = 2) => n.toLocaleString('en-US', { maximumFractionDigits: digits }),
+    });
+  }
+
+  function statusBody(meta: ImportMeta, job: ImportJob | undefined) {
+    const phase = job?.phase ?? (meta.status === 'imported' ? 'imported' : 'uploaded');
+    const params = job ? mappingToParams(job.mapping) : meta.mapping ? mappingToParams(meta.mapping) : undefined;
+    return {
+      id: meta.id,
+      phase,
+      done: job?.done ?? (phase === 'imported' ? (meta.result?.rows ?? 0) : 0),
+      total: job?.total ?? meta.result?.rows ?? 0,
+      percent: job ? jobPercent(job) : phase === 'imported' ? 100 : 0,
+      result: job?.result ?? meta.result ?? null,
+      problemCount: job?.check ? job.check.problems.length + job.check.fileProblems.length : null,
+      message: phase === 'error' ? 'The import stopped on an error and nothing was written. Try again; if it happens again, the error is in the server log.' : null,
+      previewUrl: previewUrl(meta.id, params, phase === 'failed' ? { failed: '1' } : {}),
+      statusUrl: `${BASE}/${meta.id}/status`,
+      resultUrl: resultUrl(meta.id),
+    };
+  }
+
+  async function commit(req: Request, res: Response) {
+    const form = parseForm(commitForm, req.body);
+    if (!form.ok) throw new HttpError('invalid', form.errors.id, form.errors);
+    const meta = await imports.load(req.user!.organisationId, form.value.id);
+    const start = await imports.commit(meta, req.body as Record<string, unknown>, actorOf(req), unitsOf(req));
+    if (start.kind === 'imported') {
+      if (wantsJson(req)) return res.json(statusBody(start.meta, undefined));
+      return res.redirect(303, resultUrl(meta.id));
+    }
+    const { job } = start;
+    if (wantsJson(req)) return res.status(202).json(statusBody(meta, job));
+    // Without JavaScript: wait for the job, then show the result or the problems.
+    await job.promise;
+    if (job.phase === 'imported') return res.redirect(303, resultUrl(meta.id));
+    if (job.phase === 'failed') {
+      const again = await imports.preview(await imports.load(meta.organisationId, meta.id), mappingToParams(job.mapping), unitsOf(req));
+      return renderPreview(res, again, 400, true);
+    }
+    ctx.logger.error({ err: job.error, importId: meta.id }, 'registry import failed');
+    throw new HttpError('internal', 'The import stopped on an error and nothing was written. Try again; if it happens again, the error is in the server log.');
+  }
+
+  async function status(req: Request, res: Response) {
+    const meta = await imports.load(req.user!.organisationId, idParam(req));
+    const job = imports.jobs.get(meta.organisationId, meta.id);
+    if (job?.phase === 'error' && job.error) ctx.logger.error({ err: job.error, importId: meta.id }, 'registry import failed');
+    res.set('Cache-Control', 'no-store').json(statusBody(meta, job));
+  }
+
+  async function resultPage(req: Request, res: Response) {
+    const meta = await imports.load(req.user!.organisationId, idParam(req));
+    const job = imports.jobs.get(meta.organisationId, meta.id);
+    const result = meta.result ?? (job?.phase === 'imported' ? job.result : undefined);
+    if (!result) return res.redirect(303, previewUrl(meta.id, meta.mapping && mappingToParams(meta.mapping)));
+    res.render('registry/import-result', { title: 'Import finished', meta, result, ranchListUrl: RANCH_LIST_URL, seasonUrl, importUrl: BASE });
+  }
+
+  async function errorsCsv(req: Request, res: Response) {
+    const meta = await imports.load(req.user!.organisationId, idParam(req));
+    const { check, parsed, mapping } = await imports.preview(meta, req.query as Record<string, unknown>, unitsOf(req));
+    const fileColumn = (k: keyof typeof COLUMN_BY_KEY | null) => {
+      if (!k) return '';
+      const i = mapping.columns[k];
+      return i === null ? COLUMN_BY_KEY[k].label : `${COLUMN_BY_KEY[k].label} (“${parsed.headers[i]}”)`;
+    };
+    const rows = [
+      ...check.fileProblems.map((p) => ['', fileColumn(p.column), '', p.message, 'problem']),
+      ...check.problems.map((p) => [p.line, fileColumn(p.column), p.value, p.message, 'problem']),
+      ...check.warnings.map((p) => [p.line, fileColumn(p.column), p.value, p.message, 'warning']),
+    ].sort((a, b) => Number(a[0] || 0) - Number(b[0] || 0));
+    const base = meta.fileName.replace(/\.[^.]*$/, '') || 'import';
+    res.attachment(`${base}-problems.csv`);
+    res.send(toCsv(rows, ['row', 'column', 'value', 'problem', 'severity']));
+  }
+}
+
+// The upload: memory storage (at most 5 MB), one file named "file", .csv or text only.
+const upload = multer({
+  storage: multer.memoryStorage(),
+  limits: { fileSize: MAX_UPLOAD_BYTES, files: 1, fields: 20, parts: 25 },
+  fileFilter(_req, file, cb) {
+    const csvName = /\.(csv|txt)$/i.test(file.originalname);
+    const textType = /^text\//.test(file.mimetype) || /^application\/(csv|vnd\.ms-excel)$/.test(file.mimetype);
+    if (csvName || textType) cb(null, true);
+    else cb(new HttpError('unsupported_type', 'Upload a .csv file: comma- or semicolon-separated text.'));
+  },
+}).single('file');
