@@ -5,6 +5,7 @@ import * as m20261201090200 from './20261201090200_create_user_tokens';
 import * as m20261201090300 from './20261201090300_create_mail_outbox';
 import * as m20261201100000 from './20261201100000_create_registry';
 import * as m20261201100100 from './20261201100100_fill_crop_list';
+import * as m20261201110000 from './20261201110000_create_calibrations';
 import * as m20261201130000 from './20261201130000_create_credit_rules';
 
 interface Migration {
@@ -21,6 +22,7 @@ const migrations: Record<string, Migration> = {
   '20261201090300_create_mail_outbox': m20261201090300,
   '20261201100000_create_registry': m20261201100000,
   '20261201100100_fill_crop_list': m20261201100100,
+  '20261201110000_create_calibrations': m20261201110000,
   '20261201130000_create_credit_rules': m20261201130000,
 };
 

@@ -2,6 +2,7 @@ import type { Knex } from 'knex';
 import bcrypt from 'bcryptjs';
 import { DEMO_ORGANISATIONS, DEMO_USERS } from './demo-people';
 import { seedDemoRegistry } from './02_demo_registry';
+import { seedDemoCalibrations } from './03_demo_calibrations';
 import { seedDemoRules } from './05_demo_rules';
 
 export interface SeedOptions {
@@ -42,4 +43,5 @@ export async function seedDemoScenario(db: Knex, opts: SeedOptions): Promise<voi
   });
   await seedDemoRegistry(db);
   await seedDemoRules(db);
+  await seedDemoCalibrations(db);
 }

@@ -30,6 +30,8 @@ import { FIELD_FORM_PATHS, boundaryUpload, registryPages } from './routes/office
 import { seasonPages } from './routes/office/season';
 import { historyPages } from './routes/office/history';
 import { mountRegistryApi } from './routes/api/registry-routes';
+import { calibrationsApi } from './routes/api/calibrations';
+import { CALIBRATION_UPLOAD_PATHS, calibrationPages, calibrationUpload } from './routes/office/calibrations';
 
 export interface AppDeps {
   config: Config;
@@ -136,6 +138,7 @@ export function createApp(deps: AppDeps): Express {
 
   // Multipart field forms are parsed before the CSRF check so that it can read their token.
   app.post(FIELD_FORM_PATHS, boundaryUpload);
+  app.post(CALIBRATION_UPLOAD_PATHS, calibrationUpload);
   app.use(csrfProtection());
   app.use((req, res, next) => {
     res.locals.csrfToken = req.csrfToken ? req.csrfToken() : '';
@@ -144,6 +147,7 @@ export function createApp(deps: AppDeps): Express {
 
   app.use('/api/session', sessionApi(ctx, passport));
   mountRegistryApi(app, ctx);
+  app.use('/api/calibrations', calibrationsApi(ctx));
   app.use('/api/rules', rulesAdminApi(ctx));
   app.use('/api', notFound);
 
@@ -157,6 +161,7 @@ export function createApp(deps: AppDeps): Express {
   app.use(historyPages(ctx));
   app.use('/registry/import', registryImportPages(ctx));
   app.use(rulesPages(ctx));
+  app.use(calibrationPages(ctx));
   app.use(captureApp(deps.vite));
 
   app.use(notFound);

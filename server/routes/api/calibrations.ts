@@ -1,0 +1,179 @@
+import { Router, type NextFunction, type Request, type Response } from 'express';
+import type { z } from 'zod';
+import type { AppContext } from '../../app';
+import { requireRole, requireSignIn } from '../../auth/guards';
+import { HttpError } from '../../http/errors';
+import { validateBody, validateQuery } from '../../http/validate';
+import * as cal from '../../db/calibrations';
+import { compareModels, fitCalibration } from '../../../shared/calc';
+import { currentCreditRule } from '../../services/credit-rule';
+import * as calibrations from '../../services/calibrations';
+import { assignmentJson, calcErrorToHttp, calibrationJson, IMMUTABLE_MESSAGE } from '../../services/calibrations';
+import {
+  assignmentBodySchema,
+  assignmentQuerySchema,
+  compareBodySchema,
+  createBodySchema,
+  fitBodySchema,
+  listQuerySchema,
+  patchBodySchema,
+  publishBodySchema,
+  tableQuerySchema,
+} from '../../services/calibration-schemas';
+import { lookupView, MAX_LOOKUP_PAGE_ROWS } from '../../services/calibration-view';
+
+/**
+ * /api/calibrations (../shared/API.md, Calibrations; additions in the README): everyone in the
+ * organisation reads published versions; administrators make, publish, retire and assign them;
+ * admin and clerk may try fits without saving. A published version never changes: any change
+ * answers 409 `conflict`.
+ */
+export function calibrationsApi(ctx: AppContext): Router {
+  const router = Router();
+  const { db } = ctx;
+  const admins = requireRole('admin');
+  const fitters = requireRole('admin', 'clerk');
+  const actor = (req: Request): calibrations.Actor => ({ id: req.user!.id, organisationId: req.user!.organisationId });
+  const org = (req: Request) => req.user!.organisationId;
+  const seesDrafts = (req: Request) => req.user!.role === 'admin';
+
+  /** Before a change is even validated: 404 if unknown here, 409 if no longer a draft. */
+  const draftOnly = async (req: Request<{ id: string }>, _res: Response, next: NextFunction) => {
+    const c = await calibrations.loadCalibration(db, org(req), req.params.id, { drafts: true });
+    if (c.status !== 'draft') throw new HttpError('conflict', IMMUTABLE_MESSAGE);
+    next();
+  };
+
+  const list = async (req: Request, res: Response) => {
+    const q = res.locals.query as z.infer<typeof listQuerySchema>;
+    if (q.status === 'draft' && !seesDrafts(req)) throw new HttpError('forbidden', 'Only administrators see draft calibrations.');
+    const statuses: cal.CalibrationStatus[] =
+      q.status === 'all' ? (seesDrafts(req) ? ['published', 'draft', 'retired'] : ['published', 'retired']) : [q.status];
+    const { items, total } = await cal.listCalibrations(db, org(req), { statuses, crop: q.crop, limit: q.limit, offset: q.offset });
+    res.json({ items: items.map(calibrationJson), total });
+  };
+
+  const show = async (req: Request<{ id: string }>, res: Response) => {
+    const c = await calibrations.loadCalibration(db, org(req), req.params.id, { drafts: seesDrafts(req) });
+    const dataset = await cal.getDataset(db, org(req), c.datasetId);
+    const assignments = await cal.assignmentsOf(db, org(req), c.id);
+    res.json({
+      ...calibrationJson(c),
+      assignments: assignments.map(assignmentJson),
+      dataset: dataset && {
+        id: dataset.id,
+        name: dataset.name,
+        fileName: dataset.fileName,
+        lengthUnit: dataset.lengthUnit,
+        biomassUnit: dataset.biomassUnit,
+        rowCount: dataset.rowCount,
+        uploadedBy: dataset.uploadedByName,
+        createdAt: dataset.createdAt,
+        points: dataset.points.map(({ line: _line, ...p }) => p),
+      },
+    });
+  };
+
+  const table = async (req: Request<{ id: string }>, res: Response) => {
+    const q = res.locals.query as z.infer<typeof tableQuerySchema>;
+    const c = await calibrations.loadCalibration(db, org(req), req.params.id, { drafts: seesDrafts(req) });
+    if (!c.fit) throw new HttpError('conflict', 'No model could be fitted to this calibration’s points, so it has no table.');
+    const rule = await currentCreditRule(db, org(req));
+    const unit = q.unit ?? (req.user!.units === 'metric' ? 'cm' : 'in');
+    let view;
+    try {
+      view = lookupView(c.fit, { unit, thresholdKgHa: rule.thresholdKgHa, from: q.from, to: q.to });
+    } catch (e) {
+      calcErrorToHttp(e, 'from');
+    }
+    if (view.rows.length > MAX_LOOKUP_PAGE_ROWS) throw new HttpError('invalid', 'That range makes too many rows.', { to: `At most ${MAX_LOOKUP_PAGE_ROWS} rows; choose a shorter range.` });
+    res.json({
+      calibrationId: c.id,
+      version: c.version,
+      unit: view.unit,
+      step: view.step,
+      thresholdKgHa: rule.thresholdKgHa,
+      thresholdLengthCm: view.thresholdAt.ok ? view.thresholdAt.x : null,
+      items: view.rows,
+      total: view.rows.length,
+    });
+  };
+
+  const fit = (req: Request, res: Response) => {
+    const body = req.body as z.infer<typeof fitBodySchema>;
+    try {
+      res.json(fitCalibration(body.points, body.model));
+    } catch (e) {
+      calcErrorToHttp(e);
+    }
+  };
+
+  const compare = (req: Request, res: Response) => {
+    const body = req.body as z.infer<typeof compareBodySchema>;
+    try {
+      res.json(compareModels(body.points));
+    } catch (e) {
+      calcErrorToHttp(e);
+    }
+  };
+
+  const create = async (req: Request, res: Response) => {
+    const body = req.body as z.infer<typeof createBodySchema>;
+    const points = body.points.map((p) => Object.fromEntries(Object.entries(p).filter(([, v]) => v != null)) as unknown as cal.DatasetPoint);
+    const c = await calibrations.createDraft(db, actor(req), { ...body, fileName: null, points });
+    res.status(201).json(calibrationJson(c));
+  };
+
+  const patch = async (req: Request<{ id: string }>, res: Response) => {
+    res.json(calibrationJson(await calibrations.changeDraft(db, actor(req), req.params.id, req.body)));
+  };
+
+  const remove = async (req: Request<{ id: string }>, res: Response) => {
+    await calibrations.deleteDraft(db, actor(req), req.params.id);
+    res.status(204).end();
+  };
+
+  const publish = async (req: Request<{ id: string }>, res: Response) => {
+    res.json(calibrationJson(await calibrations.publish(db, actor(req), req.params.id, req.body)));
+  };
+
+  const retire = async (req: Request<{ id: string }>, res: Response) => {
+    res.json(calibrationJson(await calibrations.retire(db, actor(req), req.params.id)));
+  };
+
+  const draftFrom = async (req: Request<{ id: string }>, res: Response) => {
+    res.status(201).json(calibrationJson(await calibrations.draftFrom(db, actor(req), req.params.id)));
+  };
+
+  const assignments = async (req: Request, res: Response) => {
+    const items = await cal.listAssignments(db, org(req));
+    res.json({ items: items.map(assignmentJson), total: items.length });
+  };
+
+  const putAssignment = async (req: Request, res: Response) => {
+    res.json(assignmentJson(await calibrations.assign(db, actor(req), req.body)));
+  };
+
+  const deleteAssignment = async (req: Request, res: Response) => {
+    const q = res.locals.query as z.infer<typeof assignmentQuerySchema>;
+    await calibrations.unassign(db, actor(req), q.crop, q.variety ?? null);
+    res.status(204).end();
+  };
+
+  router.get('/', requireSignIn, validateQuery(listQuerySchema), list);
+  router.post('/', admins, validateBody(createBodySchema), create);
+  router.post('/fit', fitters, validateBody(fitBodySchema), fit);
+  router.post('/compare', fitters, validateBody(compareBodySchema), compare);
+  router.get('/assignments', requireSignIn, assignments);
+  router.put('/assignments', admins, validateBody(assignmentBodySchema), putAssignment);
+  router.delete('/assignments', admins, validateQuery(assignmentQuerySchema), deleteAssignment);
+  router.get('/:id', requireSignIn, show);
+  router.get('/:id/table', requireSignIn, validateQuery(tableQuerySchema), table);
+  router.patch('/:id', admins, draftOnly, validateBody(patchBodySchema), patch);
+  router.put('/:id', admins, draftOnly, validateBody(patchBodySchema), patch);
+  router.delete('/:id', admins, remove);
+  router.post('/:id/publish', admins, draftOnly, validateBody(publishBodySchema), publish);
+  router.post('/:id/retire', admins, retire);
+  router.post('/:id/drafts', admins, draftFrom);
+  return router;
+}
