@@ -4,6 +4,7 @@ import { DEMO_ORGANISATIONS, DEMO_USERS } from './demo-people';
 import { seedDemoRegistry } from './02_demo_registry';
 import { seedDemoCalibrations } from './03_demo_calibrations';
 import { seedDemoRules } from './05_demo_rules';
+import { seedDemoWalks } from './04_demo_walks';
 
 export interface SeedOptions {
   password: string;
@@ -44,4 +45,5 @@ export async function seedDemoScenario(db: Knex, opts: SeedOptions): Promise<voi
   await seedDemoRegistry(db);
   await seedDemoRules(db);
   await seedDemoCalibrations(db);
+  await seedDemoWalks(db);
 }

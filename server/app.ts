@@ -32,6 +32,7 @@ import { historyPages } from './routes/office/history';
 import { mountRegistryApi } from './routes/api/registry-routes';
 import { calibrationsApi } from './routes/api/calibrations';
 import { CALIBRATION_UPLOAD_PATHS, calibrationPages, calibrationUpload } from './routes/office/calibrations';
+import { mountWalksApi } from './routes/api/walk-routes';
 
 export interface AppDeps {
   config: Config;
@@ -148,6 +149,7 @@ export function createApp(deps: AppDeps): Express {
   app.use('/api/session', sessionApi(ctx, passport));
   mountRegistryApi(app, ctx);
   app.use('/api/calibrations', calibrationsApi(ctx));
+  mountWalksApi(app, ctx);
   app.use('/api/rules', rulesAdminApi(ctx));
   app.use('/api', notFound);
 

@@ -1,6 +1,7 @@
 import type { Knex } from 'knex';
 import { daysBetween, daysInWindow } from '../../shared/calc/dates';
 import type { CreditRule } from '../../shared/calc/rules';
+import type { WalkStatus } from '../../shared/schemas/walks';
 import { inOrganisation } from '../db/scope';
 
 export interface SeasonRow {
@@ -19,8 +20,8 @@ export interface SeasonRow {
   daysSinceSeeding: number | null;
   /** Days of that growth inside the rule's rainy window (so far, while it grows). */
   daysInWindow: number | null;
-  /** Walk status: no field walks exist yet, so always "none" for now. */
-  walkStatus: 'none';
+  /** Status of the planting's latest field walk (by walk date), or "none". */
+  walkStatus: 'none' | WalkStatus;
 }
 
 /**
@@ -36,6 +37,13 @@ export async function seasonRows(
   const q = inOrganisation(db, 'fields', organisationId)
     .join('ranches', 'ranches.id', 'fields.ranch_id')
     .leftJoin('plantings', (j) => j.on('plantings.field_id', 'fields.id').andOn('plantings.season', db.raw('?', [opts.season])))
+    .leftJoin('field_walks as latest_walk', (j) =>
+      j.on(
+        'latest_walk.id',
+        '=',
+        db.raw('(select w.id from field_walks w where w.planting_id = plantings.id order by w.walked_on desc, w.created_at desc limit 1)'),
+      ),
+    )
     .select(
       'ranches.id as ranch_id',
       'ranches.name as ranch_name',
@@ -48,6 +56,7 @@ export async function seasonRows(
       'plantings.seeded_on',
       'plantings.terminated_on',
       'plantings.planned_termination_on',
+      'latest_walk.status as walk_status',
     )
     .orderBy('ranches.name')
     .orderBy('fields.name');
@@ -72,7 +81,7 @@ export async function seasonRows(
       plannedTerminationOn: (r.planned_termination_on as string) ?? null,
       daysSinceSeeding: seeded ? daysBetween(seeded, end) : null,
       daysInWindow: seeded ? daysInWindow(seeded, end, opts.rule.window) : null,
-      walkStatus: 'none',
+      walkStatus: (r.walk_status as WalkStatus | null) ?? 'none',
     };
   });
 }

@@ -1,0 +1,24 @@
+import { Router, type Request, type Response } from 'express';
+import { z } from 'zod';
+import type { AppContext } from '../../app';
+import { requireRole } from '../../auth/guards';
+import { validateQuery } from '../../http/validate';
+import { todayList } from '../../services/walks';
+import { listQuery, searchText } from './registry-helpers';
+import { walkActor } from './walks';
+
+const todaySchema = listQuery(z.object({ q: searchText.optional() }));
+
+/**
+ * GET /api/today: the plantings of the current season still in the ground, those assigned to
+ * the signed-in user first (`assigned: true`), then the rest of the organisation's; `?q=` filters
+ * on the field name.
+ */
+export function todayApi(ctx: AppContext): Router {
+  const router = Router();
+  const list = async (req: Request, res: Response) => {
+    res.json(await todayList(ctx.db, walkActor(req), res.locals.query as z.infer<typeof todaySchema>));
+  };
+  router.get('/', requireRole('sampler', 'clerk', 'admin'), validateQuery(todaySchema), list);
+  return router;
+}

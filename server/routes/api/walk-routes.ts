@@ -1,0 +1,14 @@
+import type { Express } from 'express';
+import type { AppContext } from '../../app';
+import { rulesApi } from './rules';
+import { todayApi } from './today';
+import { walkAssignmentsApi } from './walk-assignments';
+import { walksApi } from './walks';
+
+/** Field walks' JSON API (../shared/API.md, Field walks), the sampler's today list, walk assignments and the current rule. */
+export function mountWalksApi(app: Express, ctx: AppContext): void {
+  app.use('/api/walks', walksApi(ctx));
+  app.use('/api/today', todayApi(ctx));
+  app.use('/api/plantings', walkAssignmentsApi(ctx));
+  app.use('/api/rules', rulesApi(ctx));
+}

@@ -1,0 +1,283 @@
+import { createHash, randomBytes, randomUUID } from 'node:crypto';
+import fs from 'node:fs/promises';
+import path from 'node:path';
+import type { Knex } from 'knex';
+import type { Role } from '../auth/roles';
+import { HttpError } from '../http/errors';
+import { sniffImageType } from '../http/image-type';
+import { daysBetween } from '../../shared/calc/dates';
+import { seasonOfDate, todayIso } from '../../shared/registry/season';
+import type { TodayItem, Walk, WalkCreate, WalkStatus } from '../../shared/schemas/walks';
+import { assignedCalibrationFor } from '../db/calibrations';
+import { getPlanting } from '../db/plantings';
+import { nowIso } from '../db/scope';
+import { getUser } from '../db/users';
+import * as walks from '../db/walks';
+import { estimateSnapshot } from './walk-estimate';
+
+/**
+ * Field-walk rules that span tables: who may read and change a walk, the idempotent create with
+ * its estimate snapshot, the status steps, one photo per stop on disk, assignments and the
+ * sampler's "today" list.
+ */
+export interface WalkActor {
+  id: string;
+  organisationId: string;
+  role: Role;
+}
+
+const invalid = (field: string, message: string) => new HttpError('invalid', message, { [field]: message });
+const isReviewer = (actor: WalkActor) => actor.role === 'clerk' || actor.role === 'admin';
+const blankToNull = (v: string | null | undefined) => (v == null || v === '' ? null : v);
+
+/** A unique-key violation on SQLite or PostgreSQL. */
+function isUniqueViolation(err: unknown): boolean {
+  const code = (err as { code?: string })?.code;
+  return code === 'SQLITE_CONSTRAINT_PRIMARYKEY' || code === 'SQLITE_CONSTRAINT_UNIQUE' || code === '23505';
+}
+
+/** Canonical hash of what a client posts, so a re-post of the same walk can be told from a different one. */
+export function walkContentHash(input: WalkCreate): string {
+  const canonical = {
+    plantingId: input.plantingId,
+    walkedOn: input.walkedOn,
+    stage: blankToNull(input.stage),
+    notes: blankToNull(input.notes),
+    plants: [...input.plants].sort((a, b) => a.stop - b.stop).map((p) => [p.stop, p.lengthCm, p.lat ?? null, p.lon ?? null]),
+  };
+  return createHash('sha256').update(JSON.stringify(canonical)).digest('hex');
+}
+
+// Reading -------------------------------------------------------------------------------------
+
+async function mayRead(db: Knex, actor: WalkActor, walk: walks.WalkRecord): Promise<boolean> {
+  if (actor.role !== 'sampler') return true;
+  return walk.samplerId === actor.id || walks.samplerMaySee(db, actor.organisationId, walk.id, actor.id);
+}
+
+/** The walk, if this user may read it; 404 otherwise (another organisation's id included). */
+async function readable(db: Knex, actor: WalkActor, id: string): Promise<walks.WalkRecord> {
+  const walk = await walks.findWalkRecord(db, actor.organisationId, id);
+  if (!walk || !(await mayRead(db, actor, walk))) throw new HttpError('not_found');
+  return walk;
+}
+
+/** Its author, a clerk or an admin may change a walk (others who may read it: 403). */
+async function changeable(db: Knex, actor: WalkActor, id: string): Promise<walks.WalkRecord> {
+  const walk = await readable(db, actor, id);
+  if (walk.samplerId !== actor.id && !isReviewer(actor)) throw new HttpError('forbidden', 'Only the sampler who made this walk, a clerk or an admin can change it.');
+  return walk;
+}
+
+const stored = async (db: Knex, actor: WalkActor, id: string): Promise<Walk> => (await walks.getWalk(db, actor.organisationId, id))!;
+
+export async function getWalkFor(db: Knex, actor: WalkActor, id: string): Promise<Walk> {
+  await readable(db, actor, id);
+  return stored(db, actor, id);
+}
+
+export async function listWalksFor(
+  db: Knex,
+  actor: WalkActor,
+  query: { status?: WalkStatus; plantingId?: string; limit: number; offset: number },
+): Promise<{ items: Walk[]; total: number }> {
+  return walks.listWalks(db, actor.organisationId, { ...query, visibleTo: actor.role === 'sampler' ? actor.id : undefined });
+}
+
+// Creating (idempotent) -----------------------------------------------------------------------
+
+/**
+ * Stores a walk the capture app made, with its estimate snapshot. The client's UUID is the
+ * primary key: a re-post of the same content answers the stored walk (`created: false`), never a
+ * second record; the same id with other content, or an id taken in another organisation, is a
+ * conflict. Concurrent re-posts race on the primary key, and the losers read and compare.
+ */
+export async function createWalk(db: Knex, actor: WalkActor, input: WalkCreate): Promise<{ walk: Walk; created: boolean }> {
+  const hash = walkContentHash(input);
+  const existing = async (found: walks.WalkRecord | undefined) => {
+    // Another organisation's id finds nothing here: a conflict, without saying whose it is.
+    if (!found || found.contentHash !== hash || !(await mayRead(db, actor, found))) {
+      throw new HttpError('conflict', 'A different walk with this id is already stored. Make a new id for a new walk.');
+    }
+    return { walk: await stored(db, actor, found.id), created: false };
+  };
+
+  const planting = await getPlanting(db, actor.organisationId, input.plantingId);
+  if (!planting) throw invalid('plantingId', 'That planting was not found.');
+  const before = await walks.findWalkRecord(db, actor.organisationId, input.id);
+  if (before) return existing(before);
+
+  const estimate = await estimateSnapshot(
+    db,
+    actor.organisationId,
+    planting,
+    input.plants.map((p) => p.lengthCm),
+  );
+  try {
+    await db.transaction(async (trx) => {
+      await walks.insertWalk(trx, actor.organisationId, {
+        id: input.id,
+        plantingId: planting.id,
+        samplerId: actor.id,
+        walkedOn: input.walkedOn,
+        stage: blankToNull(input.stage),
+        notes: blankToNull(input.notes),
+        status: 'draft',
+        contentHash: hash,
+        estimate,
+        plants: input.plants,
+      });
+    });
+  } catch (err) {
+    if (!isUniqueViolation(err)) throw err;
+    return existing(await walks.findWalkRecord(db, actor.organisationId, input.id));
+  }
+  return { walk: await stored(db, actor, input.id), created: true };
+}
+
+// Status steps --------------------------------------------------------------------------------
+
+/** draft → submitted; already submitted answers the walk unchanged; reviewed walks are a conflict. */
+export async function submitWalk(db: Knex, actor: WalkActor, id: string): Promise<Walk> {
+  for (let attempt = 0; attempt < 2; attempt++) {
+    const walk = await changeable(db, actor, id);
+    if (walk.status === 'submitted') break;
+    if (walk.status !== 'draft') throw new HttpError('conflict', `This walk is already ${walk.status}.`);
+    if (await walks.changeWalkStatus(db, actor.organisationId, id, 'draft', { status: 'submitted', submittedAt: nowIso() })) break;
+  }
+  return stored(db, actor, id);
+}
+
+/**
+ * submitted → approved or rejected by a clerk or admin (the route's guard). Repeating the same
+ * decision answers the walk unchanged; any other step is a conflict.
+ */
+export async function reviewWalk(db: Knex, actor: WalkActor, id: string, decision: { approve: true } | { approve: false; reason: string }): Promise<Walk> {
+  const target: WalkStatus = decision.approve ? 'approved' : 'rejected';
+  for (let attempt = 0; attempt < 2; attempt++) {
+    const walk = await readable(db, actor, id);
+    if (walk.status === target) break;
+    if (walk.status !== 'submitted') throw new HttpError('conflict', `Only a submitted walk can be ${target}; this one is ${walk.status}.`);
+    const changed = await walks.changeWalkStatus(db, actor.organisationId, id, 'submitted', {
+      status: target,
+      reviewedBy: actor.id,
+      reviewedAt: nowIso(),
+      rejectReason: decision.approve ? null : decision.reason,
+    });
+    if (changed) break;
+  }
+  return stored(db, actor, id);
+}
+
+// Photos --------------------------------------------------------------------------------------
+
+/** A photo may be added while the walk is a draft or submitted, by its author, a clerk or an admin. */
+export async function checkPhotoUpload(db: Knex, actor: WalkActor, walkId: string): Promise<walks.WalkRecord> {
+  const walk = await changeable(db, actor, walkId);
+  if (walk.status !== 'draft' && walk.status !== 'submitted') throw new HttpError('conflict', `Photos cannot be added to a walk that is ${walk.status}.`);
+  return walk;
+}
+
+/** An absolute path inside the uploads folder, never outside it. */
+function insideUploads(uploadsDir: string, relative: string): string {
+  const root = path.resolve(uploadsDir);
+  const abs = path.resolve(root, relative);
+  if (!abs.startsWith(root + path.sep)) throw new HttpError('not_found');
+  return abs;
+}
+
+/**
+ * Keeps the photo of one stop under UPLOADS_DIR/photos/<organisation>/<walk>/. One photo per
+ * stop: a second upload for the stop replaces the first (row and file), so a retried upload never
+ * duplicates.
+ */
+export async function savePhoto(
+  db: Knex,
+  uploadsDir: string,
+  actor: WalkActor,
+  walkId: string,
+  stop: number,
+  data: Buffer,
+): Promise<Walk['photos'][number]> {
+  const walk = await checkPhotoUpload(db, actor, walkId);
+  if (!(await walks.walkHasStop(db, actor.organisationId, walk.id, stop))) throw invalid('stop', 'This walk has no plant at that stop.');
+  const type = sniffImageType(data);
+  if (!type) throw new HttpError('unsupported_type', 'Send the photo as a JPEG, PNG, WebP or HEIC image.');
+
+  const relative = path.posix.join('photos', actor.organisationId, walk.id, `${stop}-${randomBytes(8).toString('hex')}.${type.ext}`);
+  const abs = insideUploads(uploadsDir, relative);
+  await fs.mkdir(path.dirname(abs), { recursive: true });
+  await fs.writeFile(abs, data, { mode: 0o640 });
+
+  const photo: walks.WalkPhotoRecord = { id: randomUUID(), walkId: walk.id, stop, path: relative, contentType: type.contentType, size: data.length };
+  let replaced: walks.WalkPhotoRecord | undefined;
+  try {
+    await db.transaction(async (trx) => {
+      replaced = await walks.photoAtStop(trx, actor.organisationId, walk.id, stop);
+      if (replaced) await walks.deletePhoto(trx, actor.organisationId, replaced.id);
+      await walks.insertPhoto(trx, actor.organisationId, photo);
+    });
+  } catch (err) {
+    await fs.rm(abs, { force: true });
+    if (isUniqueViolation(err)) throw new HttpError('conflict', 'Another photo for this stop arrived at the same moment. Try again.');
+    throw err;
+  }
+  if (replaced) await fs.rm(insideUploads(uploadsDir, replaced.path), { force: true });
+  return { id: photo.id, stop, url: walks.photoUrl(walk.id, photo.id), contentType: photo.contentType, size: photo.size };
+}
+
+/** The stored file of a photo, for someone who may read its walk; 404 otherwise. */
+export async function photoFile(db: Knex, uploadsDir: string, actor: WalkActor, walkId: string, photoId: string) {
+  await readable(db, actor, walkId);
+  const photo = await walks.getPhoto(db, actor.organisationId, walkId, photoId);
+  if (!photo) throw new HttpError('not_found');
+  return { path: insideUploads(uploadsDir, photo.path), contentType: photo.contentType, size: photo.size };
+}
+
+// Assignments ---------------------------------------------------------------------------------
+
+export async function assignWalk(db: Knex, actor: WalkActor, plantingId: string, input: { samplerId: string; dueOn?: string | null }) {
+  const planting = await getPlanting(db, actor.organisationId, plantingId);
+  if (!planting) throw new HttpError('not_found');
+  const sampler = await getUser(db, actor.organisationId, input.samplerId);
+  if (!sampler || sampler.role !== 'sampler' || !sampler.active) throw invalid('samplerId', 'Choose an active sampler of your organisation.');
+  await walks.upsertWalkAssignment(db, actor.organisationId, { plantingId, samplerId: sampler.id, dueOn: input.dueOn ?? null, createdBy: actor.id });
+  return (await walks.getWalkAssignment(db, actor.organisationId, plantingId, sampler.id))!;
+}
+
+export async function unassignWalk(db: Knex, actor: WalkActor, plantingId: string, samplerId: string): Promise<void> {
+  const planting = await getPlanting(db, actor.organisationId, plantingId);
+  if (!planting || !(await walks.deleteWalkAssignment(db, actor.organisationId, plantingId, samplerId))) throw new HttpError('not_found');
+}
+
+// Today ---------------------------------------------------------------------------------------
+
+/**
+ * The plantings due for a walk this season (not terminated before today): those assigned to the
+ * user first, then the rest of the organisation's, each by ranch and field name.
+ */
+export async function todayList(db: Knex, actor: WalkActor, opts: { q?: string; today?: string } = {}): Promise<{ items: TodayItem[]; total: number }> {
+  const today = opts.today ?? todayIso();
+  const due = await walks.duePlantings(db, actor.organisationId, { season: seasonOfDate(today), today, q: opts.q });
+  const assigned = await walks.assignmentsOfSampler(db, actor.organisationId, actor.id);
+  const latest = await walks.latestWalksOf(db, actor.organisationId, due.map((p) => p.plantingId));
+  const calibrations = new Map<string, Promise<string | null>>();
+  const calibrationOf = (crop: string, variety: string | null) => {
+    const key = `${crop}\u0000${(variety ?? '').trim().toLowerCase()}`;
+    if (!calibrations.has(key)) calibrations.set(key, assignedCalibrationFor(db, actor.organisationId, crop, variety).then((c) => c?.id ?? null));
+    return calibrations.get(key)!;
+  };
+  const items: TodayItem[] = [];
+  for (const p of due) {
+    items.push({
+      ...p,
+      daysSinceSeeding: Math.max(0, daysBetween(p.seededOn, today)),
+      assigned: assigned.has(p.plantingId),
+      calibrationId: await calibrationOf(p.crop, p.variety),
+      latestWalk: latest.get(p.plantingId) ?? null,
+    });
+  }
+  // Array.prototype.sort is stable: ranch and field order holds within each group.
+  items.sort((a, b) => Number(b.assigned) - Number(a.assigned));
+  return { items, total: items.length };
+}
