@@ -2,7 +2,7 @@ import { createHash } from 'node:crypto';
 import type { Knex } from 'knex';
 import { acToHa, lbPerAcToKgPerHa } from '../shared/calc/units';
 import { boundaryAreaHa, type Boundary } from '../shared/registry/boundary';
-import { seasonOfDate, seasonStartYear, seasonStarting, todayIso } from '../shared/registry/season';
+import { addDaysIso, seasonOfDate, seasonStartYear, seasonStarting, todayIso } from '../shared/registry/season';
 import { DEMO_ORGANISATIONS } from './demo-people';
 import { DEMO_RANCHES, type DemoField } from './demo-registry';
 
@@ -31,7 +31,6 @@ function drawBoundary(origin: [number, number], offsetM: number, areaHa: number,
   return { type: 'Polygon', coordinates: [ring] };
 }
 
-const addDays = (iso: string, days: number) => new Date(Date.parse(`${iso}T00:00:00Z`) + days * 86_400_000).toISOString().slice(0, 10);
 const minDate = (a: string, b: string) => (a < b ? a : b);
 
 export async function seedDemoRegistry(db: Knex, today = todayIso()): Promise<void> {
@@ -80,12 +79,12 @@ export async function seedDemoRegistry(db: Knex, today = todayIso()): Promise<vo
 /** Seeded in October or November of the season; last season's crops were terminated in late winter. */
 function demoPlanting(orgId: string, fieldId: string, f: DemoField, crop: string, year: number, i: number, today: string, now: string) {
   const season = seasonStarting(year);
-  const seededOn = minDate(addDays(`${year}-10-01`, (i * 5) % 50), today);
+  const seededOn = minDate(addDaysIso(`${year}-10-01`, (i * 5) % 50), today);
   const past = year < seasonStartYear(seasonOfDate(today));
   const terminatedOn = past
-    ? addDays(`${year + 1}-02-20`, (i * 3) % 30)
+    ? addDaysIso(`${year + 1}-02-20`, (i * 3) % 30)
     : f.terminatedDaysAgo != null
-      ? addDays(today, -f.terminatedDaysAgo)
+      ? addDaysIso(today, -f.terminatedDaysAgo)
       : null;
   return {
     id: demoId(fieldId, season),

@@ -40,6 +40,10 @@ const envSchema = z.object({
   SIGNIN_LIMIT_PER_ACCOUNT: z.coerce.number().int().positive().default(5),
   /** Sign-in attempts allowed per client address per 15 minutes. */
   SIGNIN_LIMIT_PER_ADDRESS: z.coerce.number().int().positive().default(30),
+  /** Sampling reminders cover plantings whose planned termination is within this many days. */
+  REMIND_DAYS_AHEAD: z.coerce.number().int().min(1).max(120).default(14),
+  /** Run the daily jobs (sampling reminders) inside the server; false when an outside scheduler runs `npm run remind`. */
+  DAILY_JOBS: boolish.default(true),
   /** bcrypt cost for stored passwords (each step doubles the work). */
   BCRYPT_ROUNDS: z.coerce.number().int().min(4).max(15).default(11),
   /** pino log level (fatal, error, warn, info, debug, silent). */

@@ -6,6 +6,8 @@ import { loadConfig, type Config } from './config';
 import { openDatabase, migrateLatest } from './db/knex';
 import { countOrganisations } from './db/organisations';
 import { createApp } from './app';
+import { createMailer } from './mail/mailer';
+import { scheduleDailyJobs } from './jobs/daily';
 import { clientIsBuilt } from './http/assets';
 import { seedDemoScenario } from '../seeds/01_demo_scenario';
 import { DEMO_USERS } from '../seeds/demo-people';
@@ -46,7 +48,9 @@ async function main() {
     await build({ logLevel: 'warn' });
   }
 
-  const app = createApp({ config, db, logger, vite, sessionSecret: sessionSecret(config) });
+  const mailer = createMailer(db, { smtpUrl: config.SMTP_URL, from: config.MAIL_FROM, logger });
+  const app = createApp({ config, db, logger, mailer, vite, sessionSecret: sessionSecret(config) });
+  if (config.DAILY_JOBS) scheduleDailyJobs({ db, mailer, logger, publicUrl: config.PUBLIC_URL, daysAhead: config.REMIND_DAYS_AHEAD });
   const server = app.listen(config.PORT, config.HOST, () => {
     const url = config.PUBLIC_URL;
     const lines = [

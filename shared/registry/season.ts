@@ -25,3 +25,7 @@ export const seasonStartYear = (season: string) => Number(season.slice(0, 4));
 export const seasonLabel = (season: string) => season.replace('-', '–');
 
 export const todayIso = (now = new Date()) => now.toISOString().slice(0, 10);
+
+/** The ISO date `days` days after (or before) an ISO date, in whole UTC days. */
+export const addDaysIso = (isoDate: string, days: number) =>
+  new Date(Date.parse(`${isoDate.slice(0, 10)}T00:00:00Z`) + days * 86_400_000).toISOString().slice(0, 10);
