@@ -150,3 +150,96 @@ document.addEventListener('submit', (event) => {
   }
 });
 // ---- end of the registry CSV import ----
+
+// ---- Credit registers: the organisation's register built in the background (views/registers/index.ejs) ----
+// The form posts with fetch (CSRF token in X-CSRF-Token), then polls GET /registers/jobs/:id and
+// moves the <progress> bar until the files are ready. Without script the form posts normally and
+// the page shows the job's state on reload.
+
+interface RegisterJobStatus {
+  phase: 'queued' | 'computing' | 'writing' | 'done' | 'failed';
+  percent: number;
+  fieldsTotal: number;
+  error: string | null;
+  result: { ranches: number; rows: number; csvUrl: string; pdfUrl: string } | null;
+  statusUrl?: string;
+}
+
+async function followRegisterJob(form: HTMLFormElement, statusUrl: string, first?: RegisterJobStatus) {
+  const box = form.querySelector<HTMLElement>('[data-register-job-progress]');
+  const bar = form.querySelector('progress');
+  const text = form.querySelector<HTMLElement>('[data-register-job-text]');
+  const done = form.querySelector<HTMLElement>('[data-register-job-done]');
+  const error = form.querySelector<HTMLElement>('[data-register-job-error]');
+  const button = form.querySelector<HTMLButtonElement>('button[type="submit"]');
+  const fail = (message: string) => {
+    if (error) {
+      error.textContent = message;
+      error.hidden = false;
+    }
+    if (button) button.disabled = false;
+  };
+  if (box) box.hidden = false;
+  if (done) done.hidden = true;
+  if (error) error.hidden = true;
+  if (button) button.disabled = true;
+  let status: RegisterJobStatus | undefined = first;
+  for (;;) {
+    if (status) {
+      if (bar) bar.value = status.percent;
+      if (bar) bar.textContent = `${status.percent} %`;
+      const words = { queued: 'Waiting to start', computing: 'Computing the rows', writing: 'Writing the files', done: 'Ready', failed: 'Failed' }[status.phase];
+      if (text) text.textContent = `${words}: ${status.percent} %${status.fieldsTotal ? ` of ${status.fieldsTotal.toLocaleString('en-US')} fields` : ''}`;
+      if (status.phase === 'done' && status.result) {
+        if (text) text.textContent = `Ready: ${status.result.rows.toLocaleString('en-US')} fields of ${status.result.ranches} ranches (100 %).`;
+        form.querySelector<HTMLAnchorElement>('[data-register-job-csv]')?.setAttribute('href', status.result.csvUrl);
+        form.querySelector<HTMLAnchorElement>('[data-register-job-pdf]')?.setAttribute('href', status.result.pdfUrl);
+        if (done) done.hidden = false;
+        if (button) button.disabled = false;
+        return;
+      }
+      if (status.phase === 'failed') return fail(status.error ?? 'The register could not be built.');
+    }
+    await new Promise((resolve) => setTimeout(resolve, 400));
+    try {
+      const res = await fetch(statusUrl, { headers: { Accept: 'application/json' }, credentials: 'same-origin' });
+      if (!res.ok) return fail(res.status === 404 ? 'This build has expired. Start a new one.' : `The progress could not be read (HTTP ${res.status}).`);
+      status = (await res.json()) as RegisterJobStatus;
+    } catch {
+      return fail('The connection was lost. Reload the page to see whether the build finished.');
+    }
+  }
+}
+
+document.addEventListener('submit', (event) => {
+  const form = event.target;
+  if (!(form instanceof HTMLFormElement) || event.defaultPrevented || !form.matches('[data-register-job]')) return;
+  event.preventDefault();
+  const token = (form.elements.namedItem('_csrf') as HTMLInputElement | null)?.value ?? '';
+  const body = new URLSearchParams();
+  for (const [key, value] of new FormData(form)) if (typeof value === 'string') body.append(key, value);
+  void (async () => {
+    try {
+      const res = await fetch(form.action, { method: 'POST', body, headers: { Accept: 'application/json', 'X-CSRF-Token': token }, credentials: 'same-origin' });
+      const status = (await res.json()) as RegisterJobStatus & { error?: { message?: string } };
+      if (!res.ok || !status.statusUrl) {
+        const message = (status.error as { message?: string } | null)?.message ?? `The build could not be started (HTTP ${res.status}).`;
+        const el = form.querySelector<HTMLElement>('[data-register-job-error]');
+        if (el) {
+          el.textContent = message;
+          el.hidden = false;
+        }
+        return;
+      }
+      await followRegisterJob(form, status.statusUrl, status);
+    } catch {
+      form.submit();
+    }
+  })();
+});
+
+// A build started without script (or before a reload) carries its status URL: follow it.
+for (const form of document.querySelectorAll<HTMLFormElement>('form[data-register-job][data-register-job-status]')) {
+  void followRegisterJob(form, form.dataset.registerJobStatus!);
+}
+// ---- end of credit registers ----

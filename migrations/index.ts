@@ -8,6 +8,7 @@ import * as m20261201100100 from './20261201100100_fill_crop_list';
 import * as m20261201110000 from './20261201110000_create_calibrations';
 import * as m20261201130000 from './20261201130000_create_credit_rules';
 import * as m20261201120000 from './20261201120000_create_field_walks';
+import * as m20261201140000 from './20261201140000_create_registers';
 import * as m20261201150000 from './20261201150000_create_job_runs';
 
 interface Migration {
@@ -27,6 +28,7 @@ const migrations: Record<string, Migration> = {
   '20261201110000_create_calibrations': m20261201110000,
   '20261201130000_create_credit_rules': m20261201130000,
   '20261201120000_create_field_walks': m20261201120000,
+  '20261201140000_create_registers': m20261201140000,
   '20261201150000_create_job_runs': m20261201150000,
 };
 

@@ -30,6 +30,8 @@ import { FIELD_FORM_PATHS, boundaryUpload, registryPages } from './routes/office
 import { seasonPages } from './routes/office/season';
 import { historyPages } from './routes/office/history';
 import { mountRegistryApi } from './routes/api/registry-routes';
+import { registersApi } from './routes/api/registers';
+import { registerPages } from './routes/office/registers';
 import { calibrationsApi } from './routes/api/calibrations';
 import { CALIBRATION_UPLOAD_PATHS, calibrationPages, calibrationUpload } from './routes/office/calibrations';
 import { mountWalksApi } from './routes/api/walk-routes';
@@ -151,6 +153,7 @@ export function createApp(deps: AppDeps): Express {
   app.use('/api/calibrations', calibrationsApi(ctx));
   mountWalksApi(app, ctx);
   app.use('/api/rules', rulesAdminApi(ctx));
+  app.use('/api/registers', registersApi(ctx));
   app.use('/api', notFound);
 
   app.use(authPages(ctx, passport));
@@ -164,6 +167,7 @@ export function createApp(deps: AppDeps): Express {
   app.use('/registry/import', registryImportPages(ctx));
   app.use(rulesPages(ctx));
   app.use(calibrationPages(ctx));
+  app.use(registerPages(ctx));
   app.use(captureApp(deps.vite));
 
   app.use(notFound);

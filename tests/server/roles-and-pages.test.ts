@@ -30,6 +30,7 @@ const MATRIX: { path: string; admin: number; clerk: number; sampler: number; aud
   { path: '/registry/season', admin: 200, clerk: 200, sampler: 200, auditor: 200 },
   { path: '/history', admin: 200, clerk: 200, sampler: 403, auditor: 200 },
   { path: '/registry/import', admin: 200, clerk: 200, sampler: 403, auditor: 403 },
+  { path: '/registers', admin: 200, clerk: 200, sampler: 403, auditor: 200 },
   { path: '/account', admin: 200, clerk: 200, sampler: 200, auditor: 200 },
 ];
 

@@ -1,0 +1,126 @@
+import { Router, type Request, type Response } from 'express';
+import { z } from 'zod';
+import type { AppContext } from '../../app';
+import { requireRole } from '../../auth/guards';
+import { HttpError } from '../../http/errors';
+import { validateBody, validateQuery } from '../../http/validate';
+import { getRegister, latestRegister, listRegisterVersions } from '../../db/registers';
+import { todayIso } from '../../../shared/registry/season';
+import { asFinal, registerFileStem } from '../../services/register-format';
+import { registerCsv, registerPdf } from '../../services/register-output';
+import {
+  MAX_YEAR,
+  MIN_YEAR,
+  computeRegister,
+  diffRegisters,
+  finaliseRegister,
+  getFinalRegister,
+  parseStored,
+  verifyStored,
+  type FinalRegister,
+} from '../../services/registers';
+
+const ranchId = z.string({ message: 'Choose a ranch.' }).trim().min(1, 'Choose a ranch.').max(64);
+const YEAR_MESSAGES = ['Give the reporting year, e.g. 2027.', `The year must be ${MIN_YEAR} or later.`, `The year must be ${MAX_YEAR} or earlier.`] as const;
+const year = z.coerce.number({ message: YEAR_MESSAGES[0] }).int(YEAR_MESSAGES[0]).min(MIN_YEAR, YEAR_MESSAGES[1]).max(MAX_YEAR, YEAR_MESSAGES[2]);
+
+const registerQuery = z.object({ ranchId, year, draft: z.enum(['1', 'true', '0', 'false', '']).optional() });
+const versionsQuery = z.object({ ranchId, year });
+const finaliseBody = z.object({
+  ranchId,
+  year: z.number({ message: YEAR_MESSAGES[0] }).int(YEAR_MESSAGES[0]).min(MIN_YEAR, YEAR_MESSAGES[1]).max(MAX_YEAR, YEAR_MESSAGES[2]),
+});
+const paperQuery = z.object({ paper: z.enum(['a4', 'letter']).optional().catch(undefined) });
+
+export const IMMUTABLE_MESSAGE = 'A finalised register never changes; finalise again to make an amendment.';
+
+/** A finalised version as the API answers it, with what changed from the version before. */
+async function withDiff(ctx: AppContext, organisationId: string, final: FinalRegister) {
+  const previous = final.previousId ? await getFinalRegister(ctx.db, organisationId, final.previousId) : undefined;
+  return { status: 'final' as const, ...final, diff: previous ? diffRegisters(previous, final) : null };
+}
+
+/**
+ * /api/registers (../shared/API.md, Rules and registers; README "Credit registers"): admins,
+ * clerks and auditors read; clerks and admins finalise; nothing changes a finalised version.
+ */
+export function registersApi(ctx: AppContext): Router {
+  const router = Router();
+  const readers = requireRole('admin', 'clerk', 'auditor');
+  const writers = requireRole('clerk', 'admin');
+
+  const current = async (req: Request, res: Response) => {
+    const q = res.locals.query as z.infer<typeof registerQuery>;
+    const orgId = req.user!.organisationId;
+    const wantDraft = q.draft === '1' || q.draft === 'true';
+    const latest = wantDraft ? undefined : await latestRegister(ctx.db, orgId, q.ranchId, q.year);
+    if (latest) {
+      res.json(await withDiff(ctx, orgId, parseStored(latest)));
+      return;
+    }
+    const draft = await computeRegister(ctx.db, orgId, q.ranchId, q.year, todayIso());
+    if (!draft) throw new HttpError('not_found');
+    res.json({ status: 'draft', ...draft });
+  };
+
+  const finalise = async (req: Request, res: Response) => {
+    const body = req.body as z.infer<typeof finaliseBody>;
+    const orgId = req.user!.organisationId;
+    const final = await finaliseRegister(ctx.db, orgId, body.ranchId, body.year, req.user!, todayIso());
+    res.status(201).json(await withDiff(ctx, orgId, final));
+  };
+
+  const versions = async (req: Request, res: Response) => {
+    const q = res.locals.query as z.infer<typeof versionsQuery>;
+    const items = await listRegisterVersions(ctx.db, req.user!.organisationId, q.ranchId, q.year);
+    res.json({ items, total: items.length });
+  };
+
+  const load = async (req: Request<{ id: string }>) => {
+    const stored = await getRegister(ctx.db, req.user!.organisationId, req.params.id);
+    if (!stored) throw new HttpError('not_found');
+    return stored;
+  };
+
+  const show = async (req: Request<{ id: string }>, res: Response) => {
+    const stored = await load(req);
+    res.json({ ...(await withDiff(ctx, req.user!.organisationId, parseStored(stored))), hashVerified: verifyStored(stored) });
+  };
+
+  const csv = async (req: Request<{ id: string }>, res: Response) => {
+    const doc = asFinal(parseStored(await load(req)));
+    res.setHeader('Content-Type', 'text/csv; charset=utf-8');
+    res.setHeader('Content-Disposition', `attachment; filename="${registerFileStem(doc)}.csv"`);
+    res.setHeader('X-Content-Hash', doc.contentHash!);
+    res.send(registerCsv([doc]));
+  };
+
+  const pdf = async (req: Request<{ id: string }>, res: Response) => {
+    const doc = asFinal(parseStored(await load(req)));
+    const { paper } = paperQuery.parse(req.query);
+    const buffer = await registerPdf([doc], { units: req.user!.units, paper });
+    res.setHeader('Content-Type', 'application/pdf');
+    res.setHeader('Content-Disposition', `attachment; filename="${registerFileStem(doc)}.pdf"`);
+    res.setHeader('X-Content-Hash', doc.contentHash!);
+    res.send(buffer);
+  };
+
+  // Writers learn that the register exists and cannot change; a missing one is still 404.
+  const immutable = async (req: Request<{ id?: string }>) => {
+    if (req.params.id && !(await getRegister(ctx.db, req.user!.organisationId, req.params.id))) throw new HttpError('not_found');
+    throw new HttpError('conflict', IMMUTABLE_MESSAGE);
+  };
+
+  router.get('/', readers, validateQuery(registerQuery), current);
+  router.post('/', writers, validateBody(finaliseBody), finalise);
+  router.get('/versions', readers, validateQuery(versionsQuery), versions);
+  router.get('/:id.csv', readers, csv);
+  router.get('/:id.pdf', readers, pdf);
+  router.get('/:id', readers, show);
+  for (const path of ['/', '/:id']) {
+    router.patch(path, writers, immutable);
+    router.put(path, writers, immutable);
+    router.delete(path, writers, immutable);
+  }
+  return router;
+}

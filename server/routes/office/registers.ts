@@ -1,0 +1,242 @@
+import { Router, type Request, type Response } from 'express';
+import { z } from 'zod';
+import type { AppContext } from '../../app';
+import { requireRole } from '../../auth/guards';
+import { HttpError } from '../../http/errors';
+import { getRegister, latestRegister, listRegisterVersions } from '../../db/registers';
+import { registerRanches } from '../../db/register-inputs';
+import { todayIso } from '../../../shared/registry/season';
+import { barChartSvg } from '../../services/register-chart';
+import { CAUTIONS, asDraft, asFinal, cropLabel, registerFileStem, registerUnits, shortId } from '../../services/register-format';
+import { registerPdf } from '../../services/register-output';
+import { createRegisterJobs } from '../../services/register-jobs';
+import {
+  MAX_YEAR,
+  MIN_YEAR,
+  computeRegister,
+  diffRegisters,
+  finaliseRegister,
+  getFinalRegister,
+  organisationSummary,
+  parseStored,
+  reportingYearOf,
+  verifyStored,
+} from '../../services/registers';
+
+const yearParam = z.coerce.number().int().min(MIN_YEAR).max(MAX_YEAR);
+const overviewQuery = z.object({ year: yearParam.optional().catch(undefined), job: z.string().max(64).optional().catch(undefined) });
+const paperQuery = z.object({ paper: z.enum(['a4', 'letter']).optional().catch(undefined) });
+
+/** The overview's year choices: the season in progress and the four before it. */
+const yearChoices = (current: number) => [current, current - 1, current - 2, current - 3, current - 4];
+
+const wantsJson = (req: Request) => req.accepts(['html', 'json']) === 'json';
+
+/**
+ * Credit register pages (README, "Credit registers"): the organisation's overview with its chart
+ * and background build, a ranch's draft with the Finalise form, and each finalised version with
+ * its provenance, amendment diff, print view, files and "Send to grower".
+ */
+export function registerPages(ctx: AppContext): Router {
+  const router = Router();
+  const readers = requireRole('admin', 'clerk', 'auditor');
+  const writers = requireRole('clerk', 'admin');
+  const jobs = createRegisterJobs({ db: ctx.db, logger: ctx.logger });
+  router.use('/registers', readers);
+
+  const parseYear = (raw: string) => {
+    const y = yearParam.safeParse(raw);
+    if (!y.success) throw new HttpError('not_found');
+    return y.data;
+  };
+
+  // ---- the organisation's overview ----
+  router.get('/registers', async (req, res) => {
+    const q = overviewQuery.parse(req.query);
+    const today = todayIso();
+    const current = reportingYearOf(today);
+    const year = q.year ?? current;
+    const orgId = req.user!.organisationId;
+    const summary = await organisationSummary(ctx.db, orgId, year, today);
+    const rf = registerUnits(req.user!.units);
+    const chart = summary.ranches.length
+      ? barChartSvg({
+          id: 'credit-by-ranch',
+          title: `Credit by ranch, ${year}`,
+          description: summary.ranches.map((r) => `${r.ranchName}: ${rf.massN(r.shown.creditKgN)}${r.final ? ` (version ${r.final.version})` : ' (draft)'}`).join('; '),
+          axisLabel: `Credit (${rf.massUnit}); hatched bars are drafts, solid bars finalised versions`,
+          formatTick: (n) => rf.num(n, 0),
+          bars: summary.ranches.map((r) => ({ label: r.ranchName, value: rf.massValue(r.shown.creditKgN), valueText: rf.massN(r.shown.creditKgN, 0), muted: !r.final })),
+        })
+      : '';
+    const job = q.job ? jobs.get(orgId, q.job) : undefined;
+    res.render('registers/index', {
+      title: `Credit registers ${year}`,
+      year,
+      years: yearChoices(Math.max(current, year)),
+      summary,
+      chart,
+      rf,
+      job: job ? jobs.status(job) : null,
+      shortId,
+    });
+  });
+
+  // ---- the organisation's register, built in the background ----
+  router.post('/registers/jobs', async (req, res) => {
+    const y = yearParam.safeParse(req.body?.year);
+    if (!y.success) throw new HttpError('invalid', 'Choose a reporting year.', { year: 'Choose a reporting year.' });
+    const job = jobs.start(req.user!.organisationId, y.data, req.user!);
+    const status = jobs.status(job);
+    if (wantsJson(req)) {
+      res.status(202).json({ ...status, statusUrl: `/registers/jobs/${job.id}` });
+      return;
+    }
+    res.redirect(303, `/registers?year=${y.data}&job=${job.id}#organisation-register`);
+  });
+
+  const findJob = (req: Request<{ id: string }>) => {
+    const job = jobs.get(req.user!.organisationId, req.params.id);
+    if (!job) throw new HttpError('not_found', 'This build is unknown or has expired (results are kept for an hour). Start a new one.');
+    return job;
+  };
+  const jobResult = (req: Request<{ id: string }>) => {
+    const job = findJob(req);
+    if (!job.result) throw new HttpError('conflict', 'The register is still being built.');
+    return job.result;
+  };
+  router.get('/registers/jobs/:id.csv', (req, res) => {
+    const result = jobResult(req);
+    res.setHeader('Content-Type', 'text/csv; charset=utf-8');
+    res.setHeader('Content-Disposition', `attachment; filename="${result.stem}.csv"`);
+    res.send(result.csv);
+  });
+  router.get('/registers/jobs/:id.pdf', (req, res) => {
+    const result = jobResult(req);
+    res.setHeader('Content-Type', 'application/pdf');
+    res.setHeader('Content-Disposition', `attachment; filename="${result.stem}.pdf"`);
+    res.send(result.pdf);
+  });
+  router.get('/registers/jobs/:id', (req, res) => {
+    res.setHeader('Cache-Control', 'no-store');
+    res.json(jobs.status(findJob(req)));
+  });
+
+  // ---- a finalised version ----
+  const loadVersion = async (req: Request) => {
+    const orgId = req.user!.organisationId;
+    const stored = await getRegister(ctx.db, orgId, String(req.params.id));
+    if (!stored) throw new HttpError('not_found');
+    return { stored, final: parseStored(stored) };
+  };
+
+  router.get('/registers/v/:id', async (req, res) => {
+    const orgId = req.user!.organisationId;
+    const { stored, final } = await loadVersion(req);
+    const { paper } = paperQuery.parse(req.query);
+    const previous = final.previousId ? await getFinalRegister(ctx.db, orgId, final.previousId) : undefined;
+    const [ranch] = await registerRanches(ctx.db, orgId, [final.ranch.id]);
+    const versions = await listRegisterVersions(ctx.db, orgId, final.ranch.id, final.year);
+    res.render('registers/version', {
+      title: `Credit register ${final.ranch.name} ${final.year}, version ${final.version}`,
+      doc: asFinal(final),
+      previous: previous ? { id: previous.id, version: previous.version } : null,
+      diff: previous ? diffRegisters(previous, final) : null,
+      hashVerified: verifyStored(stored),
+      versions,
+      newest: versions[0]?.id === final.id,
+      contactEmails: ranch?.contactEmails ?? [],
+      paper: paper ?? 'a4',
+      rf: registerUnits(req.user!.units),
+      cautions: CAUTIONS,
+      cropLabel,
+      shortId,
+    });
+  });
+
+  router.post('/registers/v/:id/send', writers, async (req, res) => {
+    const orgId = req.user!.organisationId;
+    const { final } = await loadVersion(req);
+    const [ranch] = await registerRanches(ctx.db, orgId, [final.ranch.id]);
+    const to = ranch?.contactEmails ?? [];
+    if (!to.length) {
+      req.session.flash = { kind: 'error', text: 'This ranch has no grower addresses. Add them on the ranch record first.' };
+      res.redirect(303, `/registers/v/${final.id}`);
+      return;
+    }
+    const doc = asFinal(final);
+    const rf = registerUnits(req.user!.units);
+    const pdf = await registerPdf([doc], { units: req.user!.units });
+    const t = final.totals;
+    await ctx.mailer.send({
+      organisationId: orgId,
+      to: to.join(', '),
+      subject: `Credit register ${final.year}: ${final.ranch.name} (version ${final.version})`,
+      text: [
+        `Attached is the nitrogen scavenging credit register of ${final.ranch.name} for reporting year ${final.year} (the ${final.season.replace('-', '–')} season), version ${final.version}, finalised by ${final.finalisedBy.name} on ${final.finalisedAt.slice(0, 10)}.`,
+        '',
+        `Fields: ${t.fields}; eligible: ${t.eligibleFields} (${rf.area(t.eligibleAreaHa)} of ${rf.area(t.totalAreaHa)}).`,
+        `Credit total: ${rf.massN(t.creditKgN)} (${rf.num(t.creditKgN, 1)} kg N).`,
+        '',
+        `Content hash (SHA-256): ${final.contentHash}`,
+        '',
+        ...CAUTIONS,
+        '',
+        `Sent by ${req.user!.name} (${req.user!.organisationName}) with Crowntip.`,
+      ].join('\n'),
+      attachments: [{ filename: `${registerFileStem(doc)}.pdf`, contentType: 'application/pdf', content: pdf }],
+    });
+    req.session.flash = { kind: 'info', text: `Register version ${final.version} sent as PDF to ${to.join(', ')}.` };
+    res.redirect(303, `/registers/v/${final.id}`);
+  });
+
+  // ---- a ranch's register for a year: the draft and the Finalise form ----
+  const showDraft = async (req: Request, res: Response, status = 200, errors: Record<string, string> = {}) => {
+    const orgId = req.user!.organisationId;
+    const year = parseYear(String(req.params.year));
+    const draft = await computeRegister(ctx.db, orgId, String(req.params.ranchId), year, todayIso());
+    if (!draft) throw new HttpError('not_found');
+    const latest = await latestRegister(ctx.db, orgId, draft.ranch.id, year);
+    const latestFinal = latest ? parseStored(latest) : null;
+    const versions = await listRegisterVersions(ctx.db, orgId, draft.ranch.id, year);
+    res.status(status).render('registers/draft', {
+      title: `Credit register ${draft.ranch.name} ${year} (draft)`,
+      doc: asDraft(draft),
+      versions,
+      latest: latestFinal ? { id: latestFinal.id, version: latestFinal.version } : null,
+      diff: latestFinal ? diffRegisters(latestFinal, draft) : null,
+      errors,
+      rf: registerUnits(req.user!.units),
+      cautions: CAUTIONS,
+      cropLabel,
+      shortId,
+    });
+  };
+
+  router.get('/registers/:ranchId/:year', (req, res) => showDraft(req, res));
+
+  router.post('/registers/:ranchId/:year', writers, async (req, res) => {
+    const ranchId = String(req.params.ranchId);
+    const year = parseYear(String(req.params.year));
+    if (req.body?.confirm !== 'yes') {
+      return showDraft(req, res, 400, { confirm: 'Tick the box to confirm that the rows are checked; a finalised register cannot be changed.' });
+    }
+    try {
+      const final = await finaliseRegister(ctx.db, req.user!.organisationId, ranchId, year, req.user!, todayIso());
+      req.session.flash = {
+        kind: 'info',
+        text: final.version === 1 ? `Register finalised as version 1.` : `Amendment finalised as version ${final.version}; the changes from version ${final.version - 1} are listed below.`,
+      };
+      res.redirect(303, `/registers/v/${final.id}`);
+    } catch (err) {
+      if (err instanceof HttpError && err.code === 'conflict') {
+        req.session.flash = { kind: 'error', text: err.message };
+        res.redirect(303, `/registers/${encodeURIComponent(ranchId)}/${year}`);
+        return;
+      }
+      throw err;
+    }
+  });
+
+  return router;
+}

@@ -1,0 +1,377 @@
+import { createRequire } from 'node:module';
+import path from 'node:path';
+import PDFDocument from 'pdfkit';
+import { KG_PER_LB, cmToIn, haToAc, kgPerHaToLbPerAc } from '../../shared/calc/units';
+import { toCsv } from '../http/csv-safe';
+import type { Units } from '../db/users';
+import { CAUTIONS, VERDICT_LABELS, cropLabel, registerUnits, shortId, type RegisterDoc } from './register-format';
+import type { RegisterRow, RegisterTotals } from './registers';
+
+/*
+ * A register's files: CSV (one row per field and a totals row per register; columns documented in
+ * the README) and PDF (pdfkit, Lato embedded). Both take one register or many (the organisation's
+ * register is every ranch's, one after the other).
+ */
+
+// ---- CSV ----
+
+export const REGISTER_CSV_COLUMNS = [
+  'ranch',
+  'year',
+  'season',
+  'status',
+  'version',
+  'content_hash',
+  'field',
+  'area_ha',
+  'area_ac',
+  'crop',
+  'variety',
+  'seeded_on',
+  'terminated_on',
+  'projected',
+  'counted_to',
+  'days_in_window',
+  'walk_id',
+  'walk_qualifies',
+  'walked_on',
+  'plants',
+  'mean_length_cm',
+  'mean_length_in',
+  'biomass_kg_ha',
+  'biomass_lb_ac',
+  'interval_low_kg_ha',
+  'interval_high_kg_ha',
+  'interval_level',
+  'calibration_id',
+  'calibration_version',
+  'extrapolated',
+  'verdict',
+  'eligible_area_ha',
+  'credit_kg_n',
+  'credit_lb_n',
+  'reasons',
+] as const;
+
+const round = (n: number | null | undefined, digits: number) => (n == null ? null : Number(n.toFixed(digits)));
+
+function csvRow(doc: RegisterDoc, r: RegisterRow): unknown[] {
+  const w = r.walk;
+  return [
+    doc.ranch.name,
+    doc.year,
+    doc.season,
+    doc.status,
+    doc.version ?? '',
+    doc.contentHash ?? '',
+    r.fieldName,
+    round(r.areaHa, 4),
+    round(haToAc(r.areaHa), 2),
+    r.crop ?? '',
+    r.variety ?? '',
+    r.seededOn ?? '',
+    r.terminatedOn ?? '',
+    r.projected,
+    r.endOn ?? '',
+    r.daysInWindow,
+    w?.id ?? '',
+    w ? r.walkQualifies : '',
+    w?.walkedOn ?? '',
+    w?.n ?? null,
+    round(w?.meanLengthCm, 1),
+    w ? round(cmToIn(w.meanLengthCm), 1) : null,
+    round(w?.biomassKgHa, 0),
+    w ? round(kgPerHaToLbPerAc(w.biomassKgHa), 0) : null,
+    round(w?.interval[0], 0),
+    round(w?.interval[1], 0),
+    w?.level ?? null,
+    w?.calibrationId ?? '',
+    w ? String(w.calibrationVersion) : '',
+    w ? w.extrapolated : '',
+    r.verdict,
+    r.verdict === 'eligible' ? round(r.areaHa, 4) : 0,
+    round(r.creditKgN, 3),
+    round(r.creditKgN / KG_PER_LB, 3),
+    r.reasons.map((x) => x.message).join(' | '),
+  ];
+}
+
+function csvTotals(doc: RegisterDoc, t: RegisterTotals): unknown[] {
+  const row: unknown[] = REGISTER_CSV_COLUMNS.map(() => '');
+  const set = (col: (typeof REGISTER_CSV_COLUMNS)[number], v: unknown) => (row[REGISTER_CSV_COLUMNS.indexOf(col)] = v);
+  set('ranch', doc.ranch.name);
+  set('year', doc.year);
+  set('season', doc.season);
+  set('status', doc.status);
+  set('version', doc.version ?? '');
+  set('content_hash', doc.contentHash ?? '');
+  set('field', 'TOTAL');
+  set('area_ha', round(t.totalAreaHa, 4));
+  set('area_ac', round(haToAc(t.totalAreaHa), 2));
+  set('verdict', `${t.eligibleFields} of ${t.fields} fields eligible`);
+  set('eligible_area_ha', round(t.eligibleAreaHa, 4));
+  set('credit_kg_n', round(t.creditKgN, 3));
+  set('credit_lb_n', round(t.creditKgN / KG_PER_LB, 3));
+  set(
+    'reasons',
+    t.projectedFields
+      ? `${t.projectedFields} field(s) not yet terminated are projected and not counted; they would add ${round(t.projectedCreditKgN, 1)} kg N`
+      : '',
+  );
+  return row;
+}
+
+/** One CSV for one or many registers: each field's row, then that register's totals row. */
+export function registerCsv(docs: RegisterDoc[]): string {
+  const rows: unknown[][] = [];
+  for (const d of docs) {
+    for (const r of d.rows) rows.push(csvRow(d, r));
+    rows.push(csvTotals(d, d.totals));
+  }
+  return toCsv(rows, REGISTER_CSV_COLUMNS);
+}
+
+// ---- PDF ----
+
+const require = createRequire(import.meta.url);
+const LATO_DIR = path.join(path.dirname(require.resolve('@fontsource/lato/package.json')), 'files');
+const LATO = path.join(LATO_DIR, 'lato-latin-400-normal.woff');
+const LATO_BOLD = path.join(LATO_DIR, 'lato-latin-700-normal.woff');
+
+export type Paper = 'a4' | 'letter';
+
+export interface PdfOptions {
+  units: Units;
+  paper?: Paper;
+  /** Called after each field row is written (for a job's progress). */
+  onRow?: () => void;
+  /** Title of a cover page listing every register (the organisation's register). */
+  cover?: { title: string; lines: string[] };
+}
+
+const INK = '#23201a';
+const MUTED = '#5b5446';
+const RULE = '#b9b2a3';
+const FIELD_ROW_FONT = 7.5;
+
+interface Column {
+  title: string;
+  share: number;
+  align?: 'left' | 'right';
+  cell: (r: RegisterRow) => string;
+}
+
+const yieldToLoop = () => new Promise<void>((resolve) => setImmediate(resolve));
+
+/** One PDF for one or many registers; yields to the event loop every 100 rows so a server stays responsive. */
+export async function registerPdf(docs: RegisterDoc[], opts: PdfOptions): Promise<Buffer> {
+  const u = registerUnits(opts.units);
+  const pdf = new PDFDocument({
+    size: opts.paper === 'letter' ? 'LETTER' : 'A4',
+    layout: 'landscape',
+    margins: { top: 58, bottom: 46, left: 36, right: 36 },
+    bufferPages: true,
+    autoFirstPage: false,
+    info: {
+      Title: docs.length === 1 ? `Credit register ${docs[0].ranch.name} ${docs[0].year}` : (opts.cover?.title ?? 'Credit registers'),
+      Author: 'Crowntip',
+      Subject: 'Nitrogen scavenging credit register',
+    },
+  });
+  pdf.registerFont('Lato', LATO);
+  pdf.registerFont('Lato-Bold', LATO_BOLD);
+  const chunks: Buffer[] = [];
+  pdf.on('data', (c: Buffer) => chunks.push(c));
+  const ended = new Promise<void>((resolve, reject) => {
+    pdf.on('end', resolve);
+    pdf.on('error', reject);
+  });
+
+  const left = 36;
+  let current: RegisterDoc | null = null;
+  const headers: (RegisterDoc | null)[] = [];
+  const width = () => pdf.page.width - 72;
+  const bottom = () => pdf.page.height - pdf.page.margins.bottom;
+
+  const columns: Column[] = [
+    { title: 'Field', share: 14, cell: (r) => r.fieldName },
+    { title: `Area (${u.areaUnit})`, share: 5.5, align: 'right', cell: (r) => u.num(opts.units === 'us' ? haToAc(r.areaHa) : r.areaHa, 1) },
+    { title: 'Crop · variety', share: 12.5, cell: (r) => (r.crop ? `${cropLabel(r.crop)}${r.variety ? ` · ${r.variety}` : ''}` : '—') },
+    { title: 'Seeded', share: 7, cell: (r) => r.seededOn ?? '—' },
+    { title: 'Terminated', share: 8, cell: (r) => r.terminatedOn ?? (r.endOn ? `proj. ${r.endOn}` : '—') },
+    { title: 'Days in window', share: 5.5, align: 'right', cell: (r) => (r.daysInWindow == null ? '—' : String(r.daysInWindow)) },
+    { title: 'Approved walk', share: 12.5, cell: (r) => (r.walk ? (r.walkQualifies ? `${r.walk.walkedOn} · ${shortId(r.walk.id)}` : `${r.walk.walkedOn} (not usable)`) : '—') },
+    { title: `Mean length`, share: 6, align: 'right', cell: (r) => (r.walk ? `${u.length(r.walk.meanLengthCm)}` : '—') },
+    { title: `Estimate, ${u.rateUnit} (interval)`, share: 12.5, cell: (r) => (r.walk ? `${u.rateNumber(r.walk.biomassKgHa)} (${u.rateNumber(r.walk.interval[0])}–${u.rateNumber(r.walk.interval[1])})` : '—') },
+    { title: 'Verdict', share: 10, cell: (r) => VERDICT_LABELS[r.verdict] },
+    { title: `Credit (${u.massUnit})`, share: 6.5, align: 'right', cell: (r) => (r.creditKgN ? `${r.verdict === 'projected_eligible' ? '(' : ''}${u.massNumber(r.creditKgN)}${r.verdict === 'projected_eligible' ? ')' : ''}` : '0') },
+  ];
+  const totalShare = columns.reduce((s, c) => s + c.share, 0);
+  const colX = () => {
+    const xs: { x: number; w: number }[] = [];
+    let x = left;
+    for (const c of columns) {
+      const w = (width() * c.share) / totalShare;
+      xs.push({ x, w });
+      x += w;
+    }
+    return xs;
+  };
+
+  /** Text that fits one line of the width, cut with an ellipsis. */
+  const fit = (text: string, w: number) => {
+    if (pdf.widthOfString(text) <= w) return text;
+    let s = text;
+    while (s.length > 1 && pdf.widthOfString(`${s}…`) > w) s = s.slice(0, -1);
+    return `${s}…`;
+  };
+
+  // Every page records the register it belongs to (also pages pdfkit adds for a long paragraph).
+  pdf.on('pageAdded', () => headers.push(current));
+  const newPage = (doc: RegisterDoc | null) => {
+    current = doc;
+    pdf.addPage();
+    pdf.x = left;
+    pdf.y = pdf.page.margins.top;
+  };
+
+  const ensure = (height: number, repeatHeader: boolean) => {
+    if (pdf.y + height <= bottom()) return;
+    newPage(current);
+    if (repeatHeader) tableHeader();
+  };
+
+  const tableHeader = () => {
+    const xs = colX();
+    pdf.font('Lato-Bold').fontSize(FIELD_ROW_FONT).fillColor(INK);
+    const y = pdf.y;
+    const h = Math.max(...columns.map((c, i) => pdf.heightOfString(c.title, { width: xs[i].w - 4 })));
+    columns.forEach((c, i) => pdf.text(c.title, xs[i].x + 2, y, { width: xs[i].w - 4, align: c.align ?? 'left' }));
+    pdf.moveTo(left, y + h + 2).lineTo(left + width(), y + h + 2).lineWidth(1).strokeColor(INK).stroke();
+    pdf.y = y + h + 5;
+  };
+
+  const heading = (text: string, size: number) => {
+    pdf.font('Lato-Bold').fontSize(size).fillColor(INK).text(text, left, pdf.y, { width: width() });
+  };
+  const para = (text: string, size = 9, color = INK) => {
+    pdf.font('Lato').fontSize(size).fillColor(color).text(text, left, pdf.y, { width: width() });
+  };
+
+  if (opts.cover) {
+    newPage(null);
+    heading(opts.cover.title, 18);
+    pdf.moveDown(0.5);
+    for (const line of opts.cover.lines) para(line, 10);
+    pdf.moveDown(0.5);
+    for (const c of CAUTIONS) para(c, 9, MUTED);
+  }
+
+  let written = 0;
+  for (const doc of docs) {
+    newPage(doc);
+    heading(`Credit register · ${doc.ranch.name} · ${doc.year}`, 15);
+    para(
+      `Reporting year ${doc.year}: plantings of the ${doc.season.replace('-', '–')} season. ${
+        doc.status === 'final'
+          ? `Finalised version ${doc.version} by ${doc.finalisedBy?.name ?? '—'} at ${doc.finalisedAt}.`
+          : `DRAFT computed on ${doc.computedOn}: not finalised, may change.`
+      }`,
+      9.5,
+    );
+    if (doc.contentHash) para(`Content hash (SHA-256): ${doc.contentHash}`, 8.5, MUTED);
+    pdf.moveDown(0.6);
+
+    tableHeader();
+    const xs = colX();
+    for (const r of doc.rows) {
+      pdf.font('Lato').fontSize(FIELD_ROW_FONT);
+      const why = r.verdict === 'eligible' || r.verdict === 'projected_eligible' ? '' : `Why: ${r.reasons.map((x) => u.reason(x, r, doc.rule)).join(' · ')}`;
+      const whyX = xs[2].x + 2;
+      const whyW = left + width() - whyX - 2;
+      const rowH = 10 + (why ? pdf.fontSize(6.8).heightOfString(why, { width: whyW }) + 2 : 0);
+      ensure(rowH + 3, true);
+      const y = pdf.y;
+      pdf.font(r.verdict === 'eligible' ? 'Lato-Bold' : 'Lato').fontSize(FIELD_ROW_FONT).fillColor(INK);
+      columns.forEach((c, i) => {
+        const text = fit(c.cell(r), xs[i].w - 4);
+        pdf.text(text, xs[i].x + 2, y, { width: xs[i].w - 4, align: c.align ?? 'left', lineBreak: false });
+      });
+      if (why) pdf.font('Lato').fontSize(6.8).fillColor(MUTED).text(why, whyX, y + 10, { width: whyW });
+      pdf.y = y + rowH;
+      pdf.moveTo(left, pdf.y + 1).lineTo(left + width(), pdf.y + 1).lineWidth(0.4).strokeColor(RULE).stroke();
+      pdf.y += 3;
+      opts.onRow?.();
+      if (++written % 100 === 0) await yieldToLoop();
+    }
+    if (!doc.rows.length) para('This ranch has no fields.', 9);
+
+    // Totals
+    const t = doc.totals;
+    ensure(70, false);
+    pdf.moveDown(0.6);
+    heading('Totals', 11);
+    para(`Fields: ${t.fields} (${t.plantedFields} with a cover crop); eligible: ${t.eligibleFields}.`, 9.5);
+    para(`Area: ${u.area(t.totalAreaHa)}; eligible area: ${u.area(t.eligibleAreaHa)} (${u.num(t.eligibleAreaHa, 2)} ha).`, 9.5);
+    pdf.font('Lato-Bold').fontSize(10.5).fillColor(INK).text(`Credit total: ${u.massN(t.creditKgN)} (${u.num(t.creditKgN, 1)} kg N)`, left, pdf.y, { width: width() });
+    if (t.projectedFields) {
+      para(
+        `${t.projectedFields} field(s) have no termination date yet: they are counted up to ${doc.projectionDate} (projected) and are not in the total; the eligible ones would add ${u.massN(t.projectedCreditKgN)}.`,
+        9,
+      );
+    }
+
+    // Provenance
+    ensure(120, false);
+    pdf.moveDown(0.6);
+    heading('Provenance', 11);
+    const rule = doc.rule;
+    para(`Credit rule: ${rule.label}; the rule in effect on 1 January ${doc.year}.`, 8.5);
+    para(
+      `Rule values: threshold ${u.rate(rule.thresholdKgHa)}; at least ${rule.minDaysInWindow} days inside the rainy window ${rule.window.start} to ${rule.window.end}; eligible crops ${rule.eligibleCrops.map(cropLabel).join(', ') || 'none'}; credit ${u.creditRate(rule.creditKgNPerHa)}; walk at most ${rule.maxDaysSampleBeforeTermination} days before termination.`,
+      8.5,
+    );
+    para(`Calibrations used: ${doc.calibrations.map((c) => `${c.id} version ${c.version}`).join('; ') || 'none'}.`, 8.5);
+    para(`Field walks (${doc.walkIds.length}): ${doc.walkIds.join(', ') || 'none'}.`, 7.5, MUTED);
+    if (doc.status === 'final') {
+      para(`Finalised by ${doc.finalisedBy?.name ?? '—'} at ${doc.finalisedAt}; version ${doc.version}${doc.previousId ? `, amends version id ${doc.previousId}` : ''}.`, 8.5);
+      para(`Register id ${doc.id}. Content hash (SHA-256 of the stored canonical JSON): ${doc.contentHash}`, 8.5);
+    }
+
+    // Cautions
+    ensure(50, false);
+    pdf.moveDown(0.6);
+    heading('Cautions', 11);
+    for (const c of CAUTIONS) para(c, 8.5);
+    if (rule.isDemo) para('This register uses demo rule values that have not been confirmed with the local authority.', 8.5);
+  }
+
+  // Running header and page numbers on every page.
+  const range = pdf.bufferedPageRange();
+  for (let i = 0; i < range.count; i++) {
+    pdf.switchToPage(range.start + i);
+    const doc = headers[i];
+    const top = 22;
+    pdf.font('Lato-Bold').fontSize(8).fillColor(INK);
+    const label = doc
+      ? `Crowntip · ${doc.ranch.name} · ${doc.year} · ${doc.status === 'final' ? `version ${doc.version}` : 'DRAFT'}`
+      : `Crowntip · ${opts.cover?.title ?? 'Credit registers'}`;
+    pdf.text(label, left, top, { width: width() / 2, lineBreak: false });
+    if (doc?.contentHash) {
+      pdf.font('Lato').fontSize(7).fillColor(MUTED).text(`sha256 ${doc.contentHash}`, left + width() / 2, top, { width: width() / 2, align: 'right', lineBreak: false });
+    }
+    pdf.moveTo(left, top + 12).lineTo(left + width(), top + 12).lineWidth(0.6).strokeColor(RULE).stroke();
+    pdf.font('Lato').fontSize(7).fillColor(MUTED);
+    // Written inside the bottom margin: pdfkit would start a new page for text below it otherwise.
+    const savedBottom = pdf.page.margins.bottom;
+    pdf.page.margins.bottom = 0;
+    pdf.text(`Page ${i + 1} of ${range.count} · Screening estimates; the local authority’s rule and a licensed adviser decide what is reported.`, left, pdf.page.height - 30, {
+      width: width(),
+      lineBreak: false,
+    });
+    pdf.page.margins.bottom = savedBottom;
+  }
+  pdf.end();
+  await ended;
+  return Buffer.concat(chunks);
+}

@@ -1,0 +1,554 @@
+import { createHash, randomUUID } from 'node:crypto';
+import type { Knex } from 'knex';
+import { CalcError } from '../../shared/calc/errors';
+import { creditEligibility } from '../../shared/calc/eligibility';
+import { daysBetween } from '../../shared/calc/dates';
+import { seasonStarting } from '../../shared/registry/season';
+import { HttpError } from '../http/errors';
+import {
+  approvedWalksFor,
+  registerFields,
+  registerRanches,
+  type ApprovedWalkInput,
+  type RegisterFieldInput,
+  type RegisterRanchInput,
+} from '../db/register-inputs';
+import {
+  getRegister,
+  highestRegisterVersion,
+  insertRegister,
+  isUniqueViolation,
+  latestRegistersOfYear,
+  type StoredRegister,
+} from '../db/registers';
+import { creditRuleForYear, type RuleInUse } from './credit-rule';
+
+/*
+ * Credit registers (README, "Credit registers"). The register for reporting year Y covers the
+ * plantings of season (Y-1)-(Y mod 100), the winter that ends in Y, judged by the credit rule in
+ * effect on 1 January of Y. One row per field of the ranch, planted or not.
+ */
+
+export const MIN_YEAR = 2000;
+export const MAX_YEAR = 2100;
+
+/** The season a reporting year covers: 2027 → "2026-27". */
+export const seasonOfYear = (year: number) => seasonStarting(year - 1);
+
+/** The reporting year whose season contains the date: the winter in progress ends in it. */
+export const reportingYearOf = (isoDate: string) => {
+  const y = Number(isoDate.slice(0, 4));
+  return Number(isoDate.slice(5, 7)) >= 7 ? y + 1 : y;
+};
+
+export type Verdict = 'eligible' | 'not_eligible' | 'projected_eligible' | 'no_planting';
+
+export interface RegisterReason {
+  code: string;
+  message: string;
+}
+
+export interface RegisterWalk {
+  id: string;
+  walkedOn: string;
+  n: number;
+  meanLengthCm: number;
+  biomassKgHa: number;
+  interval: [number, number];
+  level: number;
+  calibrationId: string;
+  calibrationVersion: number | string;
+  extrapolated: boolean;
+}
+
+export interface RegisterRow {
+  fieldId: string;
+  fieldName: string;
+  areaHa: number;
+  plantingId: string | null;
+  crop: string | null;
+  variety: string | null;
+  seededOn: string | null;
+  terminatedOn: string | null;
+  plannedTerminationOn: string | null;
+  /** True when the planting has no termination date: counted up to the projection date. */
+  projected: boolean;
+  /** The day growth was counted up to (termination, or the projection date). */
+  endOn: string | null;
+  daysInWindow: number | null;
+  /** The approved walk the verdict rests on, or the latest approved one when none qualifies. */
+  walk: RegisterWalk | null;
+  /** True when `walk` is the latest approved walk before the end within the rule's gap. */
+  walkQualifies: boolean;
+  verdict: Verdict;
+  eligible: boolean;
+  /** kg N: credit per hectare × area when eligible (projected rows carry what they would earn). */
+  creditKgN: number;
+  reasons: RegisterReason[];
+}
+
+export interface RegisterTotals {
+  fields: number;
+  plantedFields: number;
+  eligibleFields: number;
+  totalAreaHa: number;
+  eligibleAreaHa: number;
+  /** kg N of the eligible (terminated) rows only. */
+  creditKgN: number;
+  projectedFields: number;
+  /** kg N the projected rows would earn if terminated on the projection date; not in creditKgN. */
+  projectedCreditKgN: number;
+}
+
+export interface RegisterRule {
+  id: string | null;
+  version: number | null;
+  label: string;
+  effectiveFrom: string | null;
+  isDemo: boolean;
+  thresholdKgHa: number;
+  minDaysInWindow: number;
+  window: { start: string; end: string };
+  eligibleCrops: string[];
+  creditKgNPerHa: number;
+  maxDaysSampleBeforeTermination: number;
+}
+
+export interface Register {
+  organisationId: string;
+  ranch: { id: string; name: string; code: string | null; county: string | null };
+  year: number;
+  season: string;
+  /** The day the register was computed. */
+  computedOn: string;
+  /** Plantings without a termination date are counted up to this day: min(computedOn, 31 Dec of the year). */
+  projectionDate: string;
+  rule: RegisterRule;
+  rows: RegisterRow[];
+  totals: RegisterTotals;
+  calibrations: { id: string; version: number | string }[];
+  walkIds: string[];
+}
+
+/** What a finalised version stores and hashes: the register plus its version and who finalised it when. */
+export interface FinalSnapshot extends Register {
+  version: number;
+  previousId: string | null;
+  finalisedBy: { id: string | null; name: string };
+  finalisedAt: string;
+}
+
+export interface FinalRegister extends FinalSnapshot {
+  id: string;
+  contentHash: string;
+}
+
+export const ruleOfRegister = (r: RuleInUse): RegisterRule => ({
+  id: r.id,
+  version: r.version,
+  label: r.label,
+  effectiveFrom: r.effectiveFrom,
+  isDemo: r.isDemo,
+  thresholdKgHa: r.thresholdKgHa,
+  minDaysInWindow: r.minDaysInWindow,
+  window: { start: r.window.start, end: r.window.end },
+  eligibleCrops: [...r.eligibleCrops],
+  creditKgNPerHa: r.creditKgNPerHa,
+  maxDaysSampleBeforeTermination: r.maxDaysSampleBeforeTermination,
+});
+
+export const projectionDateOf = (year: number, today: string) => (today < `${year}-12-31` ? today : `${year}-12-31`);
+
+const toRegisterWalk = (w: ApprovedWalkInput): RegisterWalk => {
+  const e = w.estimate!;
+  return {
+    id: w.id,
+    walkedOn: w.walkedOn,
+    n: e.n,
+    meanLengthCm: e.meanLengthCm,
+    biomassKgHa: e.biomassKgHa,
+    interval: [e.interval[0], e.interval[1]],
+    level: e.level,
+    calibrationId: e.calibrationId,
+    calibrationVersion: e.calibrationVersion,
+    extrapolated: e.extrapolated,
+  };
+};
+
+/**
+ * The walk a planting's verdict rests on: the latest approved walk on or before the end (termination
+ * or projection date) and no more than the rule's gap before it. When none qualifies but approved
+ * walks exist, the latest of them, so that the core names why (too early, or after termination).
+ */
+export function chooseWalk(walks: ApprovedWalkInput[], seededOn: string, endOn: string, maxGapDays: number): { walk: ApprovedWalkInput | null; qualifies: boolean } {
+  // Walks without an estimate (no calibration assigned) or dated before seeding cannot be judged.
+  const usable = walks.filter((w) => w.estimate && w.walkedOn >= seededOn);
+  if (!usable.length) return { walk: null, qualifies: false };
+  const qualifying = usable.filter((w) => w.walkedOn <= endOn && daysBetween(w.walkedOn, endOn) <= maxGapDays);
+  // Both lists keep the query's order (walk date, then review time), so the last is the latest.
+  if (qualifying.length) return { walk: qualifying[qualifying.length - 1], qualifies: true };
+  return { walk: usable[usable.length - 1], qualifies: false };
+}
+
+/** One field's row: its planting (if any) judged by the core's creditEligibility under the rule. */
+export function registerRow(field: RegisterFieldInput, walks: ApprovedWalkInput[], rule: RegisterRule, projectionDate: string, season: string): RegisterRow {
+  const base = {
+    fieldId: field.fieldId,
+    fieldName: field.fieldName,
+    areaHa: field.areaHa,
+    plantingId: field.plantingId,
+    crop: field.crop,
+    variety: field.variety,
+    seededOn: field.seededOn,
+    terminatedOn: field.terminatedOn,
+    plannedTerminationOn: field.plannedTerminationOn,
+  };
+  if (!field.plantingId || !field.seededOn || !field.crop) {
+    return {
+      ...base,
+      projected: false,
+      endOn: null,
+      daysInWindow: null,
+      walk: null,
+      walkQualifies: false,
+      verdict: 'no_planting',
+      eligible: false,
+      creditKgN: 0,
+      reasons: [{ code: 'no_planting', message: `No cover crop is recorded on this field for season ${season}.` }],
+    };
+  }
+  // A planting seeded after the projection date has grown nothing yet: project to its seeding day.
+  const today = projectionDate < field.seededOn ? field.seededOn : projectionDate;
+  const endOn = field.terminatedOn ?? today;
+  const { walk, qualifies } = chooseWalk(walks, field.seededOn, endOn, rule.maxDaysSampleBeforeTermination);
+  try {
+    const result = creditEligibility(
+      { crop: field.crop, seededOn: field.seededOn, terminatedOn: field.terminatedOn, areaHa: field.areaHa },
+      walk ? { biomassKgHa: walk.estimate!.biomassKgHa, walkedOn: walk.walkedOn } : null,
+      { ...rule, today },
+    );
+    return {
+      ...base,
+      projected: result.projected,
+      endOn: result.endOn,
+      daysInWindow: result.daysInWindow,
+      walk: walk ? toRegisterWalk(walk) : null,
+      walkQualifies: qualifies,
+      verdict: result.eligible ? (result.projected ? 'projected_eligible' : 'eligible') : 'not_eligible',
+      eligible: result.eligible,
+      creditKgN: result.creditKgN,
+      reasons: result.reasons.map((r) => ({ code: r.code, message: r.message })),
+    };
+  } catch (err) {
+    // Stored data the core refuses (e.g. termination before seeding): the row says so, the register still builds.
+    if (!(err instanceof CalcError)) throw err;
+    return {
+      ...base,
+      projected: !field.terminatedOn,
+      endOn,
+      daysInWindow: null,
+      walk: walk ? toRegisterWalk(walk) : null,
+      walkQualifies: false,
+      verdict: 'not_eligible',
+      eligible: false,
+      creditKgN: 0,
+      reasons: [{ code: 'invalid_dates', message: err.message }],
+    };
+  }
+}
+
+export function summarise(rows: RegisterRow[]): RegisterTotals {
+  const t: RegisterTotals = { fields: 0, plantedFields: 0, eligibleFields: 0, totalAreaHa: 0, eligibleAreaHa: 0, creditKgN: 0, projectedFields: 0, projectedCreditKgN: 0 };
+  for (const r of rows) {
+    t.fields += 1;
+    t.totalAreaHa += r.areaHa;
+    if (r.plantingId) t.plantedFields += 1;
+    if (r.projected) t.projectedFields += 1;
+    if (r.verdict === 'eligible') {
+      t.eligibleFields += 1;
+      t.eligibleAreaHa += r.areaHa;
+      t.creditKgN += r.creditKgN;
+    } else if (r.verdict === 'projected_eligible') {
+      t.projectedCreditKgN += r.creditKgN;
+    }
+  }
+  return t;
+}
+
+export function assembleRegister(
+  organisationId: string,
+  ranch: RegisterRanchInput,
+  year: number,
+  rule: RegisterRule,
+  today: string,
+  rows: RegisterRow[],
+): Register {
+  const calibrations = new Map<string, { id: string; version: number | string }>();
+  const walkIds = new Set<string>();
+  for (const r of rows) {
+    if (!r.walk) continue;
+    walkIds.add(r.walk.id);
+    calibrations.set(`${r.walk.calibrationId}\u0000${r.walk.calibrationVersion}`, { id: r.walk.calibrationId, version: r.walk.calibrationVersion });
+  }
+  return {
+    organisationId,
+    ranch: { id: ranch.id, name: ranch.name, code: ranch.code, county: ranch.county },
+    year,
+    season: seasonOfYear(year),
+    computedOn: today,
+    projectionDate: projectionDateOf(year, today),
+    rule,
+    rows,
+    totals: summarise(rows),
+    calibrations: [...calibrations.values()].sort((a, b) => a.id.localeCompare(b.id) || String(a.version).localeCompare(String(b.version), 'en', { numeric: true })),
+    walkIds: [...walkIds].sort(),
+  };
+}
+
+/** Groups walks by planting, keeping their order. */
+export function walksByPlanting(walks: ApprovedWalkInput[]): Map<string, ApprovedWalkInput[]> {
+  const out = new Map<string, ApprovedWalkInput[]>();
+  for (const w of walks) {
+    const list = out.get(w.plantingId);
+    if (list) list.push(w);
+    else out.set(w.plantingId, [w]);
+  }
+  return out;
+}
+
+/** Draft registers of several ranches (all of the organisation's when ranchIds is not given), computed now. */
+export async function computeRegisters(db: Knex, organisationId: string, year: number, today: string, ranchIds?: string[]): Promise<Register[]> {
+  const season = seasonOfYear(year);
+  const [ranches, rule, fields] = await Promise.all([
+    registerRanches(db, organisationId, ranchIds),
+    creditRuleForYear(db, organisationId, year).then(ruleOfRegister),
+    registerFields(db, organisationId, { season, ranchIds }),
+  ]);
+  const walks = walksByPlanting(await approvedWalksFor(db, organisationId, fields.flatMap((f) => (f.plantingId ? [f.plantingId] : []))));
+  const projectionDate = projectionDateOf(year, today);
+  const rowsByRanch = new Map<string, RegisterRow[]>(ranches.map((r) => [r.id, []]));
+  for (const f of fields) {
+    rowsByRanch.get(f.ranchId)?.push(registerRow(f, (f.plantingId && walks.get(f.plantingId)) || [], rule, projectionDate, season));
+  }
+  return ranches.map((r) => assembleRegister(organisationId, r, year, rule, today, rowsByRanch.get(r.id)!));
+}
+
+/** The draft register of one ranch for a reporting year, computed now; undefined when the ranch is not the organisation's. */
+export async function computeRegister(db: Knex, organisationId: string, ranchId: string, year: number, today: string): Promise<Register | undefined> {
+  const [register] = await computeRegisters(db, organisationId, year, today, [ranchId]);
+  return register;
+}
+
+// ---- snapshots, hashes, finalisation ----
+
+/** JSON with object keys sorted at every level: the same content always gives the same text. */
+export function canonicalJson(value: unknown): string {
+  const walk = (v: unknown): unknown => {
+    if (Array.isArray(v)) return v.map((x) => (x === undefined ? null : walk(x)));
+    if (v && typeof v === 'object') {
+      const out: Record<string, unknown> = {};
+      for (const k of Object.keys(v).sort()) {
+        const x = (v as Record<string, unknown>)[k];
+        if (x !== undefined) out[k] = walk(x);
+      }
+      return out;
+    }
+    if (typeof v === 'number' && !Number.isFinite(v)) return null;
+    return v;
+  };
+  return JSON.stringify(walk(value));
+}
+
+export const sha256Hex = (text: string) => createHash('sha256').update(text, 'utf8').digest('hex');
+
+/** The part of a register that a new version must differ in (not when it was computed). */
+const substance = (r: Register) => canonicalJson({ ranch: r.ranch, year: r.year, rule: r.rule, rows: r.rows, totals: r.totals, calibrations: r.calibrations, walkIds: r.walkIds });
+
+export function parseStored(stored: StoredRegister): FinalRegister {
+  return { ...(JSON.parse(stored.snapshotText) as FinalSnapshot), id: stored.id, contentHash: stored.contentHash };
+}
+
+/** A finalised version of the organisation's register, or undefined (another organisation's id too). */
+export async function getFinalRegister(db: Knex, organisationId: string, id: string): Promise<FinalRegister | undefined> {
+  const stored = await getRegister(db, organisationId, id);
+  return stored && parseStored(stored);
+}
+
+/**
+ * Finalises the ranch's register for the year: computes it, and in one transaction reads the highest
+ * version, refuses a version identical to it, and stores the snapshot with its canonical JSON and
+ * SHA-256 as the next version (an amendment pointing at the previous one when one exists). Two
+ * finalisations racing for the same number meet the unique index: the loser gets 409 `conflict`.
+ */
+export async function finaliseRegister(
+  db: Knex,
+  organisationId: string,
+  ranchId: string,
+  year: number,
+  actor: { id: string; name: string },
+  today: string,
+  now: () => string = () => new Date().toISOString(),
+): Promise<FinalRegister> {
+  try {
+    return await db.transaction(async (trx) => {
+      const register = await computeRegister(trx, organisationId, ranchId, year, today);
+      if (!register) throw new HttpError('not_found');
+      const latest = await highestRegisterVersion(trx, organisationId, ranchId, year);
+      if (latest) {
+        const previous = await getFinalRegister(trx, organisationId, latest.id);
+        if (previous && substance(previous) === substance(register)) {
+          throw new HttpError('conflict', `Nothing has changed since version ${latest.version}: an amendment needs a change.`);
+        }
+      }
+      const snapshot: FinalSnapshot = {
+        ...register,
+        version: (latest?.version ?? 0) + 1,
+        previousId: latest?.id ?? null,
+        finalisedBy: { id: actor.id, name: actor.name },
+        finalisedAt: now(),
+      };
+      const snapshotText = canonicalJson(snapshot);
+      const stored: StoredRegister = {
+        id: randomUUID(),
+        ranchId,
+        year,
+        version: snapshot.version,
+        previousId: snapshot.previousId,
+        snapshotText,
+        contentHash: sha256Hex(snapshotText),
+        ruleId: register.rule.id,
+        ruleVersion: register.rule.version,
+        finalisedBy: actor.id,
+        finalisedByName: actor.name,
+        finalisedAt: snapshot.finalisedAt,
+      };
+      await insertRegister(trx, organisationId, stored);
+      return parseStored(stored);
+    });
+  } catch (err) {
+    if (isUniqueViolation(err)) {
+      throw new HttpError('conflict', 'Another finalisation of this register was saved at the same moment. Reload to see it.');
+    }
+    throw err;
+  }
+}
+
+/** True when the stored text still hashes to the stored hash. */
+export const verifyStored = (stored: StoredRegister) => sha256Hex(stored.snapshotText) === stored.contentHash;
+
+// ---- amendments: what changed between two versions ----
+
+export type DiffKind = 'text' | 'area' | 'date' | 'days' | 'rate' | 'mass' | 'verdict' | 'flag';
+
+export interface ValueChange {
+  key: string;
+  label: string;
+  kind: DiffKind;
+  before: unknown;
+  after: unknown;
+}
+
+export interface RegisterDiff {
+  unchanged: boolean;
+  rule: { before: { id: string | null; version: number | null; label: string }; after: { id: string | null; version: number | null; label: string } } | null;
+  added: { fieldId: string; fieldName: string; verdict: Verdict; creditKgN: number }[];
+  removed: { fieldId: string; fieldName: string; verdict: Verdict; creditKgN: number }[];
+  changed: { fieldId: string; fieldName: string; changes: ValueChange[] }[];
+  totals: ValueChange[];
+}
+
+const ROW_VALUES: { key: string; label: string; kind: DiffKind; get: (r: RegisterRow) => unknown }[] = [
+  { key: 'fieldName', label: 'Field', kind: 'text', get: (r) => r.fieldName },
+  { key: 'areaHa', label: 'Area', kind: 'area', get: (r) => r.areaHa },
+  { key: 'crop', label: 'Crop', kind: 'text', get: (r) => r.crop },
+  { key: 'variety', label: 'Variety', kind: 'text', get: (r) => r.variety },
+  { key: 'seededOn', label: 'Seeded', kind: 'date', get: (r) => r.seededOn },
+  { key: 'terminatedOn', label: 'Terminated', kind: 'date', get: (r) => r.terminatedOn },
+  { key: 'projected', label: 'Projected', kind: 'flag', get: (r) => r.projected },
+  { key: 'daysInWindow', label: 'Days in window', kind: 'days', get: (r) => r.daysInWindow },
+  { key: 'walkId', label: 'Walk', kind: 'text', get: (r) => r.walk?.id ?? null },
+  { key: 'biomassKgHa', label: 'Estimate', kind: 'rate', get: (r) => r.walk?.biomassKgHa ?? null },
+  { key: 'verdict', label: 'Verdict', kind: 'verdict', get: (r) => r.verdict },
+  { key: 'creditKgN', label: 'Credit', kind: 'mass', get: (r) => r.creditKgN },
+  { key: 'reasons', label: 'Reasons', kind: 'text', get: (r) => r.reasons.map((x) => x.code).join(', ') || null },
+];
+
+const TOTAL_VALUES: { key: keyof RegisterTotals; label: string; kind: DiffKind }[] = [
+  { key: 'fields', label: 'Fields', kind: 'days' },
+  { key: 'eligibleFields', label: 'Eligible fields', kind: 'days' },
+  { key: 'totalAreaHa', label: 'Total area', kind: 'area' },
+  { key: 'eligibleAreaHa', label: 'Eligible area', kind: 'area' },
+  { key: 'creditKgN', label: 'Credit', kind: 'mass' },
+  { key: 'projectedFields', label: 'Projected fields', kind: 'days' },
+  { key: 'projectedCreditKgN', label: 'Projected credit', kind: 'mass' },
+];
+
+// Floating sums can differ in the last bits when only the order changed; such noise is no change.
+const same = (a: unknown, b: unknown) =>
+  typeof a === 'number' && typeof b === 'number' ? Math.abs(a - b) <= 1e-9 * Math.max(1, Math.abs(a), Math.abs(b)) : a === b;
+
+/** Per-field changes (added, removed, changed values), the rule version and the totals between two versions. */
+export function diffRegisters(prev: Register, next: Register): RegisterDiff {
+  const before = new Map(prev.rows.map((r) => [r.fieldId, r]));
+  const after = new Map(next.rows.map((r) => [r.fieldId, r]));
+  const brief = (r: RegisterRow) => ({ fieldId: r.fieldId, fieldName: r.fieldName, verdict: r.verdict, creditKgN: r.creditKgN });
+  const added = next.rows.filter((r) => !before.has(r.fieldId)).map(brief);
+  const removed = prev.rows.filter((r) => !after.has(r.fieldId)).map(brief);
+  const changed: RegisterDiff['changed'] = [];
+  for (const r of next.rows) {
+    const p = before.get(r.fieldId);
+    if (!p) continue;
+    const changes = ROW_VALUES.filter((v) => !same(v.get(p), v.get(r))).map((v) => ({ key: v.key, label: v.label, kind: v.kind, before: v.get(p), after: v.get(r) }));
+    if (changes.length) changed.push({ fieldId: r.fieldId, fieldName: r.fieldName, changes });
+  }
+  const totals = TOTAL_VALUES.filter((v) => !same(prev.totals[v.key], next.totals[v.key])).map((v) => ({
+    key: v.key,
+    label: v.label,
+    kind: v.kind,
+    before: prev.totals[v.key],
+    after: next.totals[v.key],
+  }));
+  const ruleOf = (r: Register) => ({ id: r.rule.id, version: r.rule.version, label: r.rule.label });
+  const rule = prev.rule.id !== next.rule.id || prev.rule.version !== next.rule.version ? { before: ruleOf(prev), after: ruleOf(next) } : null;
+  return { unchanged: !added.length && !removed.length && !changed.length && !totals.length && !rule, rule, added, removed, changed, totals };
+}
+
+// ---- the organisation's overview ----
+
+export interface RanchSummary {
+  ranchId: string;
+  ranchName: string;
+  draft: RegisterTotals;
+  final: { id: string; version: number; contentHash: string; finalisedAt: string; totals: RegisterTotals } | null;
+  /** The totals the overview shows: the newest finalised version's, else the draft's. */
+  shown: RegisterTotals;
+}
+
+export interface OrganisationSummary {
+  year: number;
+  season: string;
+  rule: RegisterRule;
+  ranches: RanchSummary[];
+  totals: RegisterTotals;
+}
+
+const addTotals = (a: RegisterTotals, b: RegisterTotals): RegisterTotals => {
+  const out = { ...a };
+  for (const k of Object.keys(b) as (keyof RegisterTotals)[]) out[k] = a[k] + b[k];
+  return out;
+};
+
+/** Per-ranch totals for a year (the newest finalised version where there is one, else the draft), for the overview and its chart. */
+export async function organisationSummary(db: Knex, organisationId: string, year: number, today: string): Promise<OrganisationSummary> {
+  const drafts = await computeRegisters(db, organisationId, year, today);
+  const finals = await latestRegistersOfYear(db, organisationId, year);
+  const ranches: RanchSummary[] = [];
+  for (const d of drafts) {
+    const f = finals.get(d.ranch.id);
+    const final = f ? await getFinalRegister(db, organisationId, f.id) : undefined;
+    const finalSummary = final ? { id: final.id, version: final.version, contentHash: final.contentHash, finalisedAt: final.finalisedAt, totals: final.totals } : null;
+    ranches.push({ ranchId: d.ranch.id, ranchName: d.ranch.name, draft: d.totals, final: finalSummary, shown: finalSummary?.totals ?? d.totals });
+  }
+  const rule = drafts[0]?.rule ?? ruleOfRegister(await creditRuleForYear(db, organisationId, year));
+  return { year, season: seasonOfYear(year), rule, ranches, totals: ranches.reduce((acc, r) => addTotals(acc, r.shown), summarise([])) };
+}
