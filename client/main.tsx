@@ -1,17 +1,25 @@
 import { StrictMode } from 'react';
 import { createRoot } from 'react-dom/client';
-import { RouterProvider } from 'react-router-dom';
+import { startLanguage } from './lib/i18n';
 import { Providers } from './app/providers';
-import { router } from './app/router';
+import { App } from './app/router';
+import { registerServiceWorker } from './app/service-worker';
 import './styles/capture.css';
 
 const root = document.getElementById('root');
 if (!root) throw new Error('#root is missing from index.html');
 
-createRoot(root).render(
-  <StrictMode>
-    <Providers>
-      <RouterProvider router={router} />
-    </Providers>
-  </StrictMode>,
-);
+// The text of the language the app opens in arrives first (a small chunk; precached offline).
+void startLanguage()
+  .catch(() => undefined)
+  .finally(() => {
+    createRoot(root).render(
+      <StrictMode>
+        <Providers>
+          <App />
+        </Providers>
+      </StrictMode>,
+    );
+  });
+
+registerServiceWorker();

@@ -1,44 +1,47 @@
-import { Link, useRouteError } from 'react-router-dom';
-import { ApiError } from '../lib/api';
-import { strings } from '../lib/strings';
+import { Component, type ReactNode } from 'react';
+import { Link } from 'react-router-dom';
+import { useTranslation } from 'react-i18next';
+import { i18n } from '../lib/i18n';
 
-export function RouteError() {
-  const error = useRouteError();
-  // The api client is already sending the browser to the sign-in page.
-  if (error instanceof ApiError && error.status === 401) {
+/**
+ * Catches a screen that failed to render or to load its code (a lazy chunk fetched with no signal
+ * and no service worker yet). Walks in progress are in IndexedDB, so a reload loses nothing.
+ */
+export class ScreenBoundary extends Component<{ children: ReactNode }, { error: unknown }> {
+  override state = { error: null as unknown };
+
+  static getDerivedStateFromError(error: unknown) {
+    return { error };
+  }
+
+  override render() {
+    if (this.state.error === null) return this.props.children;
+    const message = this.state.error instanceof Error && this.state.error.name === 'ApiError' ? this.state.error.message : null;
     return (
-      <p role="status" className="p-6 text-center text-loam-500">
-        {strings.session.redirecting}
-      </p>
+      <div>
+        <div role="alert" className="rounded-lg border-l-4 border-clay bg-clay-50 p-4 text-clay-800">
+          <h1 className="text-xl font-bold">{i18n.t('errors.title')}</h1>
+          <p className="mt-1">{message ?? i18n.t('errors.screenFailed')}</p>
+        </div>
+        <button
+          type="button"
+          onClick={() => window.location.reload()}
+          className="mt-4 min-h-touch rounded-lg bg-shoot px-5 text-lg font-bold text-white hover:bg-shoot-800"
+        >
+          {i18n.t('errors.retry')}
+        </button>
+      </div>
     );
   }
-  const message = error instanceof ApiError ? error.message : strings.errors.generic;
-  return (
-    <main className="mx-auto max-w-2xl px-4 py-8">
-      <div role="alert" className="rounded-lg border-l-4 border-clay bg-clay-50 p-4 text-clay-800">
-        <h1 className="text-xl font-bold">{strings.errors.title}</h1>
-        <p className="mt-1">{message}</p>
-      </div>
-      <button
-        type="button"
-        onClick={() => window.location.reload()}
-        className="mt-4 min-h-touch rounded-lg bg-shoot px-5 font-bold text-white hover:bg-shoot-800"
-      >
-        {strings.errors.retry}
-      </button>
-    </main>
-  );
 }
 
 export function NotFound() {
+  const { t } = useTranslation();
   return (
     <div>
-      <h1 className="text-2xl font-bold">{strings.errors.notFound}</h1>
-      <Link
-        to="/"
-        className="mt-4 inline-flex min-h-touch items-center font-bold text-shoot underline underline-offset-4"
-      >
-        {strings.errors.backToToday}
+      <h1 className="text-2xl font-bold">{t('errors.notFound')}</h1>
+      <Link to="/" className="mt-4 inline-flex min-h-touch items-center text-lg font-bold text-shoot underline underline-offset-4">
+        {t('errors.backToToday')}
       </Link>
     </div>
   );

@@ -1,26 +1,42 @@
-import { createBrowserRouter } from 'react-router-dom';
-import { sessionQuery } from '../features/session/api';
+import { lazy } from 'react';
+import { BrowserRouter, Route, Routes } from 'react-router-dom';
 import { TodayRoute } from '../features/today/routes/today';
-import { queryClient } from './providers';
-import { RouteError, NotFound } from './route-error';
-import { Loading, Shell } from './shell';
+import { NotFound } from './route-error';
+import { Shell } from './shell';
 
-// Today's walks is the first screen and stays in the main bundle; later, rarely used
-// screens join here with `lazy` so they load on demand (STACK.md 13).
-export const router = createBrowserRouter(
-  [
-    {
-      path: '/',
-      // Signed-out visitors are sent to /login by the api client before anything renders.
-      loader: () => queryClient.ensureQueryData(sessionQuery),
-      element: <Shell />,
-      errorElement: <RouteError />,
-      hydrateFallbackElement: <Loading />,
-      children: [
-        { index: true, element: <TodayRoute /> },
-        { path: '*', element: <NotFound /> },
-      ],
-    },
-  ],
-  { basename: '/capture' },
-);
+// Today's walks is the first screen and stays in the main bundle. The other screens load on
+// demand (STACK.md 13): the plan brings the walk-plan geometry, the entry brings the estimation
+// core. The service worker precaches them all, so they open offline after one visit.
+// Declarative routes (not the data router) keep React Router's share of the first load small.
+const PlanRoute = lazy(() => import('../features/walk/routes/plan'));
+const GuideRoute = lazy(() => import('../features/walk/routes/guide'));
+const EntryRoute = lazy(() => import('../features/entry/routes/entry'));
+const FinishRoute = lazy(() => import('../features/entry/routes/finish'));
+const SentRoute = lazy(() => import('../features/submit/routes/sent'));
+
+export function App() {
+  return (
+    <BrowserRouter basename="/capture">
+      <Routes>
+        <Route element={<Shell />}>
+          <Route index element={<TodayRoute />} />
+          <Route path="plantings/:plantingId" element={<PlanRoute />} />
+          <Route path="guide" element={<GuideRoute />} />
+          <Route path="walks/:walkId" element={<EntryRoute />} />
+          <Route path="walks/:walkId/finish" element={<FinishRoute />} />
+          <Route path="walks/:walkId/sent" element={<SentRoute />} />
+          <Route path="*" element={<NotFound />} />
+        </Route>
+      </Routes>
+    </BrowserRouter>
+  );
+}
+
+/** Preloads the later screens' code while there is signal (the service worker caches it too). */
+export function preloadScreens() {
+  void import('../features/walk/routes/plan');
+  void import('../features/walk/routes/guide');
+  void import('../features/entry/routes/entry');
+  void import('../features/entry/routes/finish');
+  void import('../features/submit/routes/sent');
+}

@@ -1,43 +1,117 @@
+import { Suspense, useEffect, useRef } from 'react';
 import { Outlet } from 'react-router-dom';
-import { useSuspenseQuery } from '@tanstack/react-query';
-import { sessionQuery } from '../features/session/api';
+import { useIsRestoring, useQueryClient } from '@tanstack/react-query';
+import { useTranslation } from 'react-i18next';
+import { ApiError } from '../lib/api';
+import { PAGE_LOADED_AT, reconcilePreferences, sessionKeys, useSession } from '../features/session/api';
 import { SignOutButton } from '../features/session/components/sign-out-button';
-import { strings } from '../lib/strings';
+import { QueueBanner } from '../features/offline/components/queue-banner';
+import { loadOutbox, useQueueJobs } from '../features/offline';
+import { todayKeys } from '../features/today/api';
+import { walkKeys } from '../features/submit/api';
 import { Mark } from './mark';
+import { ScreenBoundary } from './route-error';
 
-/** Every signed-in /capture screen: the header with who is sampling, then the screen. */
+/** Every signed-in /capture screen: who is sampling, the outbox banner, then the screen. */
 export function Shell() {
-  const { data } = useSuspenseQuery(sessionQuery);
+  const { t } = useTranslation();
+  const restoring = useIsRestoring();
+  const session = useSession();
+  const qc = useQueryClient();
+  const data = session.data;
+  // Only a session fetched on this page load is known to match the cookie; the copy kept on the
+  // phone may be someone else's if people swapped without signing out.
+  const fresh = Boolean(data) && session.dataUpdatedAt >= PAGE_LOADED_AT;
+
+  useEffect(() => {
+    if (!fresh || !data) return;
+    const userId = data.user.id;
+    void loadOutbox().then((outbox) => {
+      outbox.setUser(userId);
+      return outbox.retryNow();
+    });
+    void reconcilePreferences(data).then((updated) => {
+      if (updated) qc.setQueryData(sessionKeys.current(), updated);
+    });
+    // eslint-disable-next-line react-hooks/exhaustive-deps
+  }, [fresh, data?.user.id, session.dataUpdatedAt]);
+
+  // A walk that reached the office changes today's list and has a stored result to show.
+  const jobs = useQueueJobs();
+  const doneSeen = useRef<Set<string> | null>(null);
+  useEffect(() => {
+    const done = jobs.filter((j) => j.state === 'done').map((j) => j.id);
+    if (doneSeen.current === null) {
+      doneSeen.current = new Set(done);
+      return;
+    }
+    const fresh = done.filter((id) => !doneSeen.current!.has(id));
+    if (fresh.length === 0) return;
+    fresh.forEach((id) => doneSeen.current!.add(id));
+    void qc.invalidateQueries({ queryKey: todayKeys.all });
+    for (const id of fresh) void qc.invalidateQueries({ queryKey: walkKeys.detail(id) });
+  }, [jobs, qc]);
+
+  // The sending engine loads once the first screen is up (it is not needed to draw it).
+  useEffect(() => {
+    void loadOutbox();
+  }, []);
+
+  if (restoring) return <Loading />;
+  if (!data) {
+    const err = session.error;
+    if (err instanceof ApiError && err.status === 401) return <Message text={t('session.redirecting')} />;
+    if (session.isPending && session.fetchStatus === 'fetching') return <Loading />;
+    return <Message text={t('session.needSignal')} />;
+  }
+
   const { user } = data;
   return (
     <div className="flex min-h-dvh flex-col">
       <header className="bg-loam text-mist-50">
-        <div className="mx-auto flex max-w-2xl items-start justify-between gap-3 px-4 py-3">
+        <div className="mx-auto flex max-w-2xl items-center justify-between gap-3 px-4 py-2">
           <div className="min-w-0">
             <p className="flex items-center gap-2 text-xl font-bold">
-              <Mark className="size-9 shrink-0 text-straw" />
-              {strings.appName}
+              <Mark className="size-8 shrink-0 text-straw" />
+              {t('app.name')}
             </p>
-            <p className="mt-1 truncate font-bold">
-              <span className="sr-only">{strings.session.signedInAs} </span>
-              {user.name}
+            <p className="truncate">
+              <span className="sr-only">{t('session.signedInAs')} </span>
+              <span className="font-bold">{user.name}</span>
+              <span className="text-loam-200"> · {user.organisation.name}</span>
             </p>
-            <p className="truncate text-loam-200">{user.organisation.name}</p>
           </div>
           <SignOutButton />
         </div>
       </header>
-      <main className="mx-auto w-full max-w-2xl flex-1 px-4 py-5">
-        <Outlet />
+      <QueueBanner />
+      <main className="mx-auto w-full max-w-2xl flex-1 px-4 py-4">
+        <ScreenBoundary>
+          <Suspense fallback={<Loading />}>
+            <Outlet />
+          </Suspense>
+        </ScreenBoundary>
       </main>
     </div>
   );
 }
 
-export function Loading() {
+function Message({ text }: { text: string }) {
   return (
-    <p role="status" className="p-6 text-center text-loam-500">
-      {strings.loading}
+    <main className="mx-auto max-w-2xl px-4 py-10 text-center">
+      <Mark className="mx-auto size-16 text-shoot" />
+      <p role="status" className="mt-4 text-xl font-bold">
+        {text}
+      </p>
+    </main>
+  );
+}
+
+export function Loading() {
+  const { t } = useTranslation();
+  return (
+    <p role="status" className="p-6 text-center text-lg text-loam-500">
+      {t('app.loading')}
     </p>
   );
 }

@@ -1,6 +1,6 @@
 import { z } from 'zod';
 import { sessionResponseSchema, type SessionResponse } from '../../shared/schemas/session';
-import { strings } from './strings';
+import { i18n } from './i18n';
 
 /**
  * The capture app's one way to the JSON API (API.md): same-origin cookie, JSON in and out,
@@ -96,7 +96,7 @@ export function createApiClient(deps: ApiClientDeps = {}) {
       });
     } catch (err) {
       if (err instanceof DOMException && err.name === 'AbortError') throw err;
-      throw new ApiError(0, 'network', strings.errors.network);
+      throw new ApiError(0, 'network', i18n.t('errors.network'));
     }
   }
 
@@ -117,7 +117,7 @@ export function createApiClient(deps: ApiClientDeps = {}) {
   function parseBody<T>(schema: z.ZodType<T>, status: number, json: unknown): T {
     const parsed = schema.safeParse(json);
     if (!parsed.success) {
-      throw new ApiError(status, 'bad_response', strings.errors.badResponse);
+      throw new ApiError(status, 'bad_response', i18n.t('errors.badResponse'));
     }
     return parsed.data;
   }
@@ -197,9 +197,12 @@ function errorFromBody(status: number, json: unknown): ApiError {
 }
 
 function defaultMessage(status: number): string {
-  const byStatus = strings.errors.byStatus;
-  if (status >= 500) return byStatus[500];
-  return status in byStatus ? byStatus[status as keyof typeof byStatus] : strings.errors.generic;
+  if (status >= 500) return i18n.t('errors.status500');
+  if (status === 401) return i18n.t('errors.status401');
+  if (status === 403) return i18n.t('errors.status403');
+  if (status === 404) return i18n.t('errors.status404');
+  if (status === 429) return i18n.t('errors.status429');
+  return i18n.t('errors.generic');
 }
 
 export const api = createApiClient();

@@ -8,6 +8,11 @@ import { CLIENT_DIST } from '../http/assets';
 /**
  * The sampler's React app: one index.html for /capture and every path below it (React Router
  * takes over in the browser). From Vite's middleware in development, the built files otherwise.
+ *
+ * Its service worker (built by vite-plugin-pwa into client/dist/sw.js) is served at
+ * /capture/sw.js, so that it may control /capture (the header widens its scope from /capture/ to
+ * /capture, the shell's own address). It holds nothing private, so it needs no sign-in: the
+ * browser re-checks it for updates even when the session has expired.
  */
 export function captureApp(vite?: ViteDevServer): Router {
   const router = Router();
@@ -27,6 +32,18 @@ export function captureApp(vite?: ViteDevServer): Router {
     res.type('html').send(html);
   };
 
+  const serviceWorker = (_req: Request, res: Response) => {
+    const file = path.join(CLIENT_DIST, 'sw.js');
+    if (vite || !fs.existsSync(file)) {
+      res.status(404).type('text/plain').send('No service worker in development.');
+      return;
+    }
+    res.setHeader('Service-Worker-Allowed', '/capture');
+    res.setHeader('Cache-Control', 'no-cache');
+    res.type('application/javascript').send(fs.readFileSync(file));
+  };
+
+  router.get('/capture/sw.js', serviceWorker);
   router.get('/capture', guard, serve);
   router.get('/capture/{*splat}', guard, serve);
   return router;

@@ -3,7 +3,11 @@ import { describe, expect, it } from 'vitest';
 import { renderToStaticMarkup } from 'react-dom/server';
 import theme from '../../tailwind.config';
 import { Mark, MARK_PATHS } from '../../client/app/mark';
+import { QueryClient, QueryClientProvider } from '@tanstack/react-query';
 import { TodayRoute } from '../../client/features/today/routes/today';
+import { sessionKeys } from '../../client/features/session/api';
+import { todayKeys } from '../../client/features/today/api';
+import { i18n, loadLanguage, setLanguage } from '../../client/lib/i18n';
 
 const read = (p: string) => readFileSync(new URL(p, import.meta.url), 'utf8');
 
@@ -86,12 +90,44 @@ describe('the Crowntip mark', () => {
 });
 
 describe("Today's walks", () => {
-  it('shows the empty state and the screening caution', () => {
-    const html = renderToStaticMarkup(<TodayRoute />);
+  const user = {
+    id: 'u1',
+    name: 'Rosa Quintero',
+    email: 'rosa@example.test',
+    role: 'sampler' as const,
+    organisation: { id: 'o1', name: 'Arroyo Seco Growers' },
+    units: 'us' as const,
+    language: 'en' as const,
+  };
+  function render() {
+    const qc = new QueryClient();
+    qc.setQueryData(sessionKeys.current(), { user, csrfToken: 't' });
+    qc.setQueryData(todayKeys.list('u1'), { items: [], total: 0 });
+    return renderToStaticMarkup(
+      <QueryClientProvider client={qc}>
+        <TodayRoute />
+      </QueryClientProvider>,
+    );
+  }
+
+  it('shows the empty state, the language switch and the screening caution', async () => {
+    await loadLanguage('en');
+    await setLanguage('en');
+    const html = render();
+    expect(html).toContain("Today&#x27;s walks");
     expect(html).toContain('No walks planned for today yet');
+    expect(html).toContain('Español');
     expect(html).toContain(
       'Field estimates are screening figures; the local rule and your adviser decide what is reported.',
     );
+  });
+
+  it('speaks Spanish when the sampler chose it', async () => {
+    await setLanguage('es');
+    const html = render();
+    expect(html).toContain('Recorridos de hoy');
+    expect(html).toContain('Buscar campo por nombre');
+    await i18n.changeLanguage('en');
   });
 });
 

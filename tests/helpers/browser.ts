@@ -6,7 +6,16 @@ import { chromium, type BrowserContext, type Page } from 'playwright-core';
 export const SCREENSHOTS = path.resolve('tests/browser/screenshots');
 
 /** Debian's Chromium, headless, with the flags this closed network needs (../shared/STACK.md, 7). */
-export async function openBrowser(options: { viewport?: { width: number; height: number } } = {}): Promise<{
+export interface BrowserOptions {
+  viewport?: { width: number; height: number };
+  /** Permissions granted to every origin, e.g. ['geolocation']. */
+  permissions?: string[];
+  /** A fixed position for navigator.geolocation. */
+  geolocation?: { latitude: number; longitude: number; accuracy?: number };
+  locale?: string;
+}
+
+export async function openBrowser(options: BrowserOptions = {}): Promise<{
   context: BrowserContext;
   close: () => Promise<void>;
 }> {
@@ -15,6 +24,9 @@ export async function openBrowser(options: { viewport?: { width: number; height:
     executablePath: process.env.CHROMIUM_PATH || '/usr/bin/chromium',
     headless: true,
     viewport: options.viewport ?? { width: 1280, height: 860 },
+    permissions: options.permissions,
+    geolocation: options.geolocation,
+    locale: options.locale,
     args: [
       '--no-sandbox',
       '--disable-gpu',

@@ -1,0 +1,102 @@
+import { useState } from 'react';
+import { useTranslation } from 'react-i18next';
+import { useFormat } from '../../session/api';
+import { loadOutbox, useOnline, useQueueJobs, useSendingId } from '../index';
+import { summarise, type QueueJob } from '../jobs';
+
+/**
+ * The outbox's state on every screen: "No signal: 3 walks waiting to send", a walk being sent,
+ * walks that need a person (a conflict, a refusal, a sign-in). Nothing here can delete a walk.
+ */
+export function QueueBanner() {
+  const { t } = useTranslation();
+  const jobs = useQueueJobs();
+  const online = useOnline();
+  const sending = useSendingId();
+  const [open, setOpen] = useState(false);
+  const s = summarise(jobs);
+  const pending = jobs.filter((j) => j.state !== 'done');
+
+  if (pending.length === 0) {
+    if (online) return null;
+    return (
+      <div role="status" className="bg-loam-700 text-white">
+        <p className="mx-auto max-w-2xl px-4 py-2 font-bold">
+          {t('net.offline')} <span className="font-normal">· {t('net.offlineHint')}</span>
+        </p>
+      </div>
+    );
+  }
+
+  const tone = s.attention > 0 ? 'bg-clay text-white' : 'bg-straw text-loam';
+  return (
+    <div role="status" className={tone} data-testid="queue-banner">
+      <div className="mx-auto max-w-2xl px-4 py-3">
+        {s.waiting > 0 && (
+          <p className="text-lg font-bold">
+            {sending ? t('queue.sending') + ' · ' : ''}
+            {online ? t('queue.waiting', { count: s.waiting }) : t('queue.offlineWaiting', { count: s.waiting })}
+          </p>
+        )}
+        {s.waiting > 0 && !online && <p>{t('queue.autoRetry')}</p>}
+        {s.signin > 0 && (
+          <p className="text-lg font-bold">
+            {t('queue.signin', { count: s.signin })}{' '}
+            <a className="underline underline-offset-4" href={`/login?next=${encodeURIComponent('/capture')}`}>
+              {t('queue.signInLink')}
+            </a>
+          </p>
+        )}
+        {s.attention > 0 && <p className="text-lg font-bold">{t('queue.attention', { count: s.attention })}</p>}
+        <div className="mt-2 flex flex-wrap gap-2">
+          {online && (s.waiting > 0 || s.signin > 0) && !sending && (
+            <button
+              type="button"
+              onClick={() => void loadOutbox().then((q) => q.retryNow())}
+              className="min-h-touch rounded-lg border-2 border-current px-4 font-bold"
+            >
+              {t('queue.retry')}
+            </button>
+          )}
+          <button
+            type="button"
+            aria-expanded={open}
+            onClick={() => setOpen((o) => !o)}
+            className="min-h-touch rounded-lg border-2 border-current px-4 font-bold"
+          >
+            {t('queue.details')}
+          </button>
+        </div>
+        {open && (
+          <ul className="mt-3 space-y-2">
+            {pending.map((job) => (
+              <JobLine key={job.id} job={job} />
+            ))}
+          </ul>
+        )}
+      </div>
+    </div>
+  );
+}
+
+function JobLine({ job }: { job: QueueJob }) {
+  const { t } = useTranslation();
+  const f = useFormat();
+  return (
+    <li className="rounded-lg bg-white p-3 text-loam">
+      <p className="font-bold">
+        {job.label.fieldName} · {job.label.ranchName}
+      </p>
+      <p>
+        {f.date(job.body.walkedOn)} · {t('queue.plants', { count: job.body.plants.length })}
+      </p>
+      {job.attention === 'conflict' && <p className="mt-1 font-bold text-clay-700">{t('queue.conflict')}</p>}
+      {job.attention === 'refused' && (
+        <p className="mt-1 font-bold text-clay-700">{t('queue.refused', { message: job.lastError?.message ?? '' })}</p>
+      )}
+      {job.state === 'waiting' && job.lastError && (
+        <p className="mt-1 text-loam-600">{t('queue.lastError', { message: job.lastError.message })}</p>
+      )}
+    </li>
+  );
+}

@@ -1,0 +1,59 @@
+import { useSyncExternalStore } from 'react';
+import type { Queue } from './queue';
+import type { QueueJob } from './jobs';
+
+/**
+ * The outbox as the screens see it. The sending engine (outbox.ts) loads right after the first
+ * screen has drawn, so it is not part of the first screen's code; until then the outbox reads as
+ * empty for a moment.
+ */
+
+let engine: Promise<Queue> | null = null;
+let jobs: QueueJob[] = [];
+let sending: string | null = null;
+const listeners = new Set<() => void>();
+
+export function loadOutbox(): Promise<Queue> {
+  engine ??= import('./outbox').then(({ outbox }) => {
+    const copy = () => {
+      jobs = outbox.snapshot();
+      sending = outbox.sendingId();
+      for (const l of listeners) l();
+    };
+    outbox.subscribe(copy);
+    void outbox.load().then(copy);
+    return outbox;
+  });
+  return engine;
+}
+
+function subscribe(l: () => void) {
+  listeners.add(l);
+  return () => {
+    listeners.delete(l);
+  };
+}
+
+export function useQueueJobs(): QueueJob[] {
+  return useSyncExternalStore(subscribe, () => jobs, () => jobs);
+}
+
+export function useSendingId(): string | null {
+  return useSyncExternalStore(subscribe, () => sending, () => sending);
+}
+
+const subscribeOnline = (cb: () => void) => {
+  window.addEventListener('online', cb);
+  window.addEventListener('offline', cb);
+  return () => {
+    window.removeEventListener('online', cb);
+    window.removeEventListener('offline', cb);
+  };
+};
+
+/** The phone's own idea of the signal (a hint only; sending is what really tells). */
+export function useOnline(): boolean {
+  return useSyncExternalStore(subscribeOnline, () => navigator.onLine, () => true);
+}
+
+export type { QueueJob } from './jobs';

@@ -1,0 +1,16 @@
+import { queryOptions } from '@tanstack/react-query';
+import { walkSchema } from '../../../shared/schemas/walks';
+import { api } from '../../lib/api';
+
+export const walkKeys = {
+  all: ['walks'] as const,
+  detail: (id: string) => [...walkKeys.all, id] as const,
+};
+
+/** The walk as the server stored it, with its estimate snapshot ("stored result"). */
+export const walkQuery = (id: string) =>
+  queryOptions({
+    queryKey: walkKeys.detail(id),
+    queryFn: ({ signal }) => api.get(`/api/walks/${encodeURIComponent(id)}`, walkSchema, { signal }),
+    staleTime: 30_000,
+  });

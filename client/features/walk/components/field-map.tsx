@@ -1,0 +1,115 @@
+import { useTranslation } from 'react-i18next';
+import type { Boundary } from '../../../../shared/registry/boundary';
+import { boundaryOutline } from '../../../../shared/registry/outline';
+import type { PlanResult } from '../plan';
+
+const W = 340;
+const H = 300;
+const MARGIN = 22;
+
+/**
+ * The field outline (no map tiles: works offline), the walking line and the numbered stops; the
+ * sampler's position as a blue dot when known. Without a boundary, a square of the field's area.
+ */
+export function FieldMap(props: {
+  boundary: Boundary | null;
+  result: PlanResult;
+  nextStop: number | null;
+  here: { lat: number; lon: number } | null;
+}) {
+  const { t } = useTranslation();
+  const { plan, polygon } = props.result;
+
+  let paths: string[];
+  let project: (lon: number, lat: number) => [number, number];
+  let points: Array<[number, number]>;
+  let line: [[number, number], [number, number]];
+
+  if (polygon && props.boundary && plan.start && plan.end) {
+    const outline = boundaryOutline(props.boundary, { width: W, height: H, margin: MARGIN });
+    paths = outline.paths;
+    project = outline.project;
+    points = plan.stops.map((s) => project(s.lng ?? 0, s.lat ?? 0));
+    line = [project(plan.start[0], plan.start[1]), project(plan.end[0], plan.end[1])];
+  } else {
+    // Schematic square: corner to corner, stops at their share of the diagonal.
+    const side = Math.min(W, H) - 2 * MARGIN;
+    const x0 = (W - side) / 2;
+    const y0 = (H - side) / 2;
+    paths = [`M${x0} ${y0} H${x0 + side} V${y0 + side} H${x0} Z`];
+    const at = (d: number): [number, number] => {
+      const f = d / plan.diagonalM;
+      return [x0 + f * side, y0 + side - f * side];
+    };
+    points = plan.stops.map((s) => at(plan.edgeMarginM + s.distanceM));
+    line = [at(plan.edgeMarginM), at(plan.edgeMarginM + plan.walkLengthM)];
+    project = () => [-100, -100];
+  }
+
+  // Stop markers as big as the spacing allows (a long walk with many stops packs them close).
+  let gap = Infinity;
+  for (let k = 1; k < points.length; k++) gap = Math.min(gap, Math.hypot(points[k][0] - points[k - 1][0], points[k][1] - points[k - 1][1]));
+  const r = Math.max(7, Math.min(13, gap / 2 - 0.5));
+
+  let here: [number, number] | null = null;
+  if (props.here && polygon) {
+    const [x, y] = project(props.here.lon, props.here.lat);
+    here = [Math.min(W - 8, Math.max(8, x)), Math.min(H - 8, Math.max(8, y))];
+  }
+
+  return (
+    <svg
+      viewBox={`0 0 ${W} ${H}`}
+      role="img"
+      aria-label={t('plan.mapLabel')}
+      className="h-auto w-full rounded-xl border-2 border-loam-300 bg-shoot-50"
+    >
+      {paths.map((d) => (
+        <path key={d} d={d} fill="#d6ecdd" fillRule="evenodd" stroke="#1f5f36" strokeWidth={3} strokeLinejoin="round" />
+      ))}
+      <line
+        x1={line[0][0]}
+        y1={line[0][1]}
+        x2={line[1][0]}
+        y2={line[1][1]}
+        stroke="#23201a"
+        strokeWidth={3}
+        strokeDasharray="8 6"
+        strokeLinecap="round"
+      />
+      {points.map(([x, y], k) => {
+        const n = k + 1;
+        const next = n === props.nextStop;
+        return (
+          <g key={n}>
+            <circle cx={x} cy={y} r={next ? r + 2 : r} fill={next ? '#e9b949' : '#ffffff'} stroke="#23201a" strokeWidth={2.5} />
+            {(r >= 9 || next || n === 1 || n === points.length) && (
+              <text x={x} y={y} textAnchor="middle" dominantBaseline="central" fontSize={Math.round(r + 2)} fontWeight={700} fill="#23201a">
+                {n}
+              </text>
+            )}
+          </g>
+        );
+      })}
+      {here && (
+        <g>
+          <circle cx={here[0]} cy={here[1]} r={13} fill="#1d5b8c" fillOpacity={0.25} />
+          <circle cx={here[0]} cy={here[1]} r={7} fill="#1d5b8c" stroke="#ffffff" strokeWidth={3} />
+          <text
+            x={here[0]}
+            y={here[1] + (here[1] > 40 ? -18 : 28)}
+            textAnchor={here[0] < 60 ? 'start' : here[0] > W - 60 ? 'end' : 'middle'}
+            fontSize={14}
+            fontWeight={700}
+            fill="#133a59"
+            stroke="#ffffff"
+            strokeWidth={4}
+            paintOrder="stroke"
+          >
+            {t('plan.here')}
+          </text>
+        </g>
+      )}
+    </svg>
+  );
+}

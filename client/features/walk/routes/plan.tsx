@@ -1,0 +1,188 @@
+import '../../../locales/screens';
+import { useMemo, useState } from 'react';
+import { Link, useNavigate, useParams } from 'react-router-dom';
+import { useQuery } from '@tanstack/react-query';
+import { useTranslation } from 'react-i18next';
+import type { TodayItem } from '../../../../shared/schemas/walks';
+import { localIsoDate } from '../../../lib/format';
+import { newWalkId } from '../../../lib/storage';
+import { useFormat, useUser } from '../../session/api';
+import { todayQuery } from '../../today/api';
+import { listDrafts, newDraft, saveDraft, DEFAULT_STOPS } from '../../entry/drafts';
+import { FieldMap } from '../components/field-map';
+import { distanceM, planField } from '../plan';
+import { usePosition } from '../use-position';
+
+const PACE_M = 0.76; // as the walk plan (shared/calc/walk-plan.ts, PACE_LENGTH_M)
+
+/** The walk plan of one planting: outline, diagonal, numbered stops, distances, where I am. */
+export default function PlanRoute() {
+  const { plantingId = '' } = useParams();
+  const { t } = useTranslation();
+  const user = useUser();
+  const today = useQuery(todayQuery(user.id));
+  const item = today.data?.items.find((i) => i.plantingId === plantingId);
+  const drafts = useQuery({ queryKey: ['drafts', user.id], queryFn: () => listDrafts(user.id), networkMode: 'always', staleTime: 0, gcTime: 0 });
+
+  if (!item) {
+    return (
+      <div>
+        <BackToday />
+        <p className="mt-4 text-lg">{today.isPending ? t('app.loading') : t('plan.notFound')}</p>
+      </div>
+    );
+  }
+  const draft = drafts.data?.find((d) => d.planting.plantingId === plantingId) ?? null;
+  return <Plan item={item} draftId={draft?.id ?? null} draftStops={draft?.stopCount ?? DEFAULT_STOPS} draftValues={draft?.values ?? {}} />;
+}
+
+function BackToday() {
+  const { t } = useTranslation();
+  return (
+    <Link to="/" className="inline-flex min-h-touch items-center text-lg font-bold text-shoot underline underline-offset-4">
+      ← {t('plan.backToday')}
+    </Link>
+  );
+}
+
+function Plan({ item, draftId, draftStops, draftValues }: { item: TodayItem; draftId: string | null; draftStops: number; draftValues: Record<number, string> }) {
+  const { t } = useTranslation();
+  const f = useFormat();
+  const user = useUser();
+  const navigate = useNavigate();
+  const result = useMemo(() => planField(item.boundary, item.areaHa, draftStops), [item.boundary, item.areaHa, draftStops]);
+  const { plan } = result;
+  const position = usePosition();
+  const [starting, setStarting] = useState(false);
+
+  const nextStop = plan.stops.find((s) => !(draftValues[s.index] ?? '').trim()) ?? null;
+  const fix = position.state.kind === 'fix' ? position.state : null;
+  const toNext =
+    fix && nextStop && nextStop.lat !== null && nextStop.lng !== null ? distanceM(fix.lat, fix.lon, nextStop.lat, nextStop.lng) : null;
+
+  async function start() {
+    if (draftId) {
+      navigate(`/walks/${draftId}`);
+      return;
+    }
+    setStarting(true);
+    const draft = newDraft({
+      id: newWalkId(),
+      userId: user.id,
+      planting: {
+        plantingId: item.plantingId,
+        fieldName: item.fieldName,
+        ranchName: item.ranchName,
+        crop: item.crop,
+        variety: item.variety,
+        calibrationId: item.calibrationId,
+        areaHa: item.areaHa,
+      },
+      unit: user.units === 'metric' ? 'cm' : 'in',
+      walkedOn: localIsoDate(),
+      now: Date.now(),
+    });
+    await saveDraft(draft);
+    navigate(`/walks/${draft.id}`);
+  }
+
+  const crop = t(`crops.${item.crop}` as 'crops.other', { defaultValue: item.crop });
+  return (
+    <div>
+      <BackToday />
+      <h1 className="mt-2 text-3xl font-bold">{item.fieldName}</h1>
+      <p className="text-lg text-loam-600">
+        {item.ranchName} · {crop}
+        {item.variety ? ` · ${item.variety}` : ''} · {t('plan.area', { area: f.area(item.areaHa) })}
+      </p>
+      <h2 className="sr-only">{t('plan.title')}</h2>
+
+      <div className="mt-3">
+        <FieldMap boundary={item.boundary} result={result} nextStop={nextStop?.index ?? null} here={fix} />
+      </div>
+
+      <div className="mt-3 space-y-1 text-lg">
+        <p className="font-bold">
+          {t('plan.summary', { count: plan.stops.length, length: f.distance(plan.walkLengthM) })}
+        </p>
+        {plan.stops.length > 1 && (
+          <p>{t('plan.spacing', { paces: f.num(plan.spacingPaces), dist: f.distance(plan.spacingM) })}</p>
+        )}
+        <p>{t('plan.margin', { dist: f.distance(plan.edgeMarginM) })}</p>
+        {plan.mode === 'area' && <p className="text-loam-600">{result.boundaryProblem ? t('plan.badBoundary') : t('plan.noBoundary')}</p>}
+      </div>
+
+      <div className="mt-3 rounded-xl border-2 border-sky-200 bg-sky-50 p-3 text-sky-900">
+        {fix ? (
+          <>
+            {toNext !== null && nextStop ? (
+              <p className="text-xl font-bold">
+                {t('plan.toNext', { n: nextStop.index, dist: f.distance(toNext), paces: f.num(toNext / PACE_M) })}
+              </p>
+            ) : (
+              <p className="text-lg font-bold">{t('plan.here')}</p>
+            )}
+            <p>{t('plan.accuracy', { dist: f.distance(fix.accuracyM) })}</p>
+          </>
+        ) : position.state.kind === 'denied' ? (
+          <p>{t('plan.locationDenied')}</p>
+        ) : position.state.kind === 'unavailable' ? (
+          <p>{t('plan.locationUnavailable')}</p>
+        ) : (
+          <button
+            type="button"
+            onClick={position.start}
+            disabled={position.state.kind === 'locating'}
+            className="min-h-touch w-full rounded-lg border-2 border-sky-600 bg-white px-4 text-lg font-bold text-sky-800"
+          >
+            {position.state.kind === 'locating' ? t('plan.locating') : t('plan.locate')}
+          </button>
+        )}
+      </div>
+
+      <div className="mt-4 grid gap-3">
+        <button
+          type="button"
+          onClick={() => void start()}
+          disabled={starting}
+          className="min-h-16 rounded-xl bg-shoot px-5 text-2xl font-bold text-white hover:bg-shoot-800 disabled:opacity-70"
+        >
+          {draftId ? t('plan.continueWalk') : t('plan.startWalk')}
+        </button>
+        <Link
+          to="/guide"
+          className="flex min-h-14 items-center justify-center rounded-xl border-2 border-loam-400 bg-white px-5 text-xl font-bold"
+        >
+          {t('plan.guide')}
+        </Link>
+      </div>
+
+      <h2 className="mt-6 text-xl font-bold">{t('plan.stopsTitle')}</h2>
+      <ol className="mt-2 divide-y-2 divide-loam-100 rounded-xl border-2 border-loam-200 bg-white">
+        {plan.stops.map((s, k) => (
+          <li key={s.index} className="flex items-center gap-3 px-3 py-2">
+            <span
+              className={`flex size-11 shrink-0 items-center justify-center rounded-full border-2 border-loam text-lg font-bold ${
+                s.index === nextStop?.index ? 'bg-straw' : 'bg-white'
+              }`}
+              aria-hidden="true"
+            >
+              {s.index}
+            </span>
+            <span className="text-lg">
+              <span className="sr-only">{t('plan.stop', { n: s.index })}: </span>
+              {k === 0
+                ? t('plan.firstStop')
+                : t('plan.fromPrevious', {
+                    paces: f.num(s.paces - plan.stops[k - 1].paces),
+                    dist: f.distance(s.distanceM - plan.stops[k - 1].distanceM),
+                    prev: s.index - 1,
+                  })}
+            </span>
+          </li>
+        ))}
+      </ol>
+      <p className="mt-2 text-loam-600">{t('plan.pace', { dist: f.us ? `${f.num(PACE_M / 0.3048, 1)} ${t('units.ft')}` : `${f.num(PACE_M, 2)} ${t('units.m')}` })}</p>
+    </div>
+  );
+}
