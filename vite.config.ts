@@ -56,10 +56,22 @@ export default defineConfig({
         globIgnores: ['**/office-*', '.vite/**', 'sw.js'],
         // Files live under /static/ while the worker is served from /capture/sw.js: absolute URLs.
         modifyURLPrefix: { '': '/static/' },
-        // Navigations under /capture (any screen, any walk) answer with the cached shell.
-        navigateFallback: '/static/index.html',
-        navigateFallbackAllowlist: [/^\/capture(?:\/|$)/],
-        navigateFallbackDenylist: [/^\/capture\/sw\.js$/],
+        // Page loads under /capture ask the server first (it signs people in and serves the
+        // current shell); without an answer in 4 s, or without signal, the copy kept from an
+        // earlier visit, else the precached shell, so any screen of any walk opens offline.
+        navigateFallback: null,
+        runtimeCaching: [
+          {
+            urlPattern: ({ request, url }) => request.mode === 'navigate' && /^\/capture(?:\/|$)/.test(url.pathname),
+            handler: 'NetworkFirst',
+            options: {
+              cacheName: 'capture-pages',
+              networkTimeoutSeconds: 4,
+              expiration: { maxEntries: 20 },
+              precacheFallback: { fallbackURL: '/static/index.html' },
+            },
+          },
+        ],
         inlineWorkboxRuntime: true, // one file: nothing else to serve under /capture
         cleanupOutdatedCaches: true,
         clientsClaim: true, // the first visit's page is controlled at once, so it works offline right after

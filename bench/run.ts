@@ -1,4 +1,5 @@
 // Entry point for `npm run bench` (tsx bench/run.ts). Add further benches here.
 import { printTable, runCalcBench } from './calc';
+import './capture-size';
 
 printTable('Estimation core (shared/calc)', runCalcBench());
