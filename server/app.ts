@@ -35,6 +35,7 @@ import { registerPages } from './routes/office/registers';
 import { calibrationsApi } from './routes/api/calibrations';
 import { CALIBRATION_UPLOAD_PATHS, calibrationPages, calibrationUpload } from './routes/office/calibrations';
 import { mountWalksApi } from './routes/api/walk-routes';
+import { walkReviewPages } from './routes/office/walk-review';
 
 export interface AppDeps {
   config: Config;
@@ -168,6 +169,7 @@ export function createApp(deps: AppDeps): Express {
   app.use(rulesPages(ctx));
   app.use(calibrationPages(ctx));
   app.use(registerPages(ctx));
+  app.use(walkReviewPages(ctx));
   app.use(captureApp(deps.vite));
 
   app.use(notFound);

@@ -121,6 +121,10 @@ export async function getWalk(db: Knex, organisationId: string, id: string): Pro
 export interface WalkListQuery {
   status?: WalkStatus;
   plantingId?: string;
+  /** Walks of this ranch's fields (the office's walk review). */
+  ranchId?: string;
+  /** Walks made by this user (the office's walk review). */
+  samplerId?: string;
   /** Only what this sampler may see (their own walks and those of plantings assigned to them). */
   visibleTo?: string;
   limit: number;
@@ -132,6 +136,14 @@ export async function listWalks(db: Knex, organisationId: string, query: WalkLis
   const filter = (q: Knex.QueryBuilder) => {
     if (query.status) q.where('field_walks.status', query.status);
     if (query.plantingId) q.where('field_walks.planting_id', query.plantingId);
+    if (query.ranchId) {
+      const ofRanch = inOrganisation(db, 'plantings', organisationId)
+        .join('fields', 'fields.id', 'plantings.field_id')
+        .where('fields.ranch_id', query.ranchId)
+        .select('plantings.id');
+      q.whereIn('field_walks.planting_id', ofRanch);
+    }
+    if (query.samplerId) q.where('field_walks.sampler_id', query.samplerId);
     if (query.visibleTo) visibleToSampler(db, q, query.visibleTo);
     return q;
   };

@@ -1,0 +1,124 @@
+import { USUAL_SAMPLE_SIZE } from '../calc/estimate';
+import type { WalkEstimate } from '../schemas/walks';
+
+/*
+ * What a reviewer should look at twice before approving a field walk: plants far from the
+ * others, an estimate outside the calibrated lengths, no estimate at all, fewer plants than the
+ * usual sample, and a verdict the sampling uncertainty could still turn. Pure: the office pages
+ * (and later the phone) put the words in the reader's units.
+ */
+
+/**
+ * Cut-off of the modified z-score, 0.6745·|x − median| / MAD = |x − median| / (1.4826·MAD):
+ * common practice (Iglewicz and Hoaglin's modified z-score), from memory.
+ */
+export const OUTLIER_Z = 3.5;
+/** 1 / Φ⁻¹(0.75): makes the MAD estimate the standard deviation of normal data. */
+export const MAD_SCALE = 1.4826;
+/** √(π/2): the same for the mean absolute deviation, used when the MAD is 0 (from memory). */
+export const MEAN_AD_SCALE = 1.253314;
+/** With fewer plants the median and MAD say too little to call one plant odd. */
+export const OUTLIER_MIN_N = 4;
+
+export function median(values: readonly number[]): number {
+  if (!values.length) return NaN;
+  const s = [...values].sort((a, b) => a - b);
+  const mid = s.length >> 1;
+  return s.length % 2 ? s[mid] : (s[mid - 1] + s[mid]) / 2;
+}
+
+/**
+ * The robust z of each value: |x − median| / (1.4826·MAD). When more than half the values are
+ * equal the MAD is 0; then the mean absolute deviation from the median stands in (× 1.253314).
+ * All zeros when every value is the same; empty below OUTLIER_MIN_N values.
+ */
+export function robustZ(values: readonly number[]): number[] {
+  if (values.length < OUTLIER_MIN_N) return [];
+  const m = median(values);
+  const dev = values.map((v) => Math.abs(v - m));
+  const mad = median(dev);
+  let scale = MAD_SCALE * mad;
+  if (!(scale > 0)) scale = MEAN_AD_SCALE * (dev.reduce((a, b) => a + b, 0) / dev.length);
+  if (!(scale > 0)) return values.map(() => 0);
+  return dev.map((d) => d / scale);
+}
+
+/** Indexes of the values more than `cutoff` robust z from the median (none below OUTLIER_MIN_N values). */
+export function outlierIndexes(values: readonly number[], cutoff = OUTLIER_Z): number[] {
+  const z = robustZ(values);
+  const out: number[] = [];
+  z.forEach((v, i) => {
+    if (v > cutoff) out.push(i);
+  });
+  return out;
+}
+
+export type WalkFlagCode = 'outlier' | 'extrapolated' | 'no_calibration' | 'few_plants' | 'borderline';
+
+export type WalkFlag =
+  | { code: 'outlier'; plants: { stop: number; lengthCm: number; z: number }[]; medianCm: number }
+  | { code: 'extrapolated'; meanLengthCm: number }
+  | { code: 'no_calibration' }
+  | { code: 'few_plants'; n: number; usual: number }
+  | { code: 'borderline'; range: [number, number]; thresholdKgHa: number; level: number; morePlants: number | null };
+
+/** Short badge words, in the order flags are listed. */
+export const WALK_FLAG_LABELS: Record<WalkFlagCode, string> = {
+  outlier: 'outlier',
+  extrapolated: 'extrapolated',
+  no_calibration: 'no calibration',
+  few_plants: 'few plants',
+  borderline: 'borderline',
+};
+
+/** The flags of one walk, in a fixed order: outlier, extrapolated, no calibration, few plants, borderline. */
+export function walkFlags(walk: { plants: readonly { stop: number; lengthCm: number }[]; estimate: WalkEstimate | null }): WalkFlag[] {
+  const flags: WalkFlag[] = [];
+  const lengths = walk.plants.map((p) => p.lengthCm);
+  const z = robustZ(lengths);
+  const odd = outlierIndexes(lengths);
+  if (odd.length) {
+    flags.push({ code: 'outlier', plants: odd.map((i) => ({ stop: walk.plants[i].stop, lengthCm: lengths[i], z: z[i] })), medianCm: median(lengths) });
+  }
+  const e = walk.estimate;
+  if (e?.extrapolated) flags.push({ code: 'extrapolated', meanLengthCm: e.meanLengthCm });
+  if (!e) flags.push({ code: 'no_calibration' });
+  if (walk.plants.length < USUAL_SAMPLE_SIZE) flags.push({ code: 'few_plants', n: walk.plants.length, usual: USUAL_SAMPLE_SIZE });
+  // As the estimation core says it: the sampling range straddles the threshold (ends excluded).
+  if (e?.samplingRange && e.samplingRange[0] < e.thresholdKgHa && e.thresholdKgHa < e.samplingRange[1]) {
+    flags.push({ code: 'borderline', range: e.samplingRange, thresholdKgHa: e.thresholdKgHa, level: e.level, morePlants: e.morePlantsSuggested });
+  }
+  return flags;
+}
+
+/** Stops of the plants flagged as outliers. */
+export const outlierStops = (flags: readonly WalkFlag[]): Set<number> =>
+  new Set(flags.flatMap((f) => (f.code === 'outlier' ? f.plants.map((p) => p.stop) : [])));
+
+/** Plain words for a flag; `length` and `biomass` format SI values in the reader's units. */
+export function explainWalkFlag(flag: WalkFlag, units: { length: (cm: number) => string; biomass: (kgHa: number) => string }): string {
+  switch (flag.code) {
+    case 'outlier': {
+      const list = flag.plants.map((p) => `stop ${p.stop} (${units.length(p.lengthCm)})`).join(', ');
+      const one = flag.plants.length === 1;
+      return (
+        `${one ? 'One plant is' : `${flag.plants.length} plants are`} far from the others: ${list}, against a median of ${units.length(flag.medianCm)} ` +
+        `(more than ${OUTLIER_Z} robust z from the median). Check for a typing slip, a tiller measured instead of the main shoot, or a plant from an odd patch.`
+      );
+    }
+    case 'extrapolated':
+      return `The mean main shoot length (${units.length(flag.meanLengthCm)}) is outside the lengths the calibration was fitted on, so the estimate is an extrapolation. Treat it with caution.`;
+    case 'no_calibration':
+      return 'There is no estimate: no published calibration was assigned to this crop when the walk was stored. The walk cannot earn the credit in a register.';
+    case 'few_plants':
+      return `${flag.n} plant${flag.n === 1 ? '' : 's'} measured; the usual sample is ${flag.usual}, one per stop. The estimate is less certain.`;
+    case 'borderline': {
+      const pct = Math.round(flag.level * 100);
+      const more =
+        flag.morePlants == null
+          ? 'More plants are unlikely to settle it.'
+          : `About ${flag.morePlants} more plant${flag.morePlants === 1 ? '' : 's'} would likely settle it.`;
+      return `The ${pct} % sampling range (${units.biomass(flag.range[0])} to ${units.biomass(flag.range[1])}) spans the ${units.biomass(flag.thresholdKgHa)} threshold: another walk of the same field could give the other verdict. ${more}`;
+    }
+  }
+}
