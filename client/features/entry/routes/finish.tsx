@@ -1,10 +1,10 @@
 import '../../../locales/screens';
 import { useMemo, useState } from 'react';
-import { Link, useNavigate, useParams } from 'react-router-dom';
+import { Link, Navigate, useNavigate, useParams } from 'react-router-dom';
 import { useTranslation } from 'react-i18next';
 import { USUAL_SAMPLE_SIZE } from '../../../../shared/calc/estimate';
 import { useFormat } from '../../session/api';
-import { loadOutbox } from '../../offline';
+import { loadOutbox, useQueueJobs } from '../../offline';
 import { newJob } from '../../offline/queue';
 import { EstimatePanel } from '../../estimate/components/estimate-panel';
 import { removeDraft, type WalkDraft } from '../drafts';
@@ -18,8 +18,11 @@ export default function FinishRoute() {
   const { walkId = '' } = useParams();
   const { t } = useTranslation();
   const { draft, update, loading } = useDraft(walkId);
+  const sent = useQueueJobs().some((j) => j.id === walkId);
   if (loading) return <p className="text-lg">{t('app.loading')}</p>;
   if (!draft) {
+    // Back from the sent screen: the walk is in the outbox now.
+    if (sent) return <Navigate to={`/walks/${walkId}/sent`} replace />;
     return (
       <div>
         <p className="text-xl font-bold">{t('entry.notFound')}</p>
