@@ -7,11 +7,12 @@ import type { Knex } from 'knex';
 import type { ViteDevServer } from 'vite';
 import type { Config } from './config';
 import { configurePassport } from './auth/passport';
+import type { FastReads } from './db/fast-reads';
 import { SessionStore } from './auth/session-store';
 import { signInLimits } from './auth/sign-in-limits';
 import { ROLE_LABELS } from './auth/roles';
 import { CROP_LABELS } from '../shared/registry/crops';
-import { errorHandler, notFound } from './http/errors';
+import { errorHandler, isApiRequest, notFound } from './http/errors';
 import { csrfProtection, securityHeaders } from './http/security';
 import { CLIENT_DIST, readOfficeAssets } from './http/assets';
 import { makeFormatter, pickLocale } from './http/format';
@@ -44,6 +45,8 @@ export interface AppDeps {
   mailer?: Mailer;
   /** Vite in middleware mode, for `npm run dev` only. */
   vite?: ViteDevServer;
+  /** Prepared-statement reads of sessions and users on a database file (see server/db/fast-reads.ts). */
+  fastReads?: FastReads;
   /** The secret that signs session cookies. */
   sessionSecret: string;
 }
@@ -89,14 +92,17 @@ export function createApp(deps: AppDeps): Express {
     );
   }
 
-  // Cheap request logging: one line per request, none for health checks.
-  app.use(
-    pinoHttp({
-      logger,
-      autoLogging: { ignore: (req) => req.url === '/healthz' },
-      quietReqLogger: true,
-    }),
-  );
+  // Cheap request logging: one line per request, none for health checks, and no per-request
+  // logging work at all when the level hides request lines (LOG_LEVEL=warn or above).
+  if (logger.isLevelEnabled('info')) {
+    app.use(
+      pinoHttp({
+        logger,
+        autoLogging: { ignore: (req) => req.url === '/healthz' },
+        quietReqLogger: true,
+      }),
+    );
+  }
   app.get('/healthz', (_req, res) => {
     res.json({ ok: true });
   });
@@ -104,12 +110,12 @@ export function createApp(deps: AppDeps): Express {
   app.use(express.json({ limit: '1mb' }));
   app.use(express.urlencoded({ extended: false, limit: '1mb' }));
 
-  const passport = configurePassport(db);
+  const passport = configurePassport(db, deps.fastReads);
   app.use(
     session({
       name: 'crowntip.sid',
       secret: deps.sessionSecret,
-      store: new SessionStore(db, 60_000, config.isTest ? 0 : 10 * 60_000),
+      store: new SessionStore(db, 60_000, config.isTest ? 0 : 10 * 60_000, deps.fastReads),
       resave: false,
       saveUninitialized: false, // no session row for anonymous page views (STACK.md, gotcha 2)
       cookie: {
@@ -131,6 +137,7 @@ export function createApp(deps: AppDeps): Express {
   // Page defaults first, so that even a page rejected by the CSRF check renders its error.
   app.locals.assets = readOfficeAssets(Boolean(deps.vite));
   app.use((req, res, next) => {
+    if (isApiRequest(req)) return next(); // JSON answers render no page
     res.locals.user = req.user ?? null;
     res.locals.currentPath = req.path;
     res.locals.fmt = makeFormatter(req.user?.units ?? 'us', pickLocale((l) => req.acceptsLanguages(l)));
@@ -145,7 +152,7 @@ export function createApp(deps: AppDeps): Express {
   app.post(CALIBRATION_UPLOAD_PATHS, calibrationUpload);
   app.use(csrfProtection());
   app.use((req, res, next) => {
-    res.locals.csrfToken = req.csrfToken ? req.csrfToken() : '';
+    if (!isApiRequest(req)) res.locals.csrfToken = req.csrfToken ? req.csrfToken() : '';
     next();
   });
 

@@ -6,6 +6,7 @@ import { loadConfig, type Config } from './config';
 import { openDatabase, migrateLatest } from './db/knex';
 import { countOrganisations } from './db/organisations';
 import { createApp } from './app';
+import { openFastReads } from './db/fast-reads';
 import { createMailer } from './mail/mailer';
 import { scheduleDailyJobs } from './jobs/daily';
 import { clientIsBuilt } from './http/assets';
@@ -49,7 +50,8 @@ async function main() {
   }
 
   const mailer = createMailer(db, { smtpUrl: config.SMTP_URL, from: config.MAIL_FROM, logger });
-  const app = createApp({ config, db, logger, mailer, vite, sessionSecret: sessionSecret(config) });
+  const fastReads = openFastReads(config.DATABASE_FILE);
+  const app = createApp({ config, db, logger, mailer, vite, fastReads, sessionSecret: sessionSecret(config) });
   if (config.DAILY_JOBS) scheduleDailyJobs({ db, mailer, logger, publicUrl: config.PUBLIC_URL, daysAhead: config.REMIND_DAYS_AHEAD });
   const server = app.listen(config.PORT, config.HOST, () => {
     const url = config.PUBLIC_URL;

@@ -1,6 +1,7 @@
 import { ConnectSessionKnexStore } from 'connect-session-knex';
 import type { Knex } from 'knex';
 import type { SessionData } from 'express-session';
+import type { FastReads } from '../db/fast-reads';
 
 /**
  * The SQLite/PostgreSQL session store, with the sliding expiry written at most once a minute per
@@ -9,8 +10,27 @@ import type { SessionData } from 'express-session';
  */
 export class SessionStore extends ConnectSessionKnexStore {
   private lastTouch = new Map<string, number>();
-  constructor(knex: Knex, private touchEveryMs = 60_000, cleanupInterval = 10 * 60_000) {
+  constructor(
+    knex: Knex,
+    private touchEveryMs = 60_000,
+    cleanupInterval = 10 * 60_000,
+    private fast?: FastReads,
+  ) {
     super({ knex, tableName: 'sessions', createTable: false, cleanupInterval });
+  }
+
+  override async get(sid: string, callback?: (err: unknown, session?: SessionData | null) => void): Promise<SessionData | null> {
+    if (!this.fast) return super.get(sid, callback as never);
+    try {
+      // The same condition as the store's own query, in the same date form it writes.
+      const json = this.fast.sessionJson(sid, new Date().toISOString());
+      const session = json ? (JSON.parse(json) as SessionData) : null;
+      callback?.(null, session);
+      return session;
+    } catch (err) {
+      callback?.(err);
+      throw err;
+    }
   }
 
   override async touch(sid: string, session: SessionData, callback?: () => void): Promise<void> {

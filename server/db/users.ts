@@ -21,7 +21,7 @@ export interface User {
   hasPassword: boolean;
 }
 
-interface UserRow {
+export interface UserRow {
   id: string;
   organisation_id: string;
   organisation_name: string;
@@ -51,7 +51,7 @@ const columns = [
   'users.created_at',
 ];
 
-function toUser(row: UserRow): User {
+export function toUser(row: UserRow): User {
   return {
     id: row.id,
     organisationId: row.organisation_id,

@@ -19,9 +19,27 @@ export interface Formatter {
 
 const SUPPORTED = ['en-US', 'en-GB', 'en-AU', 'en-CA', 'es-MX', 'es-ES', 'es-US', 'en', 'es'];
 
+const cache = new Map<string, Formatter>();
+
+/** One formatter per units and locale: building Intl formatters is far slower than using them. */
 export function makeFormatter(units: Units, acceptLanguage: string | false): Formatter {
+  const key = `${units}|${acceptLanguage || ''}`;
+  let f = cache.get(key);
+  if (!f) {
+    f = buildFormatter(units, acceptLanguage);
+    cache.set(key, f);
+  }
+  return f;
+}
+
+function buildFormatter(units: Units, acceptLanguage: string | false): Formatter {
   const locale = acceptLanguage || 'en-US';
-  const numberFmt = (digits: number) => new Intl.NumberFormat(locale, { maximumFractionDigits: digits, minimumFractionDigits: digits });
+  const numberFormats = new Map<number, Intl.NumberFormat>();
+  const numberFmt = (digits: number) => {
+    let nf = numberFormats.get(digits);
+    if (!nf) numberFormats.set(digits, (nf = new Intl.NumberFormat(locale, { maximumFractionDigits: digits, minimumFractionDigits: digits })));
+    return nf;
+  };
   const areaOf = (ha: number) => (units === 'us' ? haToAc(ha) : ha);
   const rateOf = (kg: number) => (units === 'us' ? kgPerHaToLbPerAc(kg) : kg);
   const dateFmt = new Intl.DateTimeFormat(locale, { year: 'numeric', month: 'short', day: 'numeric', timeZone: 'UTC' });

@@ -35,9 +35,14 @@ export function securityHeaders(dev: boolean): RequestHandler {
  * cross-site page cannot send an application/json body without a CORS preflight, which this
  * server never grants, and a signed-out client has no token yet.
  */
+const SAFE = new Set(['GET', 'HEAD', 'OPTIONS']);
+
 export function csrfProtection(): RequestHandler {
   const check = lusca.csrf();
   return (req, res, next) => {
+    // Reads of the JSON API need no token and render no form: skip lusca's per-request token
+    // work (GET /api/session still gets one: it hands the token to the client).
+    if (SAFE.has(req.method) && req.path.startsWith('/api/') && req.path !== '/api/session') return next();
     if (req.method === 'POST' && req.path === '/api/session' && req.is('application/json')) {
       // Let lusca treat it as a safe read, so req.csrfToken() still hands out a token.
       const asRead = Object.create(req, { method: { value: 'GET' } });
