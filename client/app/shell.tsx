@@ -33,7 +33,7 @@ export function Shell() {
     void reconcilePreferences(data).then((updated) => {
       if (updated) qc.setQueryData(sessionKeys.current(), updated);
     });
-    // eslint-disable-next-line react-hooks/exhaustive-deps
+    // Again whenever the session is refetched (focus, reconnect): the signal may be back.
   }, [fresh, data?.user.id, session.dataUpdatedAt]);
 
   // A walk that reached the office changes today's list and has a stored result to show.
@@ -45,11 +45,11 @@ export function Shell() {
       doneSeen.current = new Set(done);
       return;
     }
-    const fresh = done.filter((id) => !doneSeen.current!.has(id));
-    if (fresh.length === 0) return;
-    fresh.forEach((id) => doneSeen.current!.add(id));
+    const arrived = done.filter((id) => !doneSeen.current!.has(id));
+    if (arrived.length === 0) return;
+    arrived.forEach((id) => doneSeen.current!.add(id));
     void qc.invalidateQueries({ queryKey: todayKeys.all });
-    for (const id of fresh) void qc.invalidateQueries({ queryKey: walkKeys.detail(id) });
+    for (const id of arrived) void qc.invalidateQueries({ queryKey: walkKeys.detail(id) });
   }, [jobs, qc]);
 
   // The sending engine loads once the first screen is up (it is not needed to draw it).

@@ -20,8 +20,7 @@ export function useLiveEstimate(draft: WalkDraft, lengthsCm: number[]) {
         lengthsCm,
         units,
       }),
-    // lengthsCm is a fresh array each render; its contents are the key.
-    // eslint-disable-next-line react-hooks/exhaustive-deps
+    // lengthsCm is a fresh array each render; its contents (the key) decide.
     [draft.planting.calibrationId, calibrations.data, rules.data, key, units],
   );
 }
