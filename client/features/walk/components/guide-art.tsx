@@ -22,7 +22,11 @@ export function ArtRandom({ label }: { label: string }) {
     <svg {...common} aria-label={label}>
       <path d="M8 92h144" stroke={SOIL} />
       {[22, 44, 66, 96, 118, 140].map((x, k) => (
-        <path key={x} d={`M${x} 92V${50 + (k % 3) * 8}M${x} ${70 + (k % 2) * 4}c-6-4-9-10-9-16M${x} ${64}c6-4 9-9 9-14`} />
+        <path
+          key={x}
+          d={`M${x} 92c0-12-1-24 ${k % 2 ? 2 : -2}-${38 - (k % 3) * 6}M${x} 82c-8-4-13-11-15-21M${x} 74c7-4 11-10 13-18`}
+          strokeWidth={2.5}
+        />
       ))}
       <path d="M78 18l8 22" stroke={ACCENT} strokeWidth={4} />
       <path d="M74 30l-6 4M92 26l6 2" strokeWidth={2} />
@@ -54,7 +58,7 @@ export function ArtCrown({ label }: { label: string }) {
       <ellipse cx={60} cy={64} rx={9} ry={6} fill="#ebe8e0" />
       <path d="M54 68c-6 10-14 18-24 24M58 70c-2 12-4 22-8 32M62 70c2 12 6 22 12 30M66 68c6 10 14 18 24 22" strokeWidth={2} />
       <path d="M80 64h44" stroke={ACCENT} strokeWidth={3} />
-      <path d="M118 58l8 6-8 6" stroke={ACCENT} strokeWidth={3} />
+      <path d="M86 58l-8 6 8 6" stroke={ACCENT} strokeWidth={3} />
       <circle cx={70} cy={64} r={4} fill={ACCENT} stroke="none" />
     </svg>
   );
