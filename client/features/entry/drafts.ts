@@ -1,4 +1,4 @@
-import { del, get, set, values } from 'idb-keyval';
+import { del, get, set } from 'idb-keyval';
 import { draftStore } from '../../lib/storage';
 import type { LengthUnit } from './validation';
 
@@ -82,11 +82,6 @@ export async function loadDraft(id: string): Promise<WalkDraft | null> {
   const stored = await get<WalkDraft>(id, draftStore());
   if (stored) memory.set(id, stored);
   return stored ?? null;
-}
-
-export async function listDrafts(userId: string): Promise<WalkDraft[]> {
-  const all = await values<WalkDraft>(draftStore());
-  return all.filter((d) => d.userId === userId).sort((a, b) => b.updatedAt - a.updatedAt);
 }
 
 /**

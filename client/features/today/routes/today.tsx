@@ -6,7 +6,7 @@ import type { TodayItem } from '../../../../shared/schemas/walks';
 import { useFormat, useUser } from '../../session/api';
 import { LanguageToggle, PreferencesPanel } from '../../session/components/preferences';
 import { calibrationsQuery, rulesQuery } from '../../walk/api';
-import { listDrafts } from '../../entry/drafts';
+import { listDrafts } from '../../entry/draft-list';
 import { todayQuery } from '../api';
 import { PlantingCard } from '../components/planting-card';
 
