@@ -4,17 +4,7 @@
  * time divided by the batch size (robust to GC pauses and JIT warm-up, which runs first).
  */
 import { compareModels, estimateBiomass, fitCalibration, lookupTable, predict, DEMO_RULE, type Fit } from '../shared/calc';
-
-function mulberry32(seed: number): () => number {
-  let s = seed >>> 0;
-  return () => {
-    s = (s + 0x6d2b79f5) >>> 0;
-    let t = s;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
+import { mulberry32 } from '../scripts/prng';
 
 /** Calibration-like points: y = 3.4·x^1.65 with ~22 % multiplicative scatter. */
 function points(n: number, seed: number) {

@@ -16,28 +16,10 @@ import { writeFileSync, mkdirSync } from 'node:fs';
 import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { inToCm, lbPerAcToKgPerHa } from '../shared/calc/units';
+import { mulberry32, normal } from './prng';
 
 const ROOT = join(dirname(fileURLToPath(import.meta.url)), '..');
 const OUT = join(ROOT, 'seeds', 'data');
-
-/** mulberry32: a small, well-known 32-bit seeded PRNG; good enough for demo data. */
-function mulberry32(seed: number): () => number {
-  let s = seed >>> 0;
-  return () => {
-    s = (s + 0x6d2b79f5) >>> 0;
-    let t = s;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
-
-function normal(rand: () => number): number {
-  // Box–Muller; 1 − u keeps the log argument in (0, 1].
-  const u = 1 - rand();
-  const v = rand();
-  return Math.sqrt(-2 * Math.log(u)) * Math.cos(2 * Math.PI * v);
-}
 
 interface DemoSpec {
   file: string;

@@ -1,29 +1,17 @@
 import path from 'node:path';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { BrowserContext } from 'playwright-core';
-import { startServer, type RunningServer } from '../helpers/server';
-import { openBrowser, screenshot, signIn } from '../helpers/browser';
+import { describe, expect, it } from 'vitest';
+import { SUITE_PASSWORD, screenshot, signIn, useServerAndBrowser } from '../helpers/browser';
 import { CM_PER_IN, lengthForBiomass, type Fit } from '../../shared/calc';
 
-const PASSWORD = 'browser-demo-password';
+const PASSWORD = SUITE_PASSWORD;
+const suite = useServerAndBrowser();
 const FIXTURE = path.resolve('tests/fixtures/calibration/rye-inches-lbac.csv');
-let server: RunningServer;
-let browser: { context: BrowserContext; close: () => Promise<void> };
 
-beforeAll(async () => {
-  server = await startServer({ DEMO_PASSWORD: PASSWORD });
-  browser = await openBrowser();
-});
-
-afterAll(async () => {
-  await browser?.close();
-  await server?.stop();
-});
 
 describe('calibrations in the browser', () => {
   it('an admin uploads a CSV, checks it, compares the fits, publishes and prints the lookup table', async () => {
-    const page = await browser.context.newPage();
-    await signIn(page, server.url, 'admin@crowntip.test', PASSWORD);
+    const page = await suite.browser.context.newPage();
+    await signIn(page, suite.server.url, 'admin@crowntip.test', PASSWORD);
     await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Calibrations' }).click();
     await page.getByRole('heading', { name: 'Calibrations', level: 1 }).waitFor();
     expect(await page.getByText('Demo data — not for real credits').count()).toBeGreaterThan(0);
@@ -72,7 +60,7 @@ describe('calibrations in the browser', () => {
 
     // The highlighted row is the first 1-inch step at or above the length lengthForBiomass gives.
     const id = calibrationUrl.split('/').pop()!;
-    const api = await page.request.get(`${server.url}/api/calibrations/${id}`);
+    const api = await page.request.get(`${suite.server.url}/api/calibrations/${id}`);
     expect(api.status()).toBe(200);
     const fit = (await api.json()).fit as Fit;
     const threshold = Number(await page.locator('[data-threshold-kg-ha]').getAttribute('data-threshold-kg-ha'));
@@ -92,10 +80,10 @@ describe('calibrations in the browser', () => {
   });
 
   it('the auditor reads published calibrations without any controls', async () => {
-    await browser.context.clearCookies();
-    const page = await browser.context.newPage();
-    await signIn(page, server.url, 'auditor@crowntip.test', PASSWORD);
-    await page.goto(`${server.url}/calibrations`);
+    await suite.browser.context.clearCookies();
+    const page = await suite.browser.context.newPage();
+    await signIn(page, suite.server.url, 'auditor@crowntip.test', PASSWORD);
+    await page.goto(`${suite.server.url}/calibrations`);
     await page.getByRole('link', { name: 'Triticale' }).first().click();
     await page.getByRole('heading', { name: 'The four models compared' }).waitFor();
     expect(await page.getByRole('button', { name: /publish|retire|delete|new draft/i }).count()).toBe(0);

@@ -1,18 +1,15 @@
 import fs from 'node:fs';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { BrowserContext } from 'playwright-core';
+import { beforeAll, describe, expect, it } from 'vitest';
 import { getDocumentProxy } from 'unpdf';
 import path from 'node:path';
 import { randomUUID } from 'node:crypto';
-import { startServer, type RunningServer } from '../helpers/server';
-import { openBrowser, screenshot, signIn } from '../helpers/browser';
+import { SUITE_PASSWORD, screenshot, signIn, useServerAndBrowser } from '../helpers/browser';
 import { openDatabase } from '../../server/db/knex';
 import { estimateSnapshot, ORG, userId } from '../helpers/register-scenario';
 import { seasonOfDate, seasonStartYear, seasonStarting, todayIso } from '../../shared/registry/season';
 
-const PASSWORD = 'browser-demo-password';
-let server: RunningServer;
-let browser: { context: BrowserContext; close: () => Promise<void> };
+const PASSWORD = SUITE_PASSWORD;
+const suite = useServerAndBrowser();
 let versionUrl = '';
 
 // Last season's demo plantings (e.g. 2025-26, reporting year 2026) are terminated but have no
@@ -53,21 +50,12 @@ async function addApprovedWalks(dataDir: string) {
   }
 }
 
-beforeAll(async () => {
-  server = await startServer({ DEMO_PASSWORD: PASSWORD });
-  await addApprovedWalks(server.dataDir);
-  browser = await openBrowser();
-});
-
-afterAll(async () => {
-  await browser?.close();
-  await server?.stop();
-});
+beforeAll(() => addApprovedWalks(suite.server.dataDir));
 
 describe('credit registers in the browser', () => {
   it('a clerk finalises a register, prints it, sends it to the grower and builds the organisation’s register', async () => {
-    const page = await browser.context.newPage();
-    await signIn(page, server.url, 'clerk@crowntip.test', PASSWORD);
+    const page = await suite.browser.context.newPage();
+    await signIn(page, suite.server.url, 'clerk@crowntip.test', PASSWORD);
     await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Registers' }).click();
     await expect(page.getByRole('heading', { name: /^Credit registers \d{4}$/ }).count()).resolves.toBe(1);
     await page.getByLabel('Reporting year').selectOption(String(YEAR));
@@ -121,9 +109,9 @@ describe('credit registers in the browser', () => {
   });
 
   it('an auditor opens the version read-only and downloads the PDF', async () => {
-    await browser.context.clearCookies();
-    const page = await browser.context.newPage();
-    await signIn(page, server.url, 'auditor@crowntip.test', PASSWORD);
+    await suite.browser.context.clearCookies();
+    const page = await suite.browser.context.newPage();
+    await signIn(page, suite.server.url, 'auditor@crowntip.test', PASSWORD);
     await page.goto(versionUrl);
     expect(await page.getByRole('button', { name: 'Send to grower' }).count()).toBe(0);
     const [download] = await Promise.all([page.waitForEvent('download'), page.getByRole('link', { name: 'Download PDF' }).click()]);
@@ -135,9 +123,9 @@ describe('credit registers in the browser', () => {
   });
 
   it('the admin finds the e-mail with its PDF attachment in the Outbox', async () => {
-    await browser.context.clearCookies();
-    const page = await browser.context.newPage();
-    await signIn(page, server.url, 'admin@crowntip.test', PASSWORD);
+    await suite.browser.context.clearCookies();
+    const page = await suite.browser.context.newPage();
+    await signIn(page, suite.server.url, 'admin@crowntip.test', PASSWORD);
     await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Outbox' }).click();
     await page.getByRole('link', { name: /Credit register \d{4}: Sandpiper Bench \(version 1\)/ }).click();
     const attachments = page.getByText(/crowntip-register-sandpiper-bench-\d{4}-v1\.pdf \(application\/pdf, \d+ bytes\)/);

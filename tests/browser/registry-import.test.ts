@@ -1,34 +1,22 @@
 import fs from 'node:fs';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { BrowserContext } from 'playwright-core';
-import { startServer, type RunningServer } from '../helpers/server';
-import { openBrowser, screenshot, signIn } from '../helpers/browser';
+import { describe, expect, it } from 'vitest';
+import { SUITE_PASSWORD, screenshot, signIn, useServerAndBrowser } from '../helpers/browser';
 
-const PASSWORD = 'browser-demo-password';
-let server: RunningServer;
-let browser: { context: BrowserContext; close: () => Promise<void> };
+const PASSWORD = SUITE_PASSWORD;
+const suite = useServerAndBrowser();
 
-beforeAll(async () => {
-  server = await startServer({ DEMO_PASSWORD: PASSWORD });
-  browser = await openBrowser();
-});
-
-afterAll(async () => {
-  await browser?.close();
-  await server?.stop();
-});
 
 describe('registry CSV import in the browser', () => {
   it('a clerk uploads the example file, checks the preview, imports it and watches the progress reach 100 %', async () => {
-    const page = await browser.context.newPage();
-    await signIn(page, server.url, 'clerk@crowntip.test', PASSWORD);
+    const page = await suite.browser.context.newPage();
+    await signIn(page, suite.server.url, 'clerk@crowntip.test', PASSWORD);
     await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Registry' }).click();
     await page.getByRole('navigation', { name: 'Registry' }).getByRole('link', { name: 'Import CSV' }).click();
     await page.getByRole('heading', { name: 'Import the registry from a CSV file' }).waitFor();
     await screenshot(page, 'import-upload');
 
     // The example file, downloaded with the clerk's session, uploaded back as a clerk would.
-    const example = await page.request.get(`${server.url}/registry/import/example.csv`);
+    const example = await page.request.get(`${suite.server.url}/registry/import/example.csv`);
     expect(example.status()).toBe(200);
     await page.getByLabel('CSV file').setInputFiles({ name: 'crowntip-registry-example.csv', mimeType: 'text/csv', buffer: await example.body() });
     await page.getByRole('button', { name: 'Upload and check' }).click();
@@ -62,8 +50,8 @@ describe('registry CSV import in the browser', () => {
   });
 
   it('a file with problems lists them all and cannot be imported', async () => {
-    const page = await browser.context.newPage();
-    await page.goto(`${server.url}/registry/import`);
+    const page = await suite.browser.context.newPage();
+    await page.goto(`${suite.server.url}/registry/import`);
     await page.getByLabel('CSV file').setInputFiles('tests/fixtures/import/errors.csv');
     await page.getByRole('button', { name: 'Upload and check' }).click();
     await page.getByRole('heading', { name: 'Problems (9)' }).waitFor();
@@ -78,8 +66,8 @@ describe('registry CSV import in the browser', () => {
   });
 
   it('shows a refused upload in place without leaving the page', async () => {
-    const page = await browser.context.newPage();
-    await page.goto(`${server.url}/registry/import`);
+    const page = await suite.browser.context.newPage();
+    await page.goto(`${suite.server.url}/registry/import`);
     await page.getByLabel('CSV file').setInputFiles({ name: 'notes.csv', mimeType: 'text/csv', buffer: Buffer.from('ranch,field\n') });
     await page.getByRole('button', { name: 'Upload and check' }).click();
     await page.getByText('The file has a header line but no rows.').waitFor();

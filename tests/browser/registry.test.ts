@@ -1,29 +1,17 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
-import type { BrowserContext } from 'playwright-core';
-import { startServer, type RunningServer } from '../helpers/server';
-import { openBrowser, screenshot, signIn } from '../helpers/browser';
+import { SUITE_PASSWORD, screenshot, signIn, useServerAndBrowser } from '../helpers/browser';
 
-const PASSWORD = 'browser-demo-password';
-let server: RunningServer;
-let browser: { context: BrowserContext; close: () => Promise<void> };
+const PASSWORD = SUITE_PASSWORD;
+const suite = useServerAndBrowser();
 
-beforeAll(async () => {
-  server = await startServer({ DEMO_PASSWORD: PASSWORD });
-  browser = await openBrowser();
-});
-
-afterAll(async () => {
-  await browser?.close();
-  await server?.stop();
-});
 
 describe('the farm registry in the browser', () => {
   it('a clerk adds a ranch, a field with a boundary and a planting, and finds them in the season view', async () => {
-    const page = await browser.context.newPage();
-    await signIn(page, server.url, 'clerk@crowntip.test', PASSWORD);
+    const page = await suite.browser.context.newPage();
+    await signIn(page, suite.server.url, 'clerk@crowntip.test', PASSWORD);
     await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Registry' }).click();
     await page.getByRole('link', { name: 'New ranch' }).click();
     await page.getByLabel('Name').fill('Larkspur Mesa');
@@ -61,10 +49,10 @@ describe('the farm registry in the browser', () => {
   });
 
   it('an auditor sees the same pages without edit controls', async () => {
-    await browser.context.clearCookies();
-    const page = await browser.context.newPage();
-    await signIn(page, server.url, 'auditor@crowntip.test', PASSWORD);
-    await page.goto(`${server.url}/registry/ranches`);
+    await suite.browser.context.clearCookies();
+    const page = await suite.browser.context.newPage();
+    await signIn(page, suite.server.url, 'auditor@crowntip.test', PASSWORD);
+    await page.goto(`${suite.server.url}/registry/ranches`);
     expect(await page.getByRole('link', { name: 'Larkspur Mesa' }).count()).toBe(1);
     expect(await page.getByRole('link', { name: 'New ranch' }).count()).toBe(0);
     await page.getByRole('link', { name: 'Larkspur Mesa' }).click();

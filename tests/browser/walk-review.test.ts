@@ -1,26 +1,14 @@
 import { randomUUID } from 'node:crypto';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { BrowserContext } from 'playwright-core';
-import { startServer, type RunningServer } from '../helpers/server';
-import { openBrowser, screenshot, signIn } from '../helpers/browser';
+import { describe, expect, it } from 'vitest';
+import { SUITE_PASSWORD, screenshot, signIn, useServerAndBrowser } from '../helpers/browser';
 import { DEMO_WALK_IDS } from '../../seeds/04_demo_walks';
 
-const PASSWORD = 'browser-demo-password';
-let server: RunningServer;
-let browser: { context: BrowserContext; close: () => Promise<void> };
+const PASSWORD = SUITE_PASSWORD;
+const suite = useServerAndBrowser();
 
 /** A real 1 × 1 PNG, the photo of one stop. */
 const TINY_PNG = Buffer.from('iVBORw0KGgoAAAANSUhEUgAAAAEAAAABCAIAAACQd1PeAAAADElEQVR4nGPwqtEDAAIIAPXOsRDEAAAAAElFTkSuQmCC', 'base64');
 
-beforeAll(async () => {
-  server = await startServer({ DEMO_PASSWORD: PASSWORD });
-  browser = await openBrowser();
-});
-
-afterAll(async () => {
-  await browser?.close();
-  await server?.stop();
-});
 
 /**
  * A second submitted walk with GPS at most stops, a photo and one odd plant, sent through the JSON
@@ -28,10 +16,10 @@ afterAll(async () => {
  * The lengths and positions are invented.
  */
 async function sendWalkWithEvidence(): Promise<string> {
-  const api = browser.context.request;
-  expect((await api.post(`${server.url}/api/session`, { data: { email: 'sampler@crowntip.test', password: PASSWORD } })).status()).toBe(200);
-  const csrf = (await (await api.get(`${server.url}/api/session`)).json()).csrfToken as string;
-  const today = (await (await api.get(`${server.url}/api/today`)).json()).items as {
+  const api = suite.browser.context.request;
+  expect((await api.post(`${suite.server.url}/api/session`, { data: { email: 'sampler@crowntip.test', password: PASSWORD } })).status()).toBe(200);
+  const csrf = (await (await api.get(`${suite.server.url}/api/session`)).json()).csrfToken as string;
+  const today = (await (await api.get(`${suite.server.url}/api/today`)).json()).items as {
     plantingId: string;
     crop: string;
     boundary: { type: 'Polygon'; coordinates: number[][][] } | { type: 'MultiPolygon'; coordinates: number[][][][] } | null;
@@ -49,20 +37,20 @@ async function sendWalkWithEvidence(): Promise<string> {
   }));
   const headers = { 'X-CSRF-Token': csrf };
   const walkedOn = new Date().toISOString().slice(0, 10);
-  expect((await api.post(`${server.url}/api/walks`, { headers, data: { id, plantingId: target.plantingId, walkedOn, stage: 'Z32', plants } })).status()).toBe(201);
-  const photo = await api.post(`${server.url}/api/walks/${id}/photos`, { headers, multipart: { stop: '8', photo: { name: 'stop-8.png', mimeType: 'image/png', buffer: TINY_PNG } } });
+  expect((await api.post(`${suite.server.url}/api/walks`, { headers, data: { id, plantingId: target.plantingId, walkedOn, stage: 'Z32', plants } })).status()).toBe(201);
+  const photo = await api.post(`${suite.server.url}/api/walks/${id}/photos`, { headers, multipart: { stop: '8', photo: { name: 'stop-8.png', mimeType: 'image/png', buffer: TINY_PNG } } });
   expect(photo.status()).toBe(201);
-  expect((await api.post(`${server.url}/api/walks/${id}/submit`, { headers })).status()).toBe(200);
-  await api.delete(`${server.url}/api/session`, { headers });
-  await browser.context.clearCookies();
+  expect((await api.post(`${suite.server.url}/api/walks/${id}/submit`, { headers })).status()).toBe(200);
+  await api.delete(`${suite.server.url}/api/session`, { headers });
+  await suite.browser.context.clearCookies();
   return id;
 }
 
 describe('walk review in the browser', () => {
   it('a clerk opens the queue, reads the demo submitted walk and approves it', async () => {
     const evidenceWalk = await sendWalkWithEvidence();
-    const page = await browser.context.newPage();
-    await signIn(page, server.url, 'clerk@crowntip.test', PASSWORD);
+    const page = await suite.browser.context.newPage();
+    await signIn(page, suite.server.url, 'clerk@crowntip.test', PASSWORD);
     await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Walks' }).click();
     await page.getByRole('heading', { name: 'Walks to review', level: 1 }).waitFor();
     expect(await page.locator('#walks tbody tr[data-walk]').count()).toBe(2);
@@ -93,7 +81,7 @@ describe('walk review in the browser', () => {
 
     page.once('dialog', (dialog) => void dialog.accept());
     await page.getByRole('button', { name: 'Approve' }).click();
-    await page.waitForURL(`${server.url}/walks`);
+    await page.waitForURL(`${suite.server.url}/walks`);
     await page.getByText(/Walk approved: .* It now counts in registers\./).waitFor();
     expect(await page.locator(`#walks tr[data-walk="${DEMO_WALK_IDS.submitted}"]`).count()).toBe(0);
     expect(await page.locator('#walks tbody tr[data-walk]').count()).toBe(1);
@@ -102,9 +90,9 @@ describe('walk review in the browser', () => {
   });
 
   it('an auditor opens the approved walk and sees no Approve or Reject buttons', async () => {
-    await browser.context.clearCookies();
-    const page = await browser.context.newPage();
-    await signIn(page, server.url, 'auditor@crowntip.test', PASSWORD);
+    await suite.browser.context.clearCookies();
+    const page = await suite.browser.context.newPage();
+    await signIn(page, suite.server.url, 'auditor@crowntip.test', PASSWORD);
     await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Walks' }).click();
     await page.getByRole('heading', { name: /Field walks: approved/, level: 1 }).waitFor();
     await page.locator(`#walks tr[data-walk="${DEMO_WALK_IDS.submitted}"]`).getByRole('link').click();

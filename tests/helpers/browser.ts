@@ -1,7 +1,9 @@
 import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
+import { afterAll, beforeAll } from 'vitest';
 import { chromium, type BrowserContext, type Page } from 'playwright-core';
+import { startServer, type RunningServer } from './server';
 
 export const SCREENSHOTS = path.resolve('tests/browser/screenshots');
 
@@ -57,4 +59,23 @@ export async function signIn(page: Page, baseUrl: string, email: string, passwor
   await page.getByLabel('Password').fill(password);
   await page.getByRole('button', { name: 'Sign in' }).click();
   await page.waitForLoadState('networkidle');
+}
+
+export const SUITE_PASSWORD = 'browser-demo-password';
+
+/**
+ * One real server and one Chromium for a test file: started before its tests, stopped after.
+ * Read `suite.server` and `suite.browser` inside tests (they are set once the suite has started).
+ */
+export function useServerAndBrowser(env: Record<string, string> = {}, options: Parameters<typeof openBrowser>[0] = {}) {
+  const suite = {} as { server: RunningServer; browser: Awaited<ReturnType<typeof openBrowser>> };
+  beforeAll(async () => {
+    suite.server = await startServer({ DEMO_PASSWORD: SUITE_PASSWORD, ...env });
+    suite.browser = await openBrowser(options);
+  });
+  afterAll(async () => {
+    await suite.browser?.close();
+    await suite.server?.stop();
+  });
+  return suite;
 }
