@@ -1,7 +1,8 @@
 import { createHash } from 'node:crypto';
 import type { Knex } from 'knex';
 import { acToHa, lbPerAcToKgPerHa } from '../shared/calc/units';
-import { boundaryAreaHa, type Boundary } from '../shared/registry/boundary';
+import type { Boundary } from '../shared/registry/boundary';
+import { boundaryAreaHa } from '../shared/registry/boundary-area';
 import { addDaysIso, seasonOfDate, seasonStartYear, seasonStarting, todayIso } from '../shared/registry/season';
 import { DEMO_ORGANISATIONS } from './demo-people';
 import { DEMO_RANCHES, type DemoField } from './demo-registry';

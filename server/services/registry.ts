@@ -1,6 +1,7 @@
 import type { Knex } from 'knex';
 import { HttpError } from '../http/errors';
-import { boundaryAreaHa, type Boundary } from '../../shared/registry/boundary';
+import type { Boundary } from '../../shared/registry/boundary';
+import { boundaryAreaHa } from '../../shared/registry/boundary-area';
 import { seasonOfDate, todayIso } from '../../shared/registry/season';
 import type { FieldInput, PlantingInput, RanchInput } from '../../shared/schemas/registry';
 import * as ranches from '../db/ranches';

@@ -1,4 +1,3 @@
-import { area } from '@turf/area';
 import { z } from 'zod';
 
 /**
@@ -43,15 +42,4 @@ export function boundaryFromGeoJson(input: unknown): { ok: true; boundary: Bound
   const parsed = boundarySchema.safeParse(geometry);
   if (!parsed.success) return { ok: false, problem: parsed.error.issues[0]?.message ?? 'Not a GeoJSON polygon.' };
   return { ok: true, boundary: parsed.data };
-}
-
-/** Geodesic area of the boundary in hectares (turf's spherical formula). */
-export function boundaryAreaHa(boundary: Boundary): number {
-  return area({ type: 'Feature', properties: {}, geometry: boundary }) / 10_000;
-}
-
-/** True when the entered area and the boundary's differ by more than `tolerance` (10 % by default). */
-export function areasDisagree(enteredHa: number, boundaryHa: number, tolerance = 0.1): boolean {
-  if (!(enteredHa > 0) || !(boundaryHa > 0)) return false;
-  return Math.abs(boundaryHa - enteredHa) / enteredHa > tolerance;
 }

@@ -3,8 +3,9 @@ import { CROPS } from '../calc/rules';
 import { boundarySchema } from '../registry/boundary';
 import { isSeason } from '../registry/season';
 
-/** A real calendar date written YYYY-MM-DD. */
-export const isoDate = z.iso.date({ message: 'Use a date written YYYY-MM-DD.' });
+import { isoDate } from './dates';
+
+export { isoDate };
 
 const text = (max: number) => z.string().trim().max(max, `Use at most ${max} characters.`);
 const optionalText = (max: number) =>

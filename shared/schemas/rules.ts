@@ -1,6 +1,6 @@
 import { z } from 'zod';
 import { CROPS } from '../calc/rules';
-import { isoDate } from './registry';
+import { isoDate } from './dates';
 
 const monthDay = z
   .string()

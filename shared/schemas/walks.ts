@@ -1,6 +1,6 @@
 import { z } from 'zod';
 import { boundarySchema } from '../registry/boundary';
-import { isoDate } from './registry';
+import { isoDate } from './dates';
 
 /**
  * Field walks on the wire (../shared/API.md, Field walks): what the capture app sends and what

@@ -5,7 +5,7 @@ import type { AppContext } from '../../app';
 import { requireRole, requireSignIn } from '../../auth/guards';
 import { HttpError } from '../../http/errors';
 import { parseForm } from '../../http/validate';
-import { areasDisagree } from '../../../shared/registry/boundary';
+import { areasDisagree } from '../../../shared/registry/boundary-area';
 import { boundaryOutline } from '../../../shared/registry/outline';
 import { seasonLabel, seasonOfDate, seasonStartYear, seasonStarting, todayIso } from '../../../shared/registry/season';
 import { fieldInputSchema, plantingInputSchema, ranchInputSchema } from '../../../shared/schemas/registry';
