@@ -408,7 +408,7 @@ export async function listAssignments(db: Knex, organisationId: string): Promise
   return rows.map(toAssignment);
 }
 
-/** The stored variety spelling that matches `variety` ignoring case, so "Merced" and "merced" are one. */
+/** The stored variety spelling that matches `variety` ignoring case, so "Ridgeline" and "ridgeline" are one. */
 async function storedVariety(db: Knex, organisationId: string, crop: string, variety: string | null): Promise<string> {
   const wanted = nullToBlank(variety);
   if (!wanted) return '';

@@ -131,7 +131,7 @@ export async function buildHandWorkedScenario(db: Knex) {
     i: await insertField(db, ranchId, 'I Walk After', 2),
   };
   const p = {
-    a: await insertPlanting(db, f.a, { crop: 'cereal_rye', variety: 'Merced', seededOn: '2024-10-15', terminatedOn: '2025-03-20' }),
+    a: await insertPlanting(db, f.a, { crop: 'cereal_rye', variety: 'Ridgeline', seededOn: '2024-10-15', terminatedOn: '2025-03-20' }),
     b: await insertPlanting(db, f.b, { crop: 'legume', variety: 'Purple vetch', seededOn: '2024-10-01', terminatedOn: '2025-03-31' }),
     c: await insertPlanting(db, f.c, { crop: 'triticale', seededOn: '2024-10-10', terminatedOn: '2025-04-15' }),
     d: await insertPlanting(db, f.d, { crop: 'barley', seededOn: '2024-09-01', terminatedOn: '2025-01-05' }),

@@ -319,25 +319,25 @@ describe('assignments', () => {
   it('assignedCalibrationFor: the variety’s own first (any case), else the crop’s; only published', async () => {
     const { agent, csrf } = await as('admin@crowntip.test');
     const draft = await agent.post(`/api/calibrations/${RYE}/drafts`).set('X-CSRF-Token', csrf);
-    await agent.post(`/api/calibrations/${draft.body.id}/publish`).set('X-CSRF-Token', csrf).send({ model: 'linear', label: 'For Merced' });
-    const set = await agent.put('/api/calibrations/assignments').set('X-CSRF-Token', csrf).send({ crop: 'cereal_rye', variety: ' Merced ', calibrationId: draft.body.id });
+    await agent.post(`/api/calibrations/${draft.body.id}/publish`).set('X-CSRF-Token', csrf).send({ model: 'linear', label: 'For Ridgeline' });
+    const set = await agent.put('/api/calibrations/assignments').set('X-CSRF-Token', csrf).send({ crop: 'cereal_rye', variety: ' Ridgeline ', calibrationId: draft.body.id });
     expect(set.status).toBe(200);
-    expect(set.body).toMatchObject({ crop: 'cereal_rye', variety: 'Merced', calibrationId: draft.body.id, version: 2, label: 'For Merced', assignedBy: 'Noor Halvane' });
+    expect(set.body).toMatchObject({ crop: 'cereal_rye', variety: 'Ridgeline', calibrationId: draft.body.id, version: 2, label: 'For Ridgeline', assignedBy: 'Noor Halvane' });
 
-    const merced = await assignedCalibrationFor(t.db, ORG1, 'cereal_rye', 'mERCED');
-    expect(merced).toMatchObject({ id: draft.body.id, version: 2, model: 'linear', assignedFor: { crop: 'cereal_rye', variety: 'Merced' } });
-    expect(predict(merced!.fit, 80)).toBeGreaterThan(0);
+    const ridgeline = await assignedCalibrationFor(t.db, ORG1, 'cereal_rye', 'rIDGELINE');
+    expect(ridgeline).toMatchObject({ id: draft.body.id, version: 2, model: 'linear', assignedFor: { crop: 'cereal_rye', variety: 'Ridgeline' } });
+    expect(predict(ridgeline!.fit, 80)).toBeGreaterThan(0);
     expect(await assignedCalibrationFor(t.db, ORG1, 'cereal_rye', 'Wheeler')).toMatchObject({ id: RYE, version: 1, assignedFor: { variety: null } });
     expect(await assignedCalibrationFor(t.db, ORG1, 'cereal_rye')).toMatchObject({ id: RYE });
     expect(await assignedCalibrationFor(t.db, ORG1, 'oats')).toBeUndefined();
-    expect(await assignedCalibrationFor(t.db, DEMO_ORGANISATIONS[1].id, 'cereal_rye', 'Merced')).toMatchObject({ id: OTHER_ORG_RYE });
+    expect(await assignedCalibrationFor(t.db, DEMO_ORGANISATIONS[1].id, 'cereal_rye', 'Ridgeline')).toMatchObject({ id: OTHER_ORG_RYE });
 
     // Setting the same variety again (other spelling) replaces it rather than adding one.
-    await agent.put('/api/calibrations/assignments').set('X-CSRF-Token', csrf).send({ crop: 'cereal_rye', variety: 'MERCED', calibrationId: RYE });
+    await agent.put('/api/calibrations/assignments').set('X-CSRF-Token', csrf).send({ crop: 'cereal_rye', variety: 'RIDGELINE', calibrationId: RYE });
     const all = await agent.get('/api/calibrations/assignments');
     expect(all.body.total).toBe(3);
-    expect((await assignedCalibrationFor(t.db, ORG1, 'cereal_rye', 'Merced'))!.id).toBe(RYE);
-    expect((await agent.delete('/api/calibrations/assignments?crop=cereal_rye&variety=merced').set('X-CSRF-Token', csrf)).status).toBe(204);
+    expect((await assignedCalibrationFor(t.db, ORG1, 'cereal_rye', 'Ridgeline'))!.id).toBe(RYE);
+    expect((await agent.delete('/api/calibrations/assignments?crop=cereal_rye&variety=ridgeline').set('X-CSRF-Token', csrf)).status).toBe(204);
     expect((await agent.get('/api/calibrations/assignments')).body.total).toBe(2);
   });
 });

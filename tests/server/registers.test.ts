@@ -17,7 +17,7 @@ import { computeRegister, diffRegisters, finaliseRegister, organisationSummary, 
  * Exact factors: 1 ac = 0.40468564224 ha; 1 lb = 0.45359237 kg. Credit = 50 lb N/ac × acres.
  * Days in window count seeding day .. the day before termination (shared/calc/dates.ts).
  *
- * A North, 10 ac cereal rye "Merced", seeded 2024-10-15, terminated 2025-03-20.
+ * A North, 10 ac cereal rye "Ridgeline", seeded 2024-10-15, terminated 2025-03-20.
  *   window days: Oct 15–31 17 + Nov 30 + Dec 31 + Jan 31 + Feb 28 + Mar 1–19 19 = 156 ≥ 90
  *   approved walks 02-01 (47 days before: too early) and 03-05 (15 days: used, 6,000 kg/ha ≥ 5,043.83);
  *   a submitted walk (03-15) and a rejected one (03-16) do not count.
@@ -404,7 +404,7 @@ describe('office pages', () => {
     const draft = await clerk.get(`/registers/${s.ranchId}/${YEAR}`);
     expect(draft.text).toContain('Finalise register');
     expect(draft.text).toContain('The sample was taken 45 days before termination');
-    expect(draft.text).toContain('Merced');
+    expect(draft.text).toContain('Ridgeline');
     expect(draft.text).toContain('1,125.0 lb N');
     const token = csrfFromHtml(draft.text);
     const unconfirmed = await clerk.post(`/registers/${s.ranchId}/${YEAR}`).type('form').send({ _csrf: token });
