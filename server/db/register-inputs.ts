@@ -1,5 +1,5 @@
 import type { Knex } from 'knex';
-import type { WalkEstimate } from '../../shared/schemas/walks';
+import type { WalkEstimate, WalkStatus } from '../../shared/schemas/walks';
 import { inOrganisation } from './scope';
 
 /*
@@ -8,7 +8,7 @@ import { inOrganisation } from './scope';
  * inOrganisation, so another organisation's rows are never reached.
  */
 
-export interface RegisterFieldInput {
+export interface FieldWithPlanting {
   ranchId: string;
   ranchName: string;
   fieldId: string;
@@ -30,8 +30,8 @@ export interface ApprovedWalkInput {
   estimate: WalkEstimate | null;
 }
 
-/** Every field of the organisation (or of the given ranches) with its planting of `season`. */
-export async function registerFields(db: Knex, organisationId: string, opts: { season: string; ranchIds?: string[] }): Promise<RegisterFieldInput[]> {
+/** Every field of the organisation (or of the given ranches) with its planting of `season`; used by registers and the season view. */
+export async function fieldsWithPlanting(db: Knex, organisationId: string, opts: { season: string; ranchIds?: string[] }): Promise<FieldWithPlanting[]> {
   const q = inOrganisation(db, 'fields', organisationId)
     .join('ranches', 'ranches.id', 'fields.ranch_id')
     .leftJoin('plantings', (j) => j.on('plantings.field_id', 'fields.id').andOn('plantings.season', db.raw('?', [opts.season])))
@@ -115,4 +115,18 @@ export async function registerRanches(db: Knex, organisationId: string, ranchIds
     county: r.county ?? null,
     contactEmails: r.contact_emails ? r.contact_emails.split(',').map((s) => s.trim()).filter(Boolean) : [],
   }));
+}
+
+/** The status of each planting's latest walk (by walk date, then creation), for the season view. */
+export async function latestWalkStatuses(db: Knex, organisationId: string, plantingIds: string[]): Promise<Map<string, WalkStatus>> {
+  const out = new Map<string, WalkStatus>();
+  for (let i = 0; i < plantingIds.length; i += ID_CHUNK) {
+    const rows: { planting_id: string; status: WalkStatus }[] = await inOrganisation(db, 'field_walks', organisationId)
+      .whereIn('planting_id', plantingIds.slice(i, i + ID_CHUNK))
+      .orderBy('walked_on', 'asc')
+      .orderBy('created_at', 'asc')
+      .select('planting_id', 'status');
+    for (const r of rows) out.set(r.planting_id, r.status); // ascending: the last one written wins
+  }
+  return out;
 }

@@ -4,7 +4,7 @@ import type { Logger } from 'pino';
 import { HttpError } from '../http/errors';
 import type { Units } from '../db/users';
 import { inOrganisation } from '../db/scope';
-import { approvedWalksFor, registerFields, registerRanches } from '../db/register-inputs';
+import { approvedWalksFor, fieldsWithPlanting, registerRanches } from '../db/register-inputs';
 import { getRegister, latestRegistersOfYear } from '../db/registers';
 import { creditRuleForYear } from './credit-rule';
 import { asDraft, asFinal, registerUnits, type RegisterDoc } from './register-format';
@@ -117,7 +117,7 @@ export function createRegisterJobs(opts: RegisterJobsOptions) {
         job.fieldsComputed += doc.rows.length;
         continue;
       }
-      const fields = await registerFields(db, orgId, { season, ranchIds: [ranch.id] });
+      const fields = await fieldsWithPlanting(db, orgId, { season, ranchIds: [ranch.id] });
       const walks = walksByPlanting(await approvedWalksFor(db, orgId, fields.flatMap((f) => (f.plantingId ? [f.plantingId] : []))));
       const rows: RegisterRow[] = [];
       for (let i = 0; i < fields.length; i += chunk) {

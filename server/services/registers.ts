@@ -7,10 +7,10 @@ import { seasonStarting } from '../../shared/registry/season';
 import { HttpError } from '../http/errors';
 import {
   approvedWalksFor,
-  registerFields,
+  fieldsWithPlanting,
   registerRanches,
   type ApprovedWalkInput,
-  type RegisterFieldInput,
+  type FieldWithPlanting,
   type RegisterRanchInput,
 } from '../db/register-inputs';
 import {
@@ -191,7 +191,7 @@ export function chooseWalk(walks: ApprovedWalkInput[], seededOn: string, endOn: 
 }
 
 /** One field's row: its planting (if any) judged by the core's creditEligibility under the rule. */
-export function registerRow(field: RegisterFieldInput, walks: ApprovedWalkInput[], rule: RegisterRule, projectionDate: string, season: string): RegisterRow {
+export function registerRow(field: FieldWithPlanting, walks: ApprovedWalkInput[], rule: RegisterRule, projectionDate: string, season: string): RegisterRow {
   const base = {
     fieldId: field.fieldId,
     fieldName: field.fieldName,
@@ -322,7 +322,7 @@ export async function computeRegisters(db: Knex, organisationId: string, year: n
   const [ranches, rule, fields] = await Promise.all([
     registerRanches(db, organisationId, ranchIds),
     creditRuleForYear(db, organisationId, year).then(ruleOfRegister),
-    registerFields(db, organisationId, { season, ranchIds }),
+    fieldsWithPlanting(db, organisationId, { season, ranchIds }),
   ]);
   const walks = walksByPlanting(await approvedWalksFor(db, organisationId, fields.flatMap((f) => (f.plantingId ? [f.plantingId] : []))));
   const projectionDate = projectionDateOf(year, today);
