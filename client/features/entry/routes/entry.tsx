@@ -1,15 +1,14 @@
 import '../../../locales/screens';
 import { useEffect, useMemo, useRef, useState } from 'react';
-import { Link, Navigate, useNavigate, useParams } from 'react-router-dom';
+import { Link, useNavigate, useParams } from 'react-router-dom';
 import { useTranslation } from 'react-i18next';
 import { MAX_LENGTH_CM, MAX_PLANTS } from '../../../../shared/schemas/walks';
 import { useFormat } from '../../session/api';
-import { useQueueJobs } from '../../offline';
 import { usePosition } from '../../walk/use-position';
 import { EstimatePanel } from '../../estimate/components/estimate-panel';
 import type { WalkDraft } from '../drafts';
 import { acceptedLengthsCm, stopStates } from '../draft-review';
-import { useDraft } from '../use-draft';
+import { WithDraft, type UpdateDraft } from '../components/with-draft';
 import { useLiveEstimate } from '../use-live-estimate';
 import { fromCm, QUESTION_ABOVE_CM, type LengthCheck } from '../validation';
 import { PhotoButton } from '../components/photo-button';
@@ -17,25 +16,10 @@ import { PhotoButton } from '../components/photo-button';
 /** One stop at a time: a big number, a big Next, the live estimate underneath. */
 export default function EntryRoute() {
   const { walkId = '' } = useParams();
-  const { t } = useTranslation();
-  const { draft, update, loading } = useDraft(walkId);
-  const sent = useQueueJobs().some((j) => j.id === walkId);
-  if (loading) return <p className="text-lg">{t('app.loading')}</p>;
-  if (!draft) {
-    if (sent) return <Navigate to={`/walks/${walkId}/sent`} replace />;
-    return (
-      <div>
-        <p className="text-xl font-bold">{t('entry.notFound')}</p>
-        <Link to="/" className="mt-3 inline-flex min-h-touch items-center text-lg font-bold text-shoot underline">
-          {t('errors.backToToday')}
-        </Link>
-      </div>
-    );
-  }
-  return <Entry draft={draft} update={update} />;
+  return <WithDraft walkId={walkId}>{(draft, update) => <Entry draft={draft} update={update} />}</WithDraft>;
 }
 
-function Entry({ draft, update }: { draft: WalkDraft; update: (c: (d: WalkDraft) => WalkDraft) => void }) {
+function Entry({ draft, update }: { draft: WalkDraft; update: UpdateDraft }) {
   const { t } = useTranslation();
   const f = useFormat();
   const navigate = useNavigate();

@@ -1,41 +1,25 @@
 import '../../../locales/screens';
 import { useMemo, useState } from 'react';
-import { Link, Navigate, useNavigate, useParams } from 'react-router-dom';
+import { Link, useNavigate, useParams } from 'react-router-dom';
 import { useTranslation } from 'react-i18next';
 import { USUAL_SAMPLE_SIZE } from '../../../../shared/calc/estimate';
 import { useFormat } from '../../session/api';
-import { loadOutbox, useQueueJobs } from '../../offline';
+import { loadOutbox } from '../../offline';
 import { newJob } from '../../offline/queue';
 import { EstimatePanel } from '../../estimate/components/estimate-panel';
 import { removeDraft, type WalkDraft } from '../drafts';
 import { acceptedLengthsCm, reviewDraft, stopStates } from '../draft-review';
-import { useDraft } from '../use-draft';
+import { WithDraft, type UpdateDraft } from '../components/with-draft';
 import { useLiveEstimate } from '../use-live-estimate';
 import { STAGES } from '../stages';
 
 /** Check and send: the estimate, every plant, stage and notes, then into the outbox. */
 export default function FinishRoute() {
   const { walkId = '' } = useParams();
-  const { t } = useTranslation();
-  const { draft, update, loading } = useDraft(walkId);
-  const sent = useQueueJobs().some((j) => j.id === walkId);
-  if (loading) return <p className="text-lg">{t('app.loading')}</p>;
-  if (!draft) {
-    // Back from the sent screen: the walk is in the outbox now.
-    if (sent) return <Navigate to={`/walks/${walkId}/sent`} replace />;
-    return (
-      <div>
-        <p className="text-xl font-bold">{t('entry.notFound')}</p>
-        <Link to="/" className="mt-3 inline-flex min-h-touch items-center text-lg font-bold text-shoot underline">
-          {t('errors.backToToday')}
-        </Link>
-      </div>
-    );
-  }
-  return <Finish draft={draft} update={update} />;
+  return <WithDraft walkId={walkId}>{(draft, update) => <Finish draft={draft} update={update} />}</WithDraft>;
 }
 
-function Finish({ draft, update }: { draft: WalkDraft; update: (c: (d: WalkDraft) => WalkDraft) => void }) {
+function Finish({ draft, update }: { draft: WalkDraft; update: UpdateDraft }) {
   const { t } = useTranslation();
   const f = useFormat();
   const navigate = useNavigate();
