@@ -17,5 +17,9 @@ export async function up(knex: Knex): Promise<void> {
 }
 
 export async function down(knex: Knex): Promise<void> {
-  await knex('crops').whereIn('code', CROPS.map((c) => c.code)).del();
+  // Crops still named by plantings stay; the registry's own rollback drops both tables after this.
+  await knex('crops')
+    .whereIn('code', CROPS.map((c) => c.code))
+    .whereNotIn('code', knex('plantings').select('crop'))
+    .del();
 }
