@@ -107,8 +107,11 @@ export function createApp(deps: AppDeps): Express {
     res.json({ ok: true });
   });
 
-  app.use(express.json({ limit: '1mb' }));
-  app.use(express.urlencoded({ extended: false, limit: '1mb' }));
+  // Reads carry no body: skip the parsers' content-type checks for them.
+  const json = express.json({ limit: '1mb' });
+  const form = express.urlencoded({ extended: false, limit: '1mb' });
+  app.use((req, res, next) => (req.method === 'GET' || req.method === 'HEAD' ? next() : json(req, res, next)));
+  app.use((req, res, next) => (req.method === 'GET' || req.method === 'HEAD' ? next() : form(req, res, next)));
 
   const passport = configurePassport(db, deps.fastReads);
   app.use(
