@@ -1,24 +1,25 @@
 /**
  * Signed-in read speed against bare Express, on this machine, over loopback only.
  * Goal (../shared/STACK.md, 14): a signed-in JSON read at 40 % or more of a bare Express route.
- * Each run is bounded in time and connections and stops by itself.
+ * Each server runs in its own process (bench/http-target.ts) and the load comes from this one;
+ * every run is bounded in time and connections and stops by itself.
  */
-import fs from 'node:fs';
-import os from 'node:os';
-import path from 'node:path';
-import type { AddressInfo } from 'node:net';
-import express from 'express';
+import { spawn } from 'node:child_process';
+import { createInterface } from 'node:readline';
 import autocannon from 'autocannon';
-import request from 'supertest';
-import { pino } from 'pino';
-import { loadConfig } from '../server/config';
-import { createApp } from '../server/app';
-import { migrateLatest, openDatabase } from '../server/db/knex';
-import { openFastReads } from '../server/db/fast-reads';
-import { seedDemoScenario } from '../seeds/01_demo_scenario';
 
 const SECONDS = Number(process.env.BENCH_HTTP_SECONDS ?? 6);
 const CONNECTIONS = 50;
+
+async function startTarget(mode: 'bare' | 'crowntip') {
+  const child = spawn(process.execPath, ['--import', 'tsx', 'bench/http-target.ts', mode], { stdio: ['ignore', 'pipe', 'inherit'] });
+  const line = await new Promise<string>((resolve, reject) => {
+    createInterface({ input: child.stdout! }).once('line', resolve);
+    child.once('exit', (code) => reject(new Error(`bench target ${mode} exited with ${code}`)));
+  });
+  const { url, cookie } = JSON.parse(line) as { url: string; cookie: string };
+  return { url, cookie, stop: () => child.kill('SIGTERM') };
+}
 
 async function measure(url: string, headers: Record<string, string> = {}): Promise<number> {
   const result = await autocannon({ url, connections: CONNECTIONS, duration: SECONDS, headers });
@@ -26,43 +27,22 @@ async function measure(url: string, headers: Record<string, string> = {}): Promi
   return result.requests.average;
 }
 
-function listen(app: express.Express): Promise<{ url: string; close: () => void }> {
-  return new Promise((resolve) => {
-    const server = app.listen(0, '127.0.0.1', () => {
-      const { port } = server.address() as AddressInfo;
-      resolve({ url: `http://127.0.0.1:${port}`, close: () => server.close() });
-    });
-  });
-}
-
 export async function runHttpBench() {
-  const bare = express();
-  bare.get('/ping', (_req, res) => {
-    res.json({ ok: true });
-  });
-  const bareServer = await listen(bare);
+  const bare = await startTarget('bare');
+  const bareRps = await measure(`${bare.url}/ping`);
+  bare.stop();
 
-  const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'crowntip-bench-'));
-  const db = openDatabase(path.join(dir, 'bench.sqlite'));
-  await migrateLatest(db);
-  await seedDemoScenario(db, { password: 'bench-password-1', bcryptRounds: 4 });
-  const config = loadConfig({ NODE_ENV: 'production', LOG_LEVEL: 'warn' }, { BCRYPT_ROUNDS: 4 });
-  const app = createApp({ config, db, logger: pino({ level: 'warn' }), fastReads: openFastReads(path.join(dir, 'bench.sqlite')), sessionSecret: 'bench-secret-bench-secret-bench' });
-  const crowntip = await listen(app);
+  const app = await startTarget('crowntip');
+  const headers = { cookie: app.cookie };
+  const sessionRps = await measure(`${app.url}/api/session`, headers);
+  const cropsRps = await measure(`${app.url}/api/crops`, headers);
+  const ranchesRps = await measure(`${app.url}/api/ranches?limit=10`, headers);
+  app.stop();
 
-  const signIn = await request(crowntip.url).post('/api/session').send({ email: 'clerk@crowntip.test', password: 'bench-password-1' });
-  const cookie = String(signIn.headers['set-cookie']?.[0] ?? '').split(';')[0];
-
-  const bareRps = await measure(`${bareServer.url}/ping`);
-  const sessionRps = await measure(`${crowntip.url}/api/session`, { cookie });
-  const ranchesRps = await measure(`${crowntip.url}/api/ranches?limit=10`, { cookie });
-  bareServer.close();
-  crowntip.close();
-  await db.destroy();
-  fs.rmSync(dir, { recursive: true, force: true });
-
-  console.log(`\nSigned-in reads vs bare Express (${CONNECTIONS} connections, ${SECONDS} s each, loopback)`);
+  const pct = (rps: number) => `${((100 * rps) / bareRps).toFixed(0)} % of bare`;
+  console.log(`\nSigned-in reads vs bare Express (${CONNECTIONS} connections, ${SECONDS} s each, loopback, server in its own process)`);
   console.log(`  bare Express JSON route        ${bareRps.toFixed(0).padStart(6)} req/s`);
-  console.log(`  GET /api/session (signed in)    ${sessionRps.toFixed(0).padStart(6)} req/s  ${((100 * sessionRps) / bareRps).toFixed(0)} % of bare (goal ≥ 40 %)`);
-  console.log(`  GET /api/ranches?limit=10       ${ranchesRps.toFixed(0).padStart(6)} req/s  ${((100 * ranchesRps) / bareRps).toFixed(0)} % of bare`);
+  console.log(`  GET /api/session (signed in)   ${sessionRps.toFixed(0).padStart(6)} req/s  ${pct(sessionRps)} (goal ≥ 40 %)`);
+  console.log(`  GET /api/crops (signed in)     ${cropsRps.toFixed(0).padStart(6)} req/s  ${pct(cropsRps)}`);
+  console.log(`  GET /api/ranches?limit=10      ${ranchesRps.toFixed(0).padStart(6)} req/s  ${pct(ranchesRps)}`);
 }
