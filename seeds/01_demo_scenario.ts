@@ -5,10 +5,13 @@ import { seedDemoRegistry } from './02_demo_registry';
 import { seedDemoCalibrations } from './03_demo_calibrations';
 import { seedDemoRules } from './05_demo_rules';
 import { seedDemoWalks } from './04_demo_walks';
+import { seedDemoHistory } from './06_demo_history';
 
 export interface SeedOptions {
   password: string;
   bcryptRounds: number;
+  /** Also last season's approved walks (for `npm start`; tests build their own scenarios). */
+  history?: boolean;
 }
 
 /**
@@ -46,4 +49,5 @@ export async function seedDemoScenario(db: Knex, opts: SeedOptions): Promise<voi
   await seedDemoRules(db);
   await seedDemoCalibrations(db);
   await seedDemoWalks(db);
+  if (opts.history) await seedDemoHistory(db);
 }

@@ -35,7 +35,7 @@ async function main() {
 
   let seeded = false;
   if (config.SEED_DEMO && (await countOrganisations(db)) === 0) {
-    await seedDemoScenario(db, { password: config.DEMO_PASSWORD, bcryptRounds: config.BCRYPT_ROUNDS });
+    await seedDemoScenario(db, { password: config.DEMO_PASSWORD, bcryptRounds: config.BCRYPT_ROUNDS, history: config.SEED_DEMO_HISTORY });
     seeded = true;
   }
 

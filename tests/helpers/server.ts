@@ -40,6 +40,9 @@ export async function startServer(env: Record<string, string> = {}): Promise<Run
       UPLOADS_DIR: path.join(dataDir, 'uploads'),
       PUBLIC_URL: `http://127.0.0.1:${port}`,
       BCRYPT_ROUNDS: '4',
+      // Browser tests build their own walks; the demo's past walks would only get in their way.
+      SEED_DEMO_HISTORY: 'false',
+      DAILY_JOBS: 'false',
       LOG_LEVEL: 'warn',
       ...env,
     },
