@@ -6,7 +6,7 @@ import type { Role } from '../auth/roles';
 import { HttpError } from '../http/errors';
 import { sniffImageType } from '../http/image-type';
 import { daysBetween } from '../../shared/calc/dates';
-import { seasonOfDate, todayIso } from '../../shared/registry/season';
+import { addDaysIso, seasonOfDate, todayIso } from '../../shared/registry/season';
 import type { TodayItem, Walk, WalkCreate, WalkStatus } from '../../shared/schemas/walks';
 import { assignedCalibrationFor } from '../db/calibrations';
 import { getPlanting } from '../db/plantings';
@@ -104,6 +104,8 @@ export async function createWalk(db: Knex, actor: WalkActor, input: WalkCreate):
 
   const planting = await getPlanting(db, actor.organisationId, input.plantingId);
   if (!planting) throw invalid('plantingId', 'That planting was not found.');
+  // A phone's date may run a day ahead of the server's UTC date, never more.
+  if (input.walkedOn > addDaysIso(todayIso(), 1)) throw invalid('walkedOn', 'The walk date is in the future.');
   const before = await walks.findWalkRecord(db, actor.organisationId, input.id);
   if (before) return existing(before);
 

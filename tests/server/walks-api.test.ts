@@ -6,7 +6,7 @@ import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import request from 'supertest';
 import { createTestApp, signInApi, signInPages, type TestApp } from '../helpers/app';
 import { estimateBiomass, fitCalibration, type Fit } from '../../shared/calc';
-import { seasonOfDate, todayIso } from '../../shared/registry/season';
+import { addDaysIso, seasonOfDate, todayIso } from '../../shared/registry/season';
 import { walkEstimateSchema, walkPhotoSchema, walkSchema, type Walk } from '../../shared/schemas/walks';
 import { insertCalibration, insertDataset, markPublished, setAssignment } from '../../server/db/calibrations';
 import { duePlantings } from '../../server/db/walks';
@@ -163,6 +163,8 @@ describe('POST /api/walks', () => {
     expectInvalid(await post(sampler, '/api/walks', walkBody(planting.plantingId, { plants: [] })), 'plants');
     expectInvalid(await post(sampler, '/api/walks', walkBody(planting.plantingId, { plants: [{ stop: 1, lengthCm: 400 }] })), 'plants.0.lengthCm');
     expectInvalid(await post(sampler, '/api/walks', walkBody(planting.plantingId, { walkedOn: '2026-02-30' })), 'walkedOn');
+    // A phone may be a day ahead of the server's UTC date; two days ahead is refused.
+    expectInvalid(await post(sampler, '/api/walks', walkBody(planting.plantingId, { walkedOn: addDaysIso(todayIso(), 2) })), 'walkedOn');
     expectInvalid(
       await post(sampler, '/api/walks', walkBody(planting.plantingId, { plants: [{ stop: 1, lengthCm: 50 }, { stop: 1, lengthCm: 60 }] })),
       'plants',
