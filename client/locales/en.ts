@@ -1,3 +1,5 @@
+import { CROP_LABELS } from '../../shared/registry/crops';
+
 /**
  * English text of the capture app's first screen and of what every screen shows (header, outbox,
  * errors); the later screens' text is in screens-en.ts. Every key must also be in es.ts, and
@@ -92,16 +94,8 @@ export const en = {
     open: 'Open the walk plan for {{field}}',
     sent: 'Recently sent',
   },
-  crops: {
-    cereal_rye: 'Cereal rye',
-    triticale: 'Triticale',
-    barley: 'Barley',
-    oats: 'Oats',
-    wheat: 'Wheat',
-    legume: 'Legume',
-    mix: 'Mix',
-    other: 'Other',
-  },
+  // The office's English crop names, so both sides name crops alike.
+  crops: { ...CROP_LABELS },
   errors: {
     title: 'Something went wrong',
     retry: 'Try again',
