@@ -127,11 +127,13 @@ export interface WalkListQuery {
   samplerId?: string;
   /** Only what this sampler may see (their own walks and those of plantings assigned to them). */
   visibleTo?: string;
+  /** Oldest first, as a review queue is worked through; newest first otherwise. */
+  oldestFirst?: boolean;
   limit: number;
   offset: number;
 }
 
-/** Newest walk first. */
+/** Newest walk first, unless `oldestFirst`. */
 export async function listWalks(db: Knex, organisationId: string, query: WalkListQuery): Promise<{ items: Walk[]; total: number }> {
   const filter = (q: Knex.QueryBuilder) => {
     if (query.status) q.where('field_walks.status', query.status);
@@ -149,8 +151,8 @@ export async function listWalks(db: Knex, organisationId: string, query: WalkLis
   };
   const count = await filter(inOrganisation(db, 'field_walks', organisationId)).count({ n: '*' }).first();
   const rows = await filter(walkQuery(db, organisationId))
-    .orderBy('field_walks.walked_on', 'desc')
-    .orderBy('field_walks.created_at', 'desc')
+    .orderBy('field_walks.walked_on', query.oldestFirst ? 'asc' : 'desc')
+    .orderBy('field_walks.created_at', query.oldestFirst ? 'asc' : 'desc')
     .orderBy('field_walks.id')
     .limit(query.limit)
     .offset(query.offset);

@@ -137,6 +137,14 @@ describe('the queue', () => {
     expect(listed(auditor.text)).toEqual([APPROVED]);
   });
 
+  it('lists the review queue oldest first and every other tab newest first', async () => {
+    // The demo's submitted walk was walked two days ago; this one today.
+    const fresh = await postWalk((await duePlanting('cereal_rye')).plantingId, ORDINARY);
+    const clerk = await pages('clerk@crowntip.test');
+    expect(listed((await clerk.get('/walks?status=submitted')).text)).toEqual([SUBMITTED, fresh]);
+    expect(listed((await clerk.get('/walks?status=all')).text).slice(0, 2)).toEqual([fresh, SUBMITTED]);
+  });
+
   it('filters by status, ranch and sampler', async () => {
     const agent = await pages('clerk@crowntip.test');
     expect(listed((await agent.get('/walks?status=approved')).text)).toEqual([APPROVED]);

@@ -116,6 +116,8 @@ export function walkReviewPages(ctx: AppContext): Router {
     status: tab === 'all' ? undefined : (tab as WalkStatus),
     ranchId: q.ranchId || undefined,
     samplerId: q.samplerId || undefined,
+    // The walks waiting for review come oldest first: the longest-waiting is handled first.
+    oldestFirst: tab === 'submitted',
   });
 
   async function queueView(req: Request, res: Response, q: ListQuery, tab: Tab) {
