@@ -26,7 +26,7 @@ import { accountPages } from './routes/office/account';
 import { captureApp } from './routes/capture';
 import { rulesPages } from './routes/office/rules';
 import { rulesAdminApi } from './routes/api/rules-admin';
-import { registryImportPages } from './routes/office/registry-import';
+import { IMPORT_UPLOAD_PATHS, importUploadBeforeCsrf, registryImportPages } from './routes/office/registry-import';
 import { FIELD_FORM_PATHS, boundaryUpload, registryPages } from './routes/office/registry';
 import { seasonPages } from './routes/office/season';
 import { historyPages } from './routes/office/history';
@@ -153,6 +153,7 @@ export function createApp(deps: AppDeps): Express {
   // Multipart field forms are parsed before the CSRF check so that it can read their token.
   app.post(FIELD_FORM_PATHS, boundaryUpload);
   app.post(CALIBRATION_UPLOAD_PATHS, calibrationUpload);
+  app.post(IMPORT_UPLOAD_PATHS, importUploadBeforeCsrf);
   app.use(csrfProtection());
   app.use((req, res, next) => {
     if (!isApiRequest(req)) res.locals.csrfToken = req.csrfToken ? req.csrfToken() : '';

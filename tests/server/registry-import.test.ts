@@ -342,6 +342,21 @@ describe('registry import: guards', () => {
     }
   });
 
+  it('takes a plain form upload without JavaScript: the token in the form, then the preview page', async () => {
+    const agent = await signInPages(t.app, 'clerk@crowntip.test');
+    const csrf = await importPage(agent);
+    const res = await agent.post('/registry/import/preview').field('_csrf', csrf).attach('file', fixture('good.csv'), { filename: 'good.csv', contentType: 'text/csv' });
+    expect(res.status).toBe(303);
+    const preview = await agent.get(res.headers.location);
+    expect(preview.status).toBe(200);
+    expect(preview.text).toContain('action="/registry/import/commit"');
+    // A sampler's upload is parsed but still refused by the role check.
+    const sampler = await signInPages(t.app, 'sampler@crowntip.test');
+    const samplerPage = await sampler.get('/registry/season');
+    const refused = await sampler.post('/registry/import/preview').field('_csrf', csrfFromHtml(samplerPage.text)).attach('file', fixture('good.csv'), { filename: 'good.csv', contentType: 'text/csv' });
+    expect(refused.status).toBe(403);
+  });
+
   it('refuses an upload without the CSRF token (403 csrf) and answers 400 without a file', async () => {
     const agent = await signInPages(t.app, 'clerk@crowntip.test');
     const noToken = await agent.post('/registry/import/preview').attach('file', fixture('good.csv'), 'good.csv');

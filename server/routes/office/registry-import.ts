@@ -1,4 +1,4 @@
-import { Router, type NextFunction, type Request, type Response } from 'express';
+import { Router, type NextFunction, type Request, type RequestHandler, type Response } from 'express';
 import multer from 'multer';
 import { z } from 'zod';
 import type { AppContext } from '../../app';
@@ -106,9 +106,10 @@ export function registryImportPages(ctx: AppContext): Router {
     res.send(toCsv(EXAMPLE_ROWS, EXAMPLE_HEADER));
   }
 
-  /** Runs multer and turns its errors (size, type) into the page's or the script's answer. */
+  /** Runs multer (unless app.ts already did) and turns its errors (size, type) into the page's or the script's answer. */
   function receiveUpload(req: Request, res: Response, next: NextFunction) {
-    upload(req, res, (err?: unknown) => {
+    const parsed = res.locals.importUpload as { err?: unknown } | undefined;
+    const after = (err?: unknown) => {
       if (!err) return next();
       if (err instanceof HttpError) return uploadFailed(req, res, err);
       const tooLarge = (err as { code?: string }).code === 'LIMIT_FILE_SIZE';
@@ -119,7 +120,9 @@ export function registryImportPages(ctx: AppContext): Router {
           ? new HttpError('too_large', `The file is larger than ${MAX_UPLOAD_BYTES / 1024 / 1024} MB. Split it into smaller files.`)
           : new HttpError('invalid', 'The upload could not be read. Choose the file and send it again.'),
       );
-    });
+    };
+    if (parsed) after(parsed.err);
+    else upload(req, res, after);
   }
 
   async function storeUpload(req: Request, res: Response) {
@@ -255,6 +258,20 @@ export function registryImportPages(ctx: AppContext): Router {
     res.send(toCsv(rows, ['row', 'column', 'value', 'problem', 'severity']));
   }
 }
+
+/**
+ * A plain HTML form (no script) carries its CSRF token in the multipart body, which lusca can only
+ * read once parsed: app.ts runs this for the upload path before the CSRF check (as for the other
+ * upload forms), for signed-in users only. The route then uses what it parsed.
+ */
+export const IMPORT_UPLOAD_PATHS = ['/registry/import/preview'];
+export const importUploadBeforeCsrf: RequestHandler = (req, res, next) => {
+  if (!req.user || !req.is('multipart/form-data')) return next();
+  upload(req, res, (err?: unknown) => {
+    res.locals.importUpload = { err };
+    next();
+  });
+};
 
 // The upload: memory storage (at most 5 MB), one file named "file", .csv or text only.
 const upload = multer({
