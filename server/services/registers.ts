@@ -61,16 +61,8 @@ export interface RegisterWalk {
   extrapolated: boolean;
 }
 
-export interface RegisterRow {
-  fieldId: string;
-  fieldName: string;
-  areaHa: number;
-  plantingId: string | null;
-  crop: string | null;
-  variety: string | null;
-  seededOn: string | null;
-  terminatedOn: string | null;
-  plannedTerminationOn: string | null;
+/** A field and its planting as the register reads them (the ranch is the register's own). */
+export interface RegisterRow extends Omit<FieldWithPlanting, 'ranchId' | 'ranchName'> {
   /** True when the planting has no termination date: counted up to the projection date. */
   projected: boolean;
   /** The day growth was counted up to (termination, or the projection date). */

@@ -19,6 +19,18 @@ async function postForm(agent: Agent, pagePath: string, action: string, body: Re
 }
 const idFrom = (location: string) => location.split('/').pop()!;
 
+/** The new-field form as a browser sends it: multipart, with a boundary file. */
+async function postFieldForm(agent: Agent, ranchId: string, fields: { name: string; area: string }, file: { content: string; name: string }) {
+  const form = await agent.get(`/registry/fields/new?ranchId=${ranchId}`);
+  return agent
+    .post('/registry/fields')
+    .field('_csrf', csrfFromHtml(form.text))
+    .field('ranchId', ranchId)
+    .field('name', fields.name)
+    .field('area', fields.area)
+    .attach('boundaryFile', Buffer.from(file.content), file.name);
+}
+
 // A 0.002° × 0.002° square at latitude 36.2°: about 222.6 m × 179.6 m ≈ 4.0 ha
 // (1° of latitude ≈ 111.32 km; 1° of longitude ≈ 111.32 km × cos 36.2° ≈ 89.83 km; spherical, from memory).
 const SQUARE = {
@@ -45,14 +57,10 @@ describe('clerk keeps the registry through the forms', () => {
     expect(ranch.status).toBe(302);
     const ranchId = idFrom(ranch.headers.location);
 
-    const form = await clerk.get(`/registry/fields/new?ranchId=${ranchId}`);
-    const field = await clerk
-      .post('/registry/fields')
-      .field('_csrf', csrfFromHtml(form.text))
-      .field('ranchId', ranchId)
-      .field('name', 'Mallow 1')
-      .field('area', '10')
-      .attach('boundaryFile', Buffer.from(JSON.stringify({ type: 'Feature', properties: {}, geometry: SQUARE })), 'mallow-1.geojson');
+    const field = await postFieldForm(clerk, ranchId, { name: 'Mallow 1', area: '10' }, {
+      content: JSON.stringify({ type: 'Feature', properties: {}, geometry: SQUARE }),
+      name: 'mallow-1.geojson',
+    });
     expect(field.status).toBe(302);
     const fieldId = idFrom(field.headers.location);
     const stored = await t.db('fields').where('id', fieldId).first();
@@ -89,14 +97,8 @@ describe('clerk keeps the registry through the forms', () => {
   it('warns when the boundary and the entered area differ by more than 10 %', async () => {
     const clerk = await signInPages(t.app, 'clerk@crowntip.test');
     const ranchId = (await t.db('ranches').where('name', 'Sandpiper Bench').first()).id;
-    const form = await clerk.get(`/registry/fields/new?ranchId=${ranchId}`);
-    const res = await clerk
-      .post('/registry/fields')
-      .field('_csrf', csrfFromHtml(form.text))
-      .field('ranchId', ranchId)
-      .field('name', 'Too Big On Paper')
-      .field('area', '20') // 8.1 ha entered against about 4.0 ha drawn
-      .attach('boundaryFile', Buffer.from(JSON.stringify(SQUARE)), 'b.geojson');
+    // 20 ac = 8.1 ha entered against about 4.0 ha drawn.
+    const res = await postFieldForm(clerk, ranchId, { name: 'Too Big On Paper', area: '20' }, { content: JSON.stringify(SQUARE), name: 'b.geojson' });
     const page = await clerk.get(res.headers.location);
     expect(page.text).toContain('differs from the entered area');
   });
@@ -104,14 +106,11 @@ describe('clerk keeps the registry through the forms', () => {
   it('shows errors inline and keeps what was typed', async () => {
     const clerk = await signInPages(t.app, 'clerk@crowntip.test');
     const ranchId = (await t.db('ranches').where('name', 'Sandpiper Bench').first()).id;
-    const form = await clerk.get(`/registry/fields/new?ranchId=${ranchId}`);
-    const res = await clerk
-      .post('/registry/fields')
-      .field('_csrf', csrfFromHtml(form.text))
-      .field('ranchId', ranchId)
-      .field('name', 'Bench 1') // taken on this ranch
-      .field('area', 'twelve')
-      .attach('boundaryFile', Buffer.from('{"type":"Polygon","coordinates":[[[0,0],[1,0],[1,1]]]}'), 'bad.geojson');
+    // 'Bench 1' is taken on this ranch; the area is not a number; the ring is open.
+    const res = await postFieldForm(clerk, ranchId, { name: 'Bench 1', area: 'twelve' }, {
+      content: '{"type":"Polygon","coordinates":[[[0,0],[1,0],[1,1]]]}',
+      name: 'bad.geojson',
+    });
     expect(res.status).toBe(400);
     expect(res.text).toContain('value="twelve"');
     expect(res.text).toMatch(/id="area-error"/);
