@@ -1,7 +1,8 @@
 /**
  * The invented demo farm registry: ranches, fields (some with boundaries) and plantings for the
  * current and the previous season. Every name is made up. Boundaries are simple quadrilaterals
- * drawn around an arbitrary point; they show no real farm.
+ * drawn around invented points in the open Pacific, more than 1,000 km west of any coast
+ * (about 36° N, 135° W), so that no demo field can be mistaken for a real farm.
  */
 export interface DemoField {
   name: string;
@@ -20,7 +21,7 @@ export interface DemoRanch {
   code: string;
   county: string;
   contactEmails: string[];
-  origin: [number, number]; // lon, lat of the ranch's first field corner (invented)
+  origin: [number, number]; // lon, lat of the ranch's first field corner (invented, open sea)
   fields: DemoField[];
 }
 
@@ -33,7 +34,7 @@ export const DEMO_RANCHES: DemoRanch[][] = [
       code: 'SB',
       county: 'Alder County',
       contactEmails: ['grower@sandpiper-bench.test'],
-      origin: [-120.912, 36.204],
+      origin: [-134.912, 36.204],
       fields: [
         F('Bench 1', 18.2, 'cereal_rye', 'triticale', { boundary: { widthM: 240 }, variety: 'Demo Rye 12' }),
         F('Bench 2', 21.5, 'cereal_rye', 'cereal_rye', { boundary: { widthM: 260, skew: 0.15 }, variety: 'Demo Rye 12' }),
@@ -52,7 +53,7 @@ export const DEMO_RANCHES: DemoRanch[][] = [
       code: 'NF',
       county: 'Alder County',
       contactEmails: ['office@northforty.test'],
-      origin: [-120.874, 36.231],
+      origin: [-134.874, 36.231],
       fields: [
         F('Flats A', 40.0, 'cereal_rye', 'cereal_rye', { boundary: { widthM: 400 }, variety: 'Demo Rye 12' }),
         F('Flats B', 38.5, 'triticale', 'cereal_rye', { boundary: { widthM: 390, skew: 0.08 } }),
@@ -71,7 +72,7 @@ export const DEMO_RANCHES: DemoRanch[][] = [
       code: 'CS',
       county: 'Juniper County',
       contactEmails: [],
-      origin: [-120.801, 36.158],
+      origin: [-134.801, 36.158],
       fields: [
         F('Spring 1', 11.5, 'triticale', 'cereal_rye', { boundary: { widthM: 215 } }),
         F('Spring 2', 13.0, 'cereal_rye', 'triticale'),
@@ -92,7 +93,7 @@ export const DEMO_RANCHES: DemoRanch[][] = [
       code: 'HS',
       county: 'Tamarack County',
       contactEmails: ['grower@heronslough.test'],
-      origin: [-121.302, 36.512],
+      origin: [-135.302, 36.512],
       fields: [
         F('Slough 1', 22.0, 'cereal_rye', 'cereal_rye', { boundary: { widthM: 300 } }),
         F('Slough 2', 18.0, 'triticale', 'cereal_rye'),

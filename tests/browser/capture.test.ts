@@ -102,7 +102,7 @@ describe('/capture on a phone', () => {
     browser = await openBrowser({
       viewport: PHONE,
       permissions: ['geolocation'],
-      geolocation: { latitude: 36.2043, longitude: -120.9112, accuracy: 6 },
+      geolocation: { latitude: 36.2043, longitude: -134.9112, accuracy: 6 },
     });
     const page = await browser.context.newPage();
     const errors: string[] = [];

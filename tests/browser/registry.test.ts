@@ -23,7 +23,7 @@ describe('the farm registry in the browser', () => {
     await page.getByLabel('Field name').fill('Mesa Top');
     await page.getByLabel('Area (acres)').fill('12.5');
     const geo = path.join(fs.mkdtempSync(path.join(os.tmpdir(), 'geo-')), 'mesa-top.geojson');
-    fs.writeFileSync(geo, JSON.stringify({ type: 'Polygon', coordinates: [[[-120.95, 36.25], [-120.9468, 36.25], [-120.9468, 36.2514], [-120.95, 36.2514], [-120.95, 36.25]]] }));
+    fs.writeFileSync(geo, JSON.stringify({ type: 'Polygon', coordinates: [[[-134.95, 36.25], [-134.9468, 36.25], [-134.9468, 36.2514], [-134.95, 36.2514], [-134.95, 36.25]]] }));
     await page.getByLabel(/Boundary \(optional\)/).setInputFiles(geo);
     await page.getByRole('button', { name: 'Add field' }).click();
     await expect(page.getByRole('heading', { name: 'Mesa Top' }).count()).resolves.toBe(1);
