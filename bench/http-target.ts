@@ -10,10 +10,10 @@ import type { AddressInfo } from 'node:net';
 import express from 'express';
 import request from 'supertest';
 import { pino } from 'pino';
-import { loadConfig } from '../server/config';
+import { loadConfig } from '../server/platform/config';
 import { createApp } from '../server/app';
-import { migrateLatest, openDatabase } from '../server/db/knex';
-import { openFastReads } from '../server/db/fast-reads';
+import { migrateLatest, openDatabase } from '../server/platform/database';
+import { openFastReads } from '../server/platform/fast-reads';
 import { seedDemoScenario } from '../seeds/01_demo_scenario';
 
 const mode = process.argv[2];

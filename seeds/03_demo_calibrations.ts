@@ -3,7 +3,7 @@ import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import type { Knex } from 'knex';
 import { fitCalibration, type ModelKind } from '../shared/calc';
-import { checkCalibrationCsv } from '../server/services/calibration-import';
+import { checkCalibrationCsv } from '../server/calibrations/import';
 import { DEMO_ORGANISATIONS, DEMO_USERS } from './demo-people';
 
 /*

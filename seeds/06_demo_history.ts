@@ -3,9 +3,9 @@ import type { Knex } from 'knex';
 import { CEREAL_CROPS } from '../shared/calc/rules';
 import { addDaysIso, seasonOfDate, seasonStartYear, seasonStarting, todayIso } from '../shared/registry/season';
 import type { WalkCreate } from '../shared/schemas/walks';
-import { findWalkRecord, insertWalk } from '../server/db/walks';
-import { walkContentHash } from '../server/services/walks';
-import { estimateSnapshot } from '../server/services/walk-estimate';
+import { findWalkRecord, insertWalk } from '../server/walks/db';
+import { walkContentHash } from '../server/walks/service';
+import { estimateSnapshot } from '../server/walks/estimate';
 import { mulberry32, normal } from '../scripts/prng';
 import { DEMO_ORGANISATIONS, DEMO_USERS } from './demo-people';
 

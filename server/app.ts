@@ -5,38 +5,38 @@ import { pinoHttp } from 'pino-http';
 import { pino, type Logger } from 'pino';
 import type { Knex } from 'knex';
 import type { ViteDevServer } from 'vite';
-import type { Config } from './config';
-import { configurePassport } from './auth/passport';
-import type { FastReads } from './db/fast-reads';
-import { SessionStore } from './auth/session-store';
-import { signInLimits } from './auth/sign-in-limits';
-import { ROLE_LABELS } from './auth/roles';
+import type { Config } from './platform/config';
+import { configurePassport } from './people/passport';
+import type { FastReads } from './platform/fast-reads';
+import { SessionStore } from './people/session-store';
+import { signInLimits } from './people/sign-in-limits';
+import { ROLE_LABELS } from './platform/roles';
 import { CROP_LABELS } from '../shared/registry/crops';
-import { errorHandler, isApiRequest, notFound } from './http/errors';
-import { csrfProtection, securityHeaders } from './http/security';
-import { CLIENT_DIST, readOfficeAssets } from './http/assets';
-import { makeFormatter, pickLocale } from './http/format';
+import { errorHandler, isApiRequest, notFound } from './platform/errors';
+import { csrfProtection, securityHeaders } from './platform/security';
+import { CLIENT_DIST, readOfficeAssets } from './platform/assets';
+import { makeFormatter, pickLocale } from './platform/format';
 import { createMailer, type Mailer } from './mail/mailer';
-import { sessionApi } from './routes/api/session';
-import { authPages } from './routes/office/auth';
-import { homePages } from './routes/office/home';
-import { userAdminPages } from './routes/office/users';
-import { outboxPages } from './routes/office/outbox';
-import { accountPages } from './routes/office/account';
-import { captureApp } from './routes/capture';
-import { rulesPages } from './routes/office/rules';
-import { rulesAdminApi } from './routes/api/rules-admin';
-import { IMPORT_UPLOAD_PATHS, importUploadBeforeCsrf, registryImportPages } from './routes/office/registry-import';
-import { FIELD_FORM_PATHS, boundaryUpload, registryPages } from './routes/office/registry';
-import { seasonPages } from './routes/office/season';
-import { historyPages } from './routes/office/history';
-import { mountRegistryApi } from './routes/api/registry-routes';
-import { registersApi } from './routes/api/registers';
-import { registerPages } from './routes/office/registers';
-import { calibrationsApi } from './routes/api/calibrations';
-import { CALIBRATION_UPLOAD_PATHS, calibrationPages, calibrationUpload } from './routes/office/calibrations';
-import { mountWalksApi } from './routes/api/walk-routes';
-import { walkReviewPages } from './routes/office/walk-review';
+import { sessionApi } from './people/session-routes';
+import { authPages } from './people/auth-pages';
+import { homePages } from './people/home-pages';
+import { userAdminPages } from './people/user-pages';
+import { outboxPages } from './mail/pages';
+import { accountPages } from './people/account-pages';
+import { captureApp } from './platform/capture-app';
+import { rulesPages } from './rules/pages';
+import { rulesAdminApi } from './rules/routes';
+import { IMPORT_UPLOAD_PATHS, importUploadBeforeCsrf, registryImportPages } from './registry/import/pages';
+import { FIELD_FORM_PATHS, boundaryUpload, registryPages } from './registry/pages';
+import { seasonPages } from './registry/season-pages';
+import { historyPages } from './registry/history-pages';
+import { mountRegistryApi } from './registry/routes';
+import { registersApi } from './registers/routes';
+import { registerPages } from './registers/pages';
+import { calibrationsApi } from './calibrations/routes';
+import { CALIBRATION_UPLOAD_PATHS, calibrationPages, calibrationUpload } from './calibrations/pages';
+import { mountWalksApi } from './walks/api';
+import { walkReviewPages } from './walks/review-pages';
 
 export interface AppDeps {
   config: Config;
@@ -45,7 +45,7 @@ export interface AppDeps {
   mailer?: Mailer;
   /** Vite in middleware mode, for `npm run dev` only. */
   vite?: ViteDevServer;
-  /** Prepared-statement reads of sessions and users on a database file (see server/db/fast-reads.ts). */
+  /** Prepared-statement reads of sessions and users on a database file (see server/platform/fast-reads.ts). */
   fastReads?: FastReads;
   /** The secret that signs session cookies. */
   sessionSecret: string;

@@ -1,6 +1,6 @@
 import { cmToIn, interval, kgPerHaToLbPerAc, lengthForBiomass, predict, type Fit, type LengthForBiomassResult } from '../../shared/calc';
 import { renderChart, type ChartPoint } from '../../shared/charts/svg';
-import type { DatasetPoint } from '../db/calibrations';
+import type { DatasetPoint } from './db';
 
 /*
  * The fit page's two charts, in the reader's units: the points with the chosen curve, its 90 %

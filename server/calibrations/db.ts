@@ -1,7 +1,7 @@
 import { randomUUID } from 'node:crypto';
 import type { Knex } from 'knex';
 import type { Fit, ModelKind } from '../../shared/calc';
-import { inOrganisation, nowIso } from './scope';
+import { inOrganisation, nowIso } from '../platform/scope';
 
 export const CALIBRATION_STATUSES = ['draft', 'published', 'retired'] as const;
 export type CalibrationStatus = (typeof CALIBRATION_STATUSES)[number];

@@ -1,6 +1,6 @@
 import { inToCm, lbPerAcToKgPerHa } from '../../shared/calc';
-import { CsvReadError, readCsvText, type CsvTable } from '../http/csv-read';
-import { BIOMASS_UNITS, LENGTH_UNITS, type BiomassUnit, type DatasetPoint, type LengthUnit } from '../db/calibrations';
+import { CsvReadError, readCsvText, type CsvTable } from '../platform/csv-read';
+import { BIOMASS_UNITS, LENGTH_UNITS, type BiomassUnit, type DatasetPoint, type LengthUnit } from './db';
 
 /*
  * Calibration points from a CSV: which column is what, which unit each number is in, every row

@@ -2,18 +2,18 @@ import path from 'node:path';
 import { Router, type NextFunction, type Request, type RequestHandler, type Response } from 'express';
 import multer from 'multer';
 import { z } from 'zod';
-import type { AppContext } from '../../app';
-import { requireRole, requireSignIn } from '../../auth/guards';
-import { HttpError } from '../../http/errors';
-import { parseForm } from '../../http/validate';
-import { decodeUtf8, CsvReadError } from '../../http/csv-read';
-import { toCsv } from '../../http/csv-safe';
-import type { Formatter } from '../../http/format';
-import * as cal from '../../db/calibrations';
-import { BIOMASS_UNITS, LENGTH_UNITS } from '../../db/calibrations';
-import { listCrops } from '../../db/plantings';
-import { currentCreditRule } from '../../services/credit-rule';
-import * as calibrations from '../../services/calibrations';
+import type { AppContext } from '../app';
+import { requireRole, requireSignIn } from '../platform/guards';
+import { HttpError } from '../platform/errors';
+import { parseForm } from '../platform/validation';
+import { decodeUtf8, CsvReadError } from '../platform/csv-read';
+import { toCsv } from '../platform/csv-safe';
+import type { Formatter } from '../platform/format';
+import * as cal from './db';
+import { BIOMASS_UNITS, LENGTH_UNITS } from './db';
+import { listCrops } from '../registry/plantings-db';
+import { currentCreditRule } from '../rules/service';
+import * as calibrations from './service';
 import {
   BIOMASS_UNIT_LABELS,
   LENGTH_UNIT_LABELS,
@@ -23,13 +23,13 @@ import {
   checkCalibrationCsv,
   isBiomassUnit,
   isLengthUnit,
-} from '../../services/calibration-import';
-import { BAND_LEVEL, biomassOut, displayUnitsOf, lengthOut, type DisplayUnits } from '../../services/calibration-charts';
-import { COEFFICIENT_NAMES, MODEL_LABELS, fitPageView, isModel, lookupView, LOOKUP_STEPS, MAX_LOOKUP_PAGE_ROWS } from '../../services/calibration-view';
-import { cropSchema, labelSchema, modelSchema, tableQuerySchema } from '../../services/calibration-schemas';
-import { renderChart } from '../../../shared/charts/svg';
-import { MODELS } from '../../../shared/calc';
-import { sig } from '../../../shared/calc/format';
+} from './import';
+import { BAND_LEVEL, biomassOut, displayUnitsOf, lengthOut, type DisplayUnits } from './charts';
+import { COEFFICIENT_NAMES, MODEL_LABELS, fitPageView, isModel, lookupView, LOOKUP_STEPS, MAX_LOOKUP_PAGE_ROWS } from './view';
+import { cropSchema, labelSchema, modelSchema, tableQuerySchema } from './schemas';
+import { renderChart } from '../../shared/charts/svg';
+import { MODELS } from '../../shared/calc';
+import { sig } from '../../shared/calc/format';
 
 /**
  * The upload form's file is parsed before the CSRF check, which can only read the token from a

@@ -1,14 +1,14 @@
 import { Router, type NextFunction, type Request, type Response } from 'express';
 import type { z } from 'zod';
-import type { AppContext } from '../../app';
-import { requireRole, requireSignIn } from '../../auth/guards';
-import { HttpError } from '../../http/errors';
-import { validateBody, validateQuery } from '../../http/validate';
-import * as cal from '../../db/calibrations';
-import { compareModels, fitCalibration } from '../../../shared/calc';
-import { currentCreditRule } from '../../services/credit-rule';
-import * as calibrations from '../../services/calibrations';
-import { assignmentJson, calcErrorToHttp, calibrationJson, IMMUTABLE_MESSAGE } from '../../services/calibrations';
+import type { AppContext } from '../app';
+import { requireRole, requireSignIn } from '../platform/guards';
+import { HttpError } from '../platform/errors';
+import { validateBody, validateQuery } from '../platform/validation';
+import * as cal from './db';
+import { compareModels, fitCalibration } from '../../shared/calc';
+import { currentCreditRule } from '../rules/service';
+import * as calibrations from './service';
+import { assignmentJson, calcErrorToHttp, calibrationJson, IMMUTABLE_MESSAGE } from './service';
 import {
   assignmentBodySchema,
   assignmentQuerySchema,
@@ -19,8 +19,8 @@ import {
   patchBodySchema,
   publishBodySchema,
   tableQuerySchema,
-} from '../../services/calibration-schemas';
-import { lookupView, MAX_LOOKUP_PAGE_ROWS } from '../../services/calibration-view';
+} from './schemas';
+import { lookupView, MAX_LOOKUP_PAGE_ROWS } from './view';
 
 /**
  * /api/calibrations (../shared/API.md, Calibrations; additions in the README): everyone in the

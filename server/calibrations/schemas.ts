@@ -1,7 +1,7 @@
 import { z } from 'zod';
 import { MODELS } from '../../shared/calc';
-import { BIOMASS_UNITS, LENGTH_UNITS } from '../db/calibrations';
-import { MAX_BIOMASS_KG_HA, MAX_LENGTH_CM, MAX_POINTS, MIN_POINTS } from './calibration-import';
+import { BIOMASS_UNITS, LENGTH_UNITS } from './db';
+import { MAX_BIOMASS_KG_HA, MAX_LENGTH_CM, MAX_POINTS, MIN_POINTS } from './import';
 
 /* Request shapes of the calibration API and office forms (zod 4). Units on the wire are SI. */
 

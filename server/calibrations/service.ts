@@ -1,8 +1,8 @@
 import type { Knex } from 'knex';
 import { CalcError, MODELS, compareModels, fitCalibration, type Fit, type ModelKind } from '../../shared/calc';
-import { HttpError } from '../http/errors';
-import * as cal from '../db/calibrations';
-import type { BiomassUnit, Calibration, DatasetPoint, LengthUnit } from '../db/calibrations';
+import { HttpError } from '../platform/errors';
+import * as cal from './db';
+import type { BiomassUnit, Calibration, DatasetPoint, LengthUnit } from './db';
 
 /*
  * The rules of calibrations that span tables: a draft is made from a data set; publishing fixes

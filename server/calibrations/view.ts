@@ -13,8 +13,8 @@ import {
   type ModelComparison,
   type ModelKind,
 } from '../../shared/calc';
-import type { Calibration, DatasetPoint } from '../db/calibrations';
-import { calibrationCharts, type CalibrationCharts, type DisplayUnits } from './calibration-charts';
+import type { Calibration, DatasetPoint } from './db';
+import { calibrationCharts, type CalibrationCharts, type DisplayUnits } from './charts';
 
 /* What the fit page and the lookup table show, computed from the estimation core only. */
 

@@ -1,6 +1,6 @@
 import { randomUUID } from 'node:crypto';
 import type { Knex } from 'knex';
-import { inOrganisation, nowIso } from './scope';
+import { inOrganisation, nowIso } from '../platform/scope';
 
 export interface OutboxMessage {
   id: string;

@@ -1,7 +1,7 @@
 import nodemailer, { type Transporter } from 'nodemailer';
 import type { Knex } from 'knex';
 import type { Logger } from 'pino';
-import { insertOutboxMessage } from '../db/outbox';
+import { insertOutboxMessage } from './db';
 
 export interface MailAttachment {
   filename: string;

@@ -1,9 +1,9 @@
 import { Router } from 'express';
 import { z } from 'zod';
-import type { AppContext } from '../../app';
-import { requireRole } from '../../auth/guards';
-import { HttpError } from '../../http/errors';
-import { getOutboxMessage, listOutbox } from '../../db/outbox';
+import type { AppContext } from '../app';
+import { requireRole } from '../platform/guards';
+import { HttpError } from '../platform/errors';
+import { getOutboxMessage, listOutbox } from './db';
 
 const PAGE = 50;
 const pageQuery = z.object({ page: z.coerce.number().int().min(1).default(1).catch(1) });

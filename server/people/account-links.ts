@@ -1,7 +1,7 @@
 import type { AppContext } from '../app';
-import type { User } from '../db/users';
-import { issueUserToken } from '../db/user-tokens';
-import { ROLE_LABELS, ROLE_SUMMARIES } from '../auth/roles';
+import type { User } from './db';
+import { issueUserToken } from './tokens-db';
+import { ROLE_LABELS, ROLE_SUMMARIES } from '../platform/roles';
 
 /** E-mails a one-time password-reset link that expires after RESET_LINK_MINUTES. */
 export async function sendPasswordResetLink(ctx: AppContext, user: Pick<User, 'id' | 'name' | 'email' | 'organisationId'>) {

@@ -1,10 +1,10 @@
 import { Router } from 'express';
 import { z } from 'zod';
-import type { AppContext } from '../../app';
-import { requireSignIn } from '../../auth/guards';
-import { hashPassword, passwordSchema, verifyPassword } from '../../auth/passwords';
-import { parseForm } from '../../http/validate';
-import { findUserForSignIn, setUserPassword, setUserPreferences } from '../../db/users';
+import type { AppContext } from '../app';
+import { requireSignIn } from '../platform/guards';
+import { hashPassword, passwordSchema, verifyPassword } from './passwords';
+import { parseForm } from '../platform/validation';
+import { findUserForSignIn, setUserPassword, setUserPreferences } from './db';
 
 const passwordForm = z
   .object({ current: z.string().min(1, 'Enter your current password.'), password: passwordSchema, confirm: z.string() })

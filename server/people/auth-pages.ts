@@ -1,14 +1,14 @@
 import { Router } from 'express';
 import type passport from 'passport';
 import { z } from 'zod';
-import type { AppContext } from '../../app';
-import { homeFor } from '../../auth/roles';
-import { SIGN_IN_FAILED } from '../../auth/passport';
-import { hashPassword, passwordSchema } from '../../auth/passwords';
-import { parseForm } from '../../http/validate';
-import { findUserById, findUserForSignIn, recordSignIn, setUserPassword } from '../../db/users';
-import { checkUserToken, spendUserToken, type TokenPurpose } from '../../db/user-tokens';
-import { sendPasswordResetLink } from '../../services/account-links';
+import type { AppContext } from '../app';
+import { homeFor } from '../platform/roles';
+import { SIGN_IN_FAILED } from './passport';
+import { hashPassword, passwordSchema } from './passwords';
+import { parseForm } from '../platform/validation';
+import { findUserById, findUserForSignIn, recordSignIn, setUserPassword } from './db';
+import { checkUserToken, spendUserToken, type TokenPurpose } from './tokens-db';
+import { sendPasswordResetLink } from './account-links';
 
 /** Only paths on this site are followed after sign-in, never another host. */
 export function safeNext(next: unknown): string | null {

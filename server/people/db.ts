@@ -1,7 +1,7 @@
 import { randomUUID } from 'node:crypto';
 import type { Knex } from 'knex';
-import type { Role } from '../auth/roles';
-import { inOrganisation, nowIso } from './scope';
+import type { Role } from '../platform/roles';
+import { inOrganisation, nowIso } from '../platform/scope';
 
 export type Units = 'us' | 'metric';
 export type Language = 'en' | 'es';

@@ -1,8 +1,8 @@
 import { Router } from 'express';
-import type { AppContext } from '../../app';
-import { requireRole } from '../../auth/guards';
-import { OFFICE_ROLES, ROLE_SUMMARIES, homeFor } from '../../auth/roles';
-import { countUsers } from '../../db/users';
+import type { AppContext } from '../app';
+import { requireRole } from '../platform/guards';
+import { OFFICE_ROLES, ROLE_SUMMARIES, homeFor } from '../platform/roles';
+import { countUsers } from './db';
 
 export function homePages(ctx: AppContext): Router {
   const router = Router();

@@ -1,8 +1,8 @@
 import passport from 'passport';
 import { Strategy as LocalStrategy } from 'passport-local';
 import type { Knex } from 'knex';
-import { findUserById, findUserForSignIn, toUser, type UserRow } from '../db/users';
-import type { FastReads } from '../db/fast-reads';
+import { findUserById, findUserForSignIn, toUser, type UserRow } from './db';
+import type { FastReads } from '../platform/fast-reads';
 import { verifyPassword } from './passwords';
 
 /** One message for an unknown address and a wrong password, so neither can be probed. */

@@ -1,12 +1,12 @@
 import { Router, type Request, type Response, type NextFunction } from 'express';
 import type passport from 'passport';
-import type { AppContext } from '../../app';
-import { requireSignIn } from '../../auth/guards';
-import { SIGN_IN_FAILED } from '../../auth/passport';
-import { HttpError } from '../../http/errors';
-import { validateBody } from '../../http/validate';
-import { recordSignIn, setUserPreferences } from '../../db/users';
-import { signInSchema, preferencesSchema, toSessionUser } from '../../auth/session-user';
+import type { AppContext } from '../app';
+import { requireSignIn } from '../platform/guards';
+import { SIGN_IN_FAILED } from './passport';
+import { HttpError } from '../platform/errors';
+import { validateBody } from '../platform/validation';
+import { recordSignIn, setUserPreferences } from './db';
+import { signInSchema, preferencesSchema, toSessionUser } from './session-user';
 
 /** POST, GET, DELETE /api/session (../shared/API.md, Session), plus PATCH for the user's own preferences. */
 export function sessionApi(ctx: AppContext, pp: passport.PassportStatic): Router {

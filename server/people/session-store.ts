@@ -1,7 +1,7 @@
 import { ConnectSessionKnexStore } from 'connect-session-knex';
 import type { Knex } from 'knex';
 import type { SessionData } from 'express-session';
-import type { FastReads } from '../db/fast-reads';
+import type { FastReads } from '../platform/fast-reads';
 
 /**
  * The SQLite/PostgreSQL session store, with the sliding expiry written at most once a minute per

@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import type { User } from '../db/users';
+import type { User } from './db';
 
 export const signInSchema = z.object({
   email: z.string().trim().min(1, 'Enter your e-mail address.').max(320),

@@ -1,7 +1,7 @@
 import { rateLimit, ipKeyGenerator } from 'express-rate-limit';
 import type { RequestHandler } from 'express';
-import { HttpError } from '../http/errors';
-import { normaliseEmail } from '../db/users';
+import { HttpError } from '../platform/errors';
+import { normaliseEmail } from './db';
 
 const WINDOW_MS = 15 * 60 * 1000;
 

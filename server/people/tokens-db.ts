@@ -1,6 +1,6 @@
 import { createHash, randomBytes, randomUUID } from 'node:crypto';
 import type { Knex } from 'knex';
-import { nowIso } from './scope';
+import { nowIso } from '../platform/scope';
 
 export type TokenPurpose = 'invite' | 'reset';
 

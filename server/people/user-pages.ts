@@ -1,10 +1,10 @@
 import { Router } from 'express';
 import { z } from 'zod';
-import type { AppContext } from '../../app';
-import { requireRole } from '../../auth/guards';
-import { ROLES } from '../../auth/roles';
-import { HttpError } from '../../http/errors';
-import { parseForm } from '../../http/validate';
+import type { AppContext } from '../app';
+import { requireRole } from '../platform/guards';
+import { ROLES } from '../platform/roles';
+import { HttpError } from '../platform/errors';
+import { parseForm } from '../platform/validation';
 import {
   countActiveAdmins,
   emailTaken,
@@ -14,8 +14,8 @@ import {
   setUserActive,
   setUserRole,
   type UserListQuery,
-} from '../../db/users';
-import { sendInvitation, sendPasswordResetLink } from '../../services/account-links';
+} from './db';
+import { sendInvitation, sendPasswordResetLink } from './account-links';
 
 const listQuery = z.object({
   q: z.string().trim().max(100).optional().catch(undefined),

@@ -2,8 +2,8 @@ import fs from 'node:fs';
 import path from 'node:path';
 import { Router, type Request, type Response } from 'express';
 import type { ViteDevServer } from 'vite';
-import { requireRole } from '../auth/guards';
-import { CLIENT_DIST } from '../http/assets';
+import { requireRole } from './guards';
+import { CLIENT_DIST } from './assets';
 
 /**
  * The sampler's React app: one index.html for /capture and every path below it (React Router

@@ -1,4 +1,4 @@
-import type { User as CrowntipUser } from './db/users';
+import type { User as CrowntipUser } from '../people/db';
 
 declare global {
   namespace Express {

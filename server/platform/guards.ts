@@ -1,5 +1,5 @@
 import type { RequestHandler } from 'express';
-import { HttpError } from '../http/errors';
+import { HttpError } from './errors';
 import type { Role } from './roles';
 
 /** Signed in with an active account; 401 for the API, a trip to the sign-in page for pages. */

@@ -1,6 +1,6 @@
 // `npm run migrate`: applies pending migrations to DATABASE_FILE without starting the server.
-import { loadConfig } from '../config';
-import { migrateLatest, openDatabase } from './knex';
+import { loadConfig } from './config';
+import { migrateLatest, openDatabase } from './database';
 
 const config = loadConfig();
 const db = openDatabase(config.DATABASE_FILE);

@@ -1,5 +1,5 @@
 import type { Knex } from 'knex';
-import { inOrganisation } from './scope';
+import { inOrganisation } from '../platform/scope';
 
 /*
  * Finalised credit registers. Insert and read only: there is deliberately no update or delete

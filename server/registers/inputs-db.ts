@@ -1,6 +1,6 @@
 import type { Knex } from 'knex';
 import type { WalkEstimate, WalkStatus } from '../../shared/schemas/walks';
-import { inOrganisation } from './scope';
+import { inOrganisation } from '../platform/scope';
 
 /*
  * What a credit register reads: each field of the chosen ranches with its planting of the season

@@ -1,14 +1,14 @@
 import { randomUUID } from 'node:crypto';
 import type { Knex } from 'knex';
 import type { Logger } from 'pino';
-import { HttpError } from '../http/errors';
-import type { Units } from '../db/users';
-import { inOrganisation } from '../db/scope';
-import { approvedWalksFor, fieldsWithPlanting, registerRanches } from '../db/register-inputs';
-import { getRegister, latestRegistersOfYear } from '../db/registers';
-import { creditRuleForYear } from './credit-rule';
-import { asDraft, asFinal, registerUnits, type RegisterDoc } from './register-format';
-import { registerCsv, registerPdf } from './register-output';
+import { HttpError } from '../platform/errors';
+import type { Units } from '../people/db';
+import { inOrganisation } from '../platform/scope';
+import { approvedWalksFor, fieldsWithPlanting, registerRanches } from './inputs-db';
+import { getRegister, latestRegistersOfYear } from './db';
+import { creditRuleForYear } from '../rules/service';
+import { asDraft, asFinal, registerUnits, type RegisterDoc } from './format';
+import { registerCsv, registerPdf } from './output';
 import {
   assembleRegister,
   parseStored,
@@ -19,7 +19,7 @@ import {
   summarise,
   walksByPlanting,
   type RegisterRow,
-} from './registers';
+} from './service';
 
 /*
  * The organisation's register for a year (every ranch, one after the other) built in the

@@ -2,10 +2,10 @@ import { createRequire } from 'node:module';
 import path from 'node:path';
 import PDFDocument from 'pdfkit';
 import { KG_PER_LB, cmToIn, haToAc, kgPerHaToLbPerAc } from '../../shared/calc/units';
-import { toCsv } from '../http/csv-safe';
-import type { Units } from '../db/users';
-import { CAUTIONS, VERDICT_LABELS, cropLabel, registerUnits, shortId, type RegisterDoc } from './register-format';
-import type { RegisterRow, RegisterTotals } from './registers';
+import { toCsv } from '../platform/csv-safe';
+import type { Units } from '../people/db';
+import { CAUTIONS, VERDICT_LABELS, cropLabel, registerUnits, shortId, type RegisterDoc } from './format';
+import type { RegisterRow, RegisterTotals } from './service';
 
 /*
  * A register's files: CSV (one row per field and a totals row per register; columns documented in

@@ -1,15 +1,15 @@
 import { Router, type Request, type Response } from 'express';
 import { z } from 'zod';
-import type { AppContext } from '../../app';
-import { requireRole } from '../../auth/guards';
-import { HttpError } from '../../http/errors';
-import { getRegister, latestRegister, listRegisterVersions } from '../../db/registers';
-import { registerRanches } from '../../db/register-inputs';
-import { todayIso } from '../../../shared/registry/season';
-import { barChartSvg } from '../../services/register-chart';
-import { CAUTIONS, asDraft, asFinal, cropLabel, registerFileStem, registerUnits, shortId } from '../../services/register-format';
-import { registerPdf } from '../../services/register-output';
-import { createRegisterJobs } from '../../services/register-jobs';
+import type { AppContext } from '../app';
+import { requireRole } from '../platform/guards';
+import { HttpError } from '../platform/errors';
+import { getRegister, latestRegister, listRegisterVersions } from './db';
+import { registerRanches } from './inputs-db';
+import { todayIso } from '../../shared/registry/season';
+import { barChartSvg } from './chart';
+import { CAUTIONS, asDraft, asFinal, cropLabel, registerFileStem, registerUnits, shortId } from './format';
+import { registerPdf } from './output';
+import { createRegisterJobs } from './jobs';
 import {
   MAX_YEAR,
   MIN_YEAR,
@@ -21,7 +21,7 @@ import {
   parseStored,
   reportingYearOf,
   verifyStored,
-} from '../../services/registers';
+} from './service';
 
 const yearParam = z.coerce.number().int().min(MIN_YEAR).max(MAX_YEAR);
 const overviewQuery = z.object({ year: yearParam.optional().catch(undefined), job: z.string().max(64).optional().catch(undefined) });

@@ -1,13 +1,13 @@
 import { Router, type Request, type Response } from 'express';
 import { z } from 'zod';
-import type { AppContext } from '../../app';
-import { requireRole } from '../../auth/guards';
-import { HttpError } from '../../http/errors';
-import { validateBody, validateQuery } from '../../http/validate';
-import { getRegister, latestRegister, listRegisterVersions } from '../../db/registers';
-import { todayIso } from '../../../shared/registry/season';
-import { asFinal, registerFileStem } from '../../services/register-format';
-import { registerCsv, registerPdf } from '../../services/register-output';
+import type { AppContext } from '../app';
+import { requireRole } from '../platform/guards';
+import { HttpError } from '../platform/errors';
+import { validateBody, validateQuery } from '../platform/validation';
+import { getRegister, latestRegister, listRegisterVersions } from './db';
+import { todayIso } from '../../shared/registry/season';
+import { asFinal, registerFileStem } from './format';
+import { registerCsv, registerPdf } from './output';
 import {
   MAX_YEAR,
   MIN_YEAR,
@@ -18,7 +18,7 @@ import {
   parseStored,
   verifyStored,
   type FinalRegister,
-} from '../../services/registers';
+} from './service';
 
 const ranchId = z.string({ message: 'Choose a ranch.' }).trim().min(1, 'Choose a ranch.').max(64);
 const YEAR_MESSAGES = ['Give the reporting year, e.g. 2027.', `The year must be ${MIN_YEAR} or later.`, `The year must be ${MAX_YEAR} or earlier.`] as const;

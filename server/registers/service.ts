@@ -4,7 +4,7 @@ import { CalcError } from '../../shared/calc/errors';
 import { creditEligibility } from '../../shared/calc/eligibility';
 import { daysBetween } from '../../shared/calc/dates';
 import { seasonStarting } from '../../shared/registry/season';
-import { HttpError } from '../http/errors';
+import { HttpError } from '../platform/errors';
 import {
   approvedWalksFor,
   fieldsWithPlanting,
@@ -12,7 +12,7 @@ import {
   type ApprovedWalkInput,
   type FieldWithPlanting,
   type RegisterRanchInput,
-} from '../db/register-inputs';
+} from './inputs-db';
 import {
   getRegister,
   highestRegisterVersion,
@@ -20,8 +20,8 @@ import {
   isUniqueViolation,
   latestRegistersOfYear,
   type StoredRegister,
-} from '../db/registers';
-import { creditRuleForYear, type RuleInUse } from './credit-rule';
+} from './db';
+import { creditRuleForYear, type RuleInUse } from '../rules/service';
 
 /*
  * Credit registers (README, "Credit registers"). The register for reporting year Y covers the

@@ -1,7 +1,7 @@
 import { Router } from 'express';
-import type { AppContext } from '../../app';
-import { requireSignIn } from '../../auth/guards';
-import { listCrops } from '../../db/plantings';
+import type { AppContext } from '../app';
+import { requireSignIn } from '../platform/guards';
+import { listCrops } from './plantings-db';
 
 /** GET /api/crops: the crop list every install has (from a migration), for any signed-in role. */
 export function cropsApi(ctx: AppContext): Router {

@@ -1,7 +1,7 @@
 import { randomUUID } from 'node:crypto';
 import type { Knex } from 'knex';
 import type { Boundary } from '../../shared/registry/boundary';
-import { inOrganisation, nowIso } from './scope';
+import { inOrganisation, nowIso } from '../platform/scope';
 
 export interface Field {
   id: string;

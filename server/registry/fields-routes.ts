@@ -1,13 +1,13 @@
 import { Router, type Request, type Response } from 'express';
 import type { z } from 'zod';
-import type { AppContext } from '../../app';
-import { requireRole, requireSignIn } from '../../auth/guards';
-import { HttpError } from '../../http/errors';
-import { validateBody, validateQuery } from '../../http/validate';
-import { getField, listFields } from '../../db/fields';
-import { createField, updateField } from '../../services/registry';
-import { fieldInputSchema, fieldPatchSchema, pagingSchema } from '../../../shared/schemas/registry';
-import { actorOf, idFilter, listQuery, searchText } from './registry-helpers';
+import type { AppContext } from '../app';
+import { requireRole, requireSignIn } from '../platform/guards';
+import { HttpError } from '../platform/errors';
+import { validateBody, validateQuery } from '../platform/validation';
+import { getField, listFields } from './fields-db';
+import { createField, updateField } from './service';
+import { fieldInputSchema, fieldPatchSchema, pagingSchema } from '../../shared/schemas/registry';
+import { actorOf, idFilter, listQuery, searchText } from './route-helpers';
 
 const listSchema = listQuery(pagingSchema.extend({ ranchId: idFilter.optional(), q: searchText.optional() }));
 

@@ -1,6 +1,6 @@
-import { acToHa, lbPerAcToKgPerHa } from '../../../shared/calc/units';
-import { boundaryFromGeoJson, type Boundary } from '../../../shared/registry/boundary';
-import type { Units } from '../../db/users';
+import { acToHa, lbPerAcToKgPerHa } from '../../shared/calc/units';
+import { boundaryFromGeoJson, type Boundary } from '../../shared/registry/boundary';
+import type { Units } from '../people/db';
 
 /**
  * Office registry forms speak the user's units and plain text; the shared schemas speak SI and

@@ -1,5 +1,5 @@
 import type { Knex } from 'knex';
-import { inOrganisation, nowIso } from './scope';
+import { inOrganisation, nowIso } from '../platform/scope';
 
 export type EntityType = 'ranch' | 'field' | 'planting';
 export type ChangeAction = 'create' | 'update' | 'delete' | 'import';

@@ -1,9 +1,9 @@
 import { Router } from 'express';
 import { z } from 'zod';
-import type { AppContext } from '../../app';
-import { requireRole } from '../../auth/guards';
-import { historyAuthors, listHistory } from '../../db/history';
-import { isoDate } from '../../../shared/schemas/registry';
+import type { AppContext } from '../app';
+import { requireRole } from '../platform/guards';
+import { historyAuthors, listHistory } from './history-db';
+import { isoDate } from '../../shared/schemas/registry';
 
 const PAGE = 50;
 const historyQuery = z.object({

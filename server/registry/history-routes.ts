@@ -1,11 +1,11 @@
 import { Router, type Request, type Response } from 'express';
 import { z } from 'zod';
-import type { AppContext } from '../../app';
-import { requireRole } from '../../auth/guards';
-import { validateQuery } from '../../http/validate';
-import { listHistory } from '../../db/history';
-import { isoDate, pagingSchema } from '../../../shared/schemas/registry';
-import { idFilter, listQuery } from './registry-helpers';
+import type { AppContext } from '../app';
+import { requireRole } from '../platform/guards';
+import { validateQuery } from '../platform/validation';
+import { listHistory } from './history-db';
+import { isoDate, pagingSchema } from '../../shared/schemas/registry';
+import { idFilter, listQuery } from './route-helpers';
 
 const listSchema = listQuery(
   pagingSchema.extend({

@@ -1,19 +1,19 @@
 import { Router, type Request, type Response } from 'express';
 import multer from 'multer';
 import { z } from 'zod';
-import type { AppContext } from '../../app';
-import { requireRole, requireSignIn } from '../../auth/guards';
-import { HttpError } from '../../http/errors';
-import { parseForm } from '../../http/validate';
-import { areasDisagree } from '../../../shared/registry/boundary-area';
-import { boundaryOutline } from '../../../shared/registry/outline';
-import { seasonLabel, seasonOfDate, seasonStartYear, seasonStarting, todayIso } from '../../../shared/registry/season';
-import { fieldInputSchema, plantingInputSchema, ranchInputSchema } from '../../../shared/schemas/registry';
-import * as ranchesDb from '../../db/ranches';
-import * as fieldsDb from '../../db/fields';
-import * as plantingsDb from '../../db/plantings';
-import * as registry from '../../services/registry';
-import { areaToHa, boundaryFromUpload, rateToKgHa, renameErrors } from './registry-forms';
+import type { AppContext } from '../app';
+import { requireRole, requireSignIn } from '../platform/guards';
+import { HttpError } from '../platform/errors';
+import { parseForm } from '../platform/validation';
+import { areasDisagree } from '../../shared/registry/boundary-area';
+import { boundaryOutline } from '../../shared/registry/outline';
+import { seasonLabel, seasonOfDate, seasonStartYear, seasonStarting, todayIso } from '../../shared/registry/season';
+import { fieldInputSchema, plantingInputSchema, ranchInputSchema } from '../../shared/schemas/registry';
+import * as ranchesDb from './ranches-db';
+import * as fieldsDb from './fields-db';
+import * as plantingsDb from './plantings-db';
+import * as registry from './service';
+import { areaToHa, boundaryFromUpload, rateToKgHa, renameErrors } from './forms';
 
 /**
  * Field forms carry an optional GeoJSON file. lusca checks the CSRF token before route handlers

@@ -1,13 +1,13 @@
 import { Router, type Request, type Response } from 'express';
 import type { z } from 'zod';
-import type { AppContext } from '../../app';
-import { requireRole, requireSignIn } from '../../auth/guards';
-import { HttpError } from '../../http/errors';
-import { validateBody, validateQuery } from '../../http/validate';
-import { getPlanting, listPlantings } from '../../db/plantings';
-import { createPlanting, updatePlanting } from '../../services/registry';
-import { cropSchema, pagingSchema, plantingInputSchema, plantingPatchSchema, seasonSchema } from '../../../shared/schemas/registry';
-import { actorOf, idFilter, listQuery } from './registry-helpers';
+import type { AppContext } from '../app';
+import { requireRole, requireSignIn } from '../platform/guards';
+import { HttpError } from '../platform/errors';
+import { validateBody, validateQuery } from '../platform/validation';
+import { getPlanting, listPlantings } from './plantings-db';
+import { createPlanting, updatePlanting } from './service';
+import { cropSchema, pagingSchema, plantingInputSchema, plantingPatchSchema, seasonSchema } from '../../shared/schemas/registry';
+import { actorOf, idFilter, listQuery } from './route-helpers';
 
 const listSchema = listQuery(
   pagingSchema.extend({

@@ -1,13 +1,13 @@
 import { Router, type Request, type Response } from 'express';
 import { z } from 'zod';
-import type { AppContext } from '../../app';
-import { requireRole, requireSignIn } from '../../auth/guards';
-import { HttpError } from '../../http/errors';
-import { validateBody, validateQuery } from '../../http/validate';
-import { getRanch, listRanches, RANCH_SORTS, type Ranch, type RanchSort } from '../../db/ranches';
-import { createRanch, deleteRanch, updateRanch } from '../../services/registry';
-import { pagingSchema, ranchInputSchema, ranchPatchSchema, seasonSchema } from '../../../shared/schemas/registry';
-import { actorOf, currentSeason, listQuery, searchText } from './registry-helpers';
+import type { AppContext } from '../app';
+import { requireRole, requireSignIn } from '../platform/guards';
+import { HttpError } from '../platform/errors';
+import { validateBody, validateQuery } from '../platform/validation';
+import { getRanch, listRanches, RANCH_SORTS, type Ranch, type RanchSort } from './ranches-db';
+import { createRanch, deleteRanch, updateRanch } from './service';
+import { pagingSchema, ranchInputSchema, ranchPatchSchema, seasonSchema } from '../../shared/schemas/registry';
+import { actorOf, currentSeason, listQuery, searchText } from './route-helpers';
 
 // Sort keys as the answer spells them (camelCase); the office pages' column names work too.
 const SORT_ALIASES: Record<string, RanchSort> = {

@@ -1,7 +1,7 @@
 import type { Request } from 'express';
 import { z } from 'zod';
-import type { Actor } from '../../services/registry';
-import { seasonOfDate, todayIso } from '../../../shared/registry/season';
+import type { Actor } from './service';
+import { seasonOfDate, todayIso } from '../../shared/registry/season';
 
 /** Who makes a registry change: the signed-in user (the guard has already required one). */
 export const actorOf = (req: Request): Actor => {

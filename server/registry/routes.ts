@@ -1,10 +1,10 @@
 import type { Express } from 'express';
-import type { AppContext } from '../../app';
-import { ranchesApi } from './ranches';
-import { fieldsApi } from './fields';
-import { plantingsApi } from './plantings';
-import { cropsApi } from './crops';
-import { historyApi } from './history';
+import type { AppContext } from '../app';
+import { ranchesApi } from './ranches-routes';
+import { fieldsApi } from './fields-routes';
+import { plantingsApi } from './plantings-routes';
+import { cropsApi } from './crops-routes';
+import { historyApi } from './history-routes';
 
 /** The registry's JSON API (../shared/API.md, Registry), with the crop list and the change history. */
 export function mountRegistryApi(app: Express, ctx: AppContext): void {

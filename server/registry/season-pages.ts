@@ -1,14 +1,14 @@
 import { Router, type Request } from 'express';
 import { z } from 'zod';
-import type { AppContext } from '../../app';
-import { requireSignIn } from '../../auth/guards';
-import { CROPS } from '../../../shared/calc/rules';
-import { seasonLabel, seasonOfDate, seasonStartYear, seasonStarting, todayIso } from '../../../shared/registry/season';
-import { seasonSchema } from '../../../shared/schemas/registry';
-import { ranchOptions } from '../../db/ranches';
-import { currentCreditRule } from '../../services/credit-rule';
-import { seasonRows } from '../../services/season-view';
-import { toCsv } from '../../http/csv-safe';
+import type { AppContext } from '../app';
+import { requireSignIn } from '../platform/guards';
+import { CROPS } from '../../shared/calc/rules';
+import { seasonLabel, seasonOfDate, seasonStartYear, seasonStarting, todayIso } from '../../shared/registry/season';
+import { seasonSchema } from '../../shared/schemas/registry';
+import { ranchOptions } from './ranches-db';
+import { currentCreditRule } from '../rules/service';
+import { seasonRows } from './season-view';
+import { toCsv } from '../platform/csv-safe';
 
 const seasonQuery = z.object({
   season: seasonSchema.optional().catch(undefined),

@@ -1,13 +1,13 @@
 import type { Knex } from 'knex';
-import { HttpError } from '../http/errors';
+import { HttpError } from '../platform/errors';
 import type { Boundary } from '../../shared/registry/boundary';
 import { boundaryAreaHa } from '../../shared/registry/boundary-area';
 import { seasonOfDate, todayIso } from '../../shared/registry/season';
 import type { FieldInput, PlantingInput, RanchInput } from '../../shared/schemas/registry';
-import * as ranches from '../db/ranches';
-import * as fields from '../db/fields';
-import * as plantings from '../db/plantings';
-import { appendChange, type EntityType } from '../db/history';
+import * as ranches from './ranches-db';
+import * as fields from './fields-db';
+import * as plantings from './plantings-db';
+import { appendChange, type EntityType } from './history-db';
 
 /**
  * Registry writes: each checks the rules that span records (the ranch is this organisation's,

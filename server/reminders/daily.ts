@@ -2,7 +2,7 @@ import type { Knex } from 'knex';
 import type { Logger } from 'pino';
 import type { Mailer } from '../mail/mailer';
 import { todayIso } from '../../shared/registry/season';
-import { sendSamplingReminders } from '../services/reminders';
+import { sendSamplingReminders } from './service';
 
 /**
  * Claims today's run of a job: true for the one caller whose insert succeeds. Several app servers

@@ -1,7 +1,7 @@
 // `npm run remind`: e-mails today's sampling reminders now (also when the daily job already ran).
 import { pino } from 'pino';
-import { loadConfig } from '../config';
-import { migrateLatest, openDatabase } from '../db/knex';
+import { loadConfig } from '../platform/config';
+import { migrateLatest, openDatabase } from '../platform/database';
 import { createMailer } from '../mail/mailer';
 import { runReminderJob } from './daily';
 

@@ -1,7 +1,7 @@
 import { Router } from 'express';
-import type { AppContext } from '../../app';
-import { requireSignIn } from '../../auth/guards';
-import { currentCreditRule } from '../../services/credit-rule';
+import type { AppContext } from '../app';
+import { requireSignIn } from '../platform/guards';
+import { currentCreditRule } from './service';
 
 /** GET /api/rules/current: the organisation's credit rule in effect today, for every signed-in role. */
 export function rulesApi(ctx: AppContext): Router {

@@ -1,7 +1,7 @@
 import { randomUUID } from 'node:crypto';
 import type { Knex } from 'knex';
 import type { CreditRule } from '../../shared/calc/rules';
-import { inOrganisation, nowIso } from './scope';
+import { inOrganisation, nowIso } from '../platform/scope';
 
 export interface StoredCreditRule extends CreditRule {
   id: string;

@@ -1,14 +1,14 @@
 import { Router, type Request } from 'express';
-import type { AppContext } from '../../app';
-import { requireRole } from '../../auth/guards';
-import { parseForm } from '../../http/validate';
-import { CROPS } from '../../../shared/calc/rules';
-import { kgPerHaToLbPerAc } from '../../../shared/calc/units';
-import { todayIso } from '../../../shared/registry/season';
-import { creditRuleInputSchema } from '../../../shared/schemas/rules';
-import { insertRuleVersion, listRuleVersions } from '../../db/credit-rules';
-import { currentCreditRule } from '../../services/credit-rule';
-import { numberOrText, rateToKgHa } from './registry-forms';
+import type { AppContext } from '../app';
+import { requireRole } from '../platform/guards';
+import { parseForm } from '../platform/validation';
+import { CROPS } from '../../shared/calc/rules';
+import { kgPerHaToLbPerAc } from '../../shared/calc/units';
+import { todayIso } from '../../shared/registry/season';
+import { creditRuleInputSchema } from '../../shared/schemas/rules';
+import { insertRuleVersion, listRuleVersions } from './db';
+import { currentCreditRule } from './service';
+import { numberOrText, rateToKgHa } from '../registry/forms';
 
 /** Admin: the organisation's credit rule, versioned with an effective date. */
 export function rulesPages(ctx: AppContext): Router {

@@ -1,11 +1,11 @@
 import { Router } from 'express';
-import type { AppContext } from '../../app';
-import { requireRole } from '../../auth/guards';
-import { validateBody } from '../../http/validate';
-import { todayIso } from '../../../shared/registry/season';
-import { creditRuleInputSchema, type CreditRuleInput } from '../../../shared/schemas/rules';
-import { insertRuleVersion, listRuleVersions } from '../../db/credit-rules';
-import { currentCreditRule } from '../../services/credit-rule';
+import type { AppContext } from '../app';
+import { requireRole } from '../platform/guards';
+import { validateBody } from '../platform/validation';
+import { todayIso } from '../../shared/registry/season';
+import { creditRuleInputSchema, type CreditRuleInput } from '../../shared/schemas/rules';
+import { insertRuleVersion, listRuleVersions } from './db';
+import { currentCreditRule } from './service';
 
 /**
  * PUT /api/rules/current (admin) saves a NEW version of the rule; earlier versions stay as they

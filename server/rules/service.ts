@@ -1,7 +1,7 @@
 import type { Knex } from 'knex';
 import { DEMO_RULE, type CreditRule } from '../../shared/calc/rules';
 import { todayIso } from '../../shared/registry/season';
-import { ruleInEffect, type StoredCreditRule } from '../db/credit-rules';
+import { ruleInEffect, type StoredCreditRule } from './db';
 
 export type RuleInUse = CreditRule & {
   label: string;

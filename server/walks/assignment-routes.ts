@@ -1,11 +1,11 @@
 import { Router, type Request, type Response } from 'express';
 import { z } from 'zod';
-import type { AppContext } from '../../app';
-import { requireRole } from '../../auth/guards';
-import { validateBody } from '../../http/validate';
-import { assignWalk, unassignWalk } from '../../services/walks';
-import { isoDate } from '../../../shared/schemas/registry';
-import { walkActor } from './walks';
+import type { AppContext } from '../app';
+import { requireRole } from '../platform/guards';
+import { validateBody } from '../platform/validation';
+import { assignWalk, unassignWalk } from './service';
+import { isoDate } from '../../shared/schemas/registry';
+import { walkActor } from './routes';
 
 const assignmentSchema = z.object({
   samplerId: z.string({ message: 'Choose a sampler.' }).min(1, 'Choose a sampler.').max(100),

@@ -1,7 +1,7 @@
 import type { Knex } from 'knex';
 import type { Boundary } from '../../shared/registry/boundary';
 import type { Walk, WalkEstimate, WalkPlant, WalkStatus } from '../../shared/schemas/walks';
-import { inOrganisation, nowIso } from './scope';
+import { inOrganisation, nowIso } from '../platform/scope';
 
 /*
  * Field walks, their plants and photos, and the clerk's walk assignments. Columns are snake_case

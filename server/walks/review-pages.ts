@@ -1,29 +1,29 @@
 import { Router, type Request, type Response } from 'express';
 import { z } from 'zod';
-import type { AppContext } from '../../app';
-import { requireRole } from '../../auth/guards';
-import { HttpError } from '../../http/errors';
-import { parseForm } from '../../http/validate';
-import { toCsv } from '../../http/csv-safe';
-import type { Formatter } from '../../http/format';
-import { getCalibration } from '../../db/calibrations';
-import { getField } from '../../db/fields';
-import { ranchOptions } from '../../db/ranches';
-import { listUsers } from '../../db/users';
-import { listWalks } from '../../db/walks';
-import * as service from '../../services/walks';
-import { lengthForBiomass } from '../../../shared/calc';
-import { cmToIn, kgPerHaToLbPerAc } from '../../../shared/calc/units';
-import { escapeXml, niceTicks, tickLabel } from '../../../shared/charts/svg';
-import type { Boundary } from '../../../shared/registry/boundary';
-import { boundaryOutline } from '../../../shared/registry/outline';
-import { WALK_FLAG_LABELS, explainWalkFlag, outlierStops, walkFlags, type WalkFlag } from '../../../shared/registry/walk-flags';
-import { walkRejectSchema, type Walk, type WalkStatus } from '../../../shared/schemas/walks';
+import type { AppContext } from '../app';
+import { requireRole } from '../platform/guards';
+import { HttpError } from '../platform/errors';
+import { parseForm } from '../platform/validation';
+import { toCsv } from '../platform/csv-safe';
+import type { Formatter } from '../platform/format';
+import { getCalibration } from '../calibrations/db';
+import { getField } from '../registry/fields-db';
+import { ranchOptions } from '../registry/ranches-db';
+import { listUsers } from '../people/db';
+import { listWalks } from './db';
+import * as service from './service';
+import { lengthForBiomass } from '../../shared/calc';
+import { cmToIn, kgPerHaToLbPerAc } from '../../shared/calc/units';
+import { escapeXml, niceTicks, tickLabel } from '../../shared/charts/svg';
+import type { Boundary } from '../../shared/registry/boundary';
+import { boundaryOutline } from '../../shared/registry/outline';
+import { WALK_FLAG_LABELS, explainWalkFlag, outlierStops, walkFlags, type WalkFlag } from '../../shared/registry/walk-flags';
+import { walkRejectSchema, type Walk, type WalkStatus } from '../../shared/schemas/walks';
 
 /*
  * Walk review (README, "Walk review"): the queue of field walks and each walk's evidence for
  * clerks and admins, who approve or reject submitted walks, and for auditors, who read, print and
- * export. The status steps are the walks service's (server/services/walks.ts); this file only
+ * export. The status steps are the walks service's (server/walks/service.ts); this file only
  * shapes pages. Samplers get 403: they see their walks and reasons in /capture.
  */
 

@@ -4,14 +4,14 @@ import { pipeline } from 'node:stream/promises';
 import { Router, type Request, type RequestHandler, type Response } from 'express';
 import multer from 'multer';
 import { z } from 'zod';
-import type { AppContext } from '../../app';
-import { requireRole, requireSignIn } from '../../auth/guards';
-import { HttpError } from '../../http/errors';
-import { validateBody, validateQuery } from '../../http/validate';
-import * as service from '../../services/walks';
-import { pagingSchema } from '../../../shared/schemas/registry';
-import { MAX_PLANTS, walkCreateSchema, walkRejectSchema, walkStatusSchema, type WalkCreate } from '../../../shared/schemas/walks';
-import { idFilter, listQuery } from './registry-helpers';
+import type { AppContext } from '../app';
+import { requireRole, requireSignIn } from '../platform/guards';
+import { HttpError } from '../platform/errors';
+import { validateBody, validateQuery } from '../platform/validation';
+import * as service from './service';
+import { pagingSchema } from '../../shared/schemas/registry';
+import { MAX_PLANTS, walkCreateSchema, walkRejectSchema, walkStatusSchema, type WalkCreate } from '../../shared/schemas/walks';
+import { idFilter, listQuery } from '../registry/route-helpers';
 
 /** Largest photo accepted; the capture app shrinks photos well below this before sending. */
 export const MAX_PHOTO_BYTES = 8 * 1024 * 1024;

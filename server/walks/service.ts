@@ -2,18 +2,18 @@ import { createHash, randomBytes, randomUUID } from 'node:crypto';
 import fs from 'node:fs/promises';
 import path from 'node:path';
 import type { Knex } from 'knex';
-import type { Role } from '../auth/roles';
-import { HttpError } from '../http/errors';
-import { sniffImageType } from '../http/image-type';
+import type { Role } from '../platform/roles';
+import { HttpError } from '../platform/errors';
+import { sniffImageType } from './image-type';
 import { daysBetween } from '../../shared/calc/dates';
 import { addDaysIso, seasonOfDate, todayIso } from '../../shared/registry/season';
 import type { TodayItem, Walk, WalkCreate, WalkStatus } from '../../shared/schemas/walks';
-import { assignedCalibrationFor } from '../db/calibrations';
-import { getPlanting } from '../db/plantings';
-import { nowIso } from '../db/scope';
-import { getUser } from '../db/users';
-import * as walks from '../db/walks';
-import { estimateSnapshot } from './walk-estimate';
+import { assignedCalibrationFor } from '../calibrations/db';
+import { getPlanting } from '../registry/plantings-db';
+import { nowIso } from '../platform/scope';
+import { getUser } from '../people/db';
+import * as walks from './db';
+import { estimateSnapshot } from './estimate';
 
 /**
  * Field-walk rules that span tables: who may read and change a walk, the idempotent create with

@@ -1,11 +1,11 @@
 import { Router, type Request, type Response } from 'express';
 import { z } from 'zod';
-import type { AppContext } from '../../app';
-import { requireRole } from '../../auth/guards';
-import { validateQuery } from '../../http/validate';
-import { todayList } from '../../services/walks';
-import { listQuery, searchText } from './registry-helpers';
-import { walkActor } from './walks';
+import type { AppContext } from '../app';
+import { requireRole } from '../platform/guards';
+import { validateQuery } from '../platform/validation';
+import { todayList } from './service';
+import { listQuery, searchText } from '../registry/route-helpers';
+import { walkActor } from './routes';
 
 const todaySchema = listQuery(z.object({ q: searchText.optional() }));
 

@@ -4,7 +4,7 @@ import { getDocumentProxy } from 'unpdf';
 import path from 'node:path';
 import { randomUUID } from 'node:crypto';
 import { SUITE_PASSWORD, screenshot, signIn, useServerAndBrowser } from '../helpers/browser';
-import { openDatabase } from '../../server/db/knex';
+import { openDatabase } from '../../server/platform/database';
 import { estimateSnapshot, ORG, userId } from '../helpers/register-scenario';
 import { seasonOfDate, seasonStartYear, seasonStarting, todayIso } from '../../shared/registry/season';
 

@@ -1,9 +1,9 @@
 import request from 'supertest';
 import type { Express } from 'express';
 import type { Knex } from 'knex';
-import { loadConfig, type Config } from '../../server/config';
+import { loadConfig, type Config } from '../../server/platform/config';
 import { createApp } from '../../server/app';
-import { openDatabase, migrateLatest } from '../../server/db/knex';
+import { openDatabase, migrateLatest } from '../../server/platform/database';
 import { seedDemoScenario } from '../../seeds/01_demo_scenario';
 
 export const DEMO_PASSWORD = 'test-demo-password';

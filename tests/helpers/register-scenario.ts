@@ -2,7 +2,7 @@ import { randomUUID } from 'node:crypto';
 import type { Knex } from 'knex';
 import { CEREAL_CROPS } from '../../shared/calc/rules';
 import { acToHa, lbPerAcToKgPerHa } from '../../shared/calc/units';
-import { insertRuleVersion } from '../../server/db/credit-rules';
+import { insertRuleVersion } from '../../server/rules/db';
 import { DEMO_ORGANISATIONS, DEMO_USERS } from '../../seeds/demo-people';
 
 /*

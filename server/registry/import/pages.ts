@@ -2,10 +2,10 @@ import { Router, type NextFunction, type Request, type RequestHandler, type Resp
 import multer from 'multer';
 import { z } from 'zod';
 import type { AppContext } from '../../app';
-import { requireRole } from '../../auth/guards';
-import { HttpError } from '../../http/errors';
-import { parseForm } from '../../http/validate';
-import { toCsv } from '../../http/csv-safe';
+import { requireRole } from '../../platform/guards';
+import { HttpError } from '../../platform/errors';
+import { parseForm } from '../../platform/validation';
+import { toCsv } from '../../platform/csv-safe';
 import {
   AREA_UNITS,
   COLUMN_BY_KEY,
@@ -27,7 +27,7 @@ import {
   type ImportJob,
   type ImportMeta,
   type ImportPreview,
-} from '../../services/registry-import';
+} from './service';
 
 /**
  * The registry CSV import (clerk and admin): upload → preview with mapping and every problem →
@@ -40,7 +40,7 @@ import {
  * plain urlencoded POST with the hidden _csrf field and works without JavaScript.
  */
 const BASE = '/registry/import';
-/** Where the result page sends the clerk next (routes/office/registry.ts and season.ts). */
+/** Where the result page sends the clerk next (server/registry/pages.ts and season-pages.ts). */
 const RANCH_LIST_URL = '/registry/ranches';
 const seasonUrl = (season: string) => `/registry/season?season=${encodeURIComponent(season)}`;
 const PREVIEW_ROWS = 50;

@@ -4,15 +4,15 @@ import path from 'node:path';
 import { parse } from 'csv-parse/sync';
 import type { Knex } from 'knex';
 import type { ZodType } from 'zod';
-import { acToHa, haToAc, kgPerHaToLbPerAc, lbPerAcToKgPerHa } from '../../shared/calc/units';
-import { isSeason, seasonOfDate } from '../../shared/registry/season';
-import { fieldInputSchema, plantingInputSchema, ranchInputSchema } from '../../shared/schemas/registry';
-import * as ranchesDb from '../db/ranches';
-import * as fieldsDb from '../db/fields';
-import * as plantingsDb from '../db/plantings';
-import { appendChange } from '../db/history';
-import { HttpError } from '../http/errors';
-import { inOrganisation } from '../db/scope';
+import { acToHa, haToAc, kgPerHaToLbPerAc, lbPerAcToKgPerHa } from '../../../shared/calc/units';
+import { isSeason, seasonOfDate } from '../../../shared/registry/season';
+import { fieldInputSchema, plantingInputSchema, ranchInputSchema } from '../../../shared/schemas/registry';
+import * as ranchesDb from '../ranches-db';
+import * as fieldsDb from '../fields-db';
+import * as plantingsDb from '../plantings-db';
+import { appendChange } from '../history-db';
+import { HttpError } from '../../platform/errors';
+import { inOrganisation } from '../../platform/scope';
 
 /**
  * The registry CSV import: read an uploaded file, map its columns to Crowntip's, check every row

@@ -1,11 +1,11 @@
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import request from 'supertest';
-import { createTestApp, signInApi, type TestApp } from '../helpers/app';
-import { CM_PER_IN, compareModels, fitCalibration, lengthForBiomass, predict, type Fit } from '../../shared/calc';
-import { assignedCalibrationFor } from '../../server/db/calibrations';
-import { DEMO_CALIBRATION_LABEL, demoCalibrationId } from '../../seeds/03_demo_calibrations';
-import { DEMO_ORGANISATIONS } from '../../seeds/demo-people';
-import { readDemo } from '../shared/demo-data';
+import { createTestApp, signInApi, type TestApp } from '../../helpers/app';
+import { CM_PER_IN, compareModels, fitCalibration, lengthForBiomass, predict, type Fit } from '../../../shared/calc';
+import { assignedCalibrationFor } from '../../../server/calibrations/db';
+import { DEMO_CALIBRATION_LABEL, demoCalibrationId } from '../../../seeds/03_demo_calibrations';
+import { DEMO_ORGANISATIONS } from '../../../seeds/demo-people';
+import { readDemo } from '../../shared/demo-data';
 
 const RYE = demoCalibrationId('c', '1', 0);
 const TRITICALE = demoCalibrationId('c', '2', 0);

@@ -1,8 +1,8 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
-import { CsvReadError, decodeUtf8, detectDelimiter, readCsv, readCsvText } from '../../server/http/csv-read';
-import { biomassUnitHint, checkCalibrationCsv, lengthUnitHint, mapColumns, normaliseHeader, parseNumber, toKgHa } from '../../server/services/calibration-import';
-import { inToCm, lbPerAcToKgPerHa } from '../../shared/calc';
+import { CsvReadError, decodeUtf8, detectDelimiter, readCsv, readCsvText } from '../../../server/platform/csv-read';
+import { biomassUnitHint, checkCalibrationCsv, lengthUnitHint, mapColumns, normaliseHeader, parseNumber, toKgHa } from '../../../server/calibrations/import';
+import { inToCm, lbPerAcToKgPerHa } from '../../../shared/calc';
 
 const fixture = (name: string) => readFileSync(`tests/fixtures/calibration/${name}`, 'utf8');
 

@@ -1,12 +1,12 @@
 import { readFileSync } from 'node:fs';
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import request from 'supertest';
-import { createTestApp, csrfFromHtml, signInPages, type TestApp } from '../helpers/app';
-import { CM_PER_IN, compareModels, fitCalibration, inToCm, lbPerAcToKgPerHa, lengthForBiomass, type Fit } from '../../shared/calc';
-import { currentCreditRule } from '../../server/services/credit-rule';
-import { demoCalibrationId } from '../../seeds/03_demo_calibrations';
-import { DEMO_ORGANISATIONS } from '../../seeds/demo-people';
-import { readDemo } from '../shared/demo-data';
+import { createTestApp, csrfFromHtml, signInPages, type TestApp } from '../../helpers/app';
+import { CM_PER_IN, compareModels, fitCalibration, inToCm, lbPerAcToKgPerHa, lengthForBiomass, type Fit } from '../../../shared/calc';
+import { currentCreditRule } from '../../../server/rules/service';
+import { demoCalibrationId } from '../../../seeds/03_demo_calibrations';
+import { DEMO_ORGANISATIONS } from '../../../seeds/demo-people';
+import { readDemo } from '../../shared/demo-data';
 
 const RYE = demoCalibrationId('c', '1', 0);
 const TRITICALE = demoCalibrationId('c', '2', 0);

@@ -1,7 +1,7 @@
 import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest';
 import request from 'supertest';
-import { createTestApp, csrfFromHtml, latestMail, linkIn, signInApi, signInPages, type TestApp } from '../helpers/app';
-import { DEMO_USERS } from '../../seeds/demo-people';
+import { createTestApp, csrfFromHtml, latestMail, linkIn, signInApi, signInPages, type TestApp } from '../../helpers/app';
+import { DEMO_USERS } from '../../../seeds/demo-people';
 
 let t: TestApp;
 beforeEach(async () => {

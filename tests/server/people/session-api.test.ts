@@ -1,6 +1,6 @@
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import request from 'supertest';
-import { createTestApp, DEMO_PASSWORD, signInApi, type TestApp } from '../helpers/app';
+import { createTestApp, DEMO_PASSWORD, signInApi, type TestApp } from '../../helpers/app';
 
 let t: TestApp;
 beforeEach(async () => {

@@ -5,11 +5,11 @@ import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import request from 'supertest';
 import type { Express } from 'express';
 import type { Knex } from 'knex';
-import { loadConfig } from '../../server/config';
-import { createApp } from '../../server/app';
-import { migrateLatest, openDatabase } from '../../server/db/knex';
-import { openFastReads, type FastReads } from '../../server/db/fast-reads';
-import { seedDemoScenario } from '../../seeds/01_demo_scenario';
+import { loadConfig } from '../../../server/platform/config';
+import { createApp } from '../../../server/app';
+import { migrateLatest, openDatabase } from '../../../server/platform/database';
+import { openFastReads, type FastReads } from '../../../server/platform/fast-reads';
+import { seedDemoScenario } from '../../../seeds/01_demo_scenario';
 
 // The server's prepared-statement reads of sessions and users on a database file must behave
 // exactly like the Knex reads: the same sessions found, and changes to users seen at once.

@@ -3,9 +3,9 @@ import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import bcrypt from 'bcryptjs';
 import { parse } from 'csv-parse/sync';
 import { extractText, getDocumentProxy } from 'unpdf';
-import { createTestApp, DEMO_PASSWORD, signInApi, signInPages, type TestApp } from '../helpers/app';
-import { estimateSnapshot, YEAR, SEASON } from '../helpers/register-scenario';
-import { acToHa } from '../../shared/calc/units';
+import { createTestApp, DEMO_PASSWORD, signInApi, signInPages, type TestApp } from '../../helpers/app';
+import { estimateSnapshot, YEAR, SEASON } from '../../helpers/register-scenario';
+import { acToHa } from '../../../shared/calc/units';
 
 /*
  * The organisation's register as a background job: a new organisation of its own with 10 ranches ×

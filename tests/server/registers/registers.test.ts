@@ -4,10 +4,10 @@ import request from 'supertest';
 import type { Knex } from 'knex';
 import { parse } from 'csv-parse/sync';
 import { extractText, getDocumentProxy } from 'unpdf';
-import { createTestApp, csrfFromHtml, signInApi, signInPages, type TestApp } from '../helpers/app';
-import { ORG, OTHER_ORG, YEAR, buildHandWorkedScenario, insertField, insertRanch } from '../helpers/register-scenario';
-import { HttpError } from '../../server/http/errors';
-import { computeRegister, diffRegisters, finaliseRegister, organisationSummary, canonicalJson, seasonOfYear, reportingYearOf } from '../../server/services/registers';
+import { createTestApp, csrfFromHtml, signInApi, signInPages, type TestApp } from '../../helpers/app';
+import { ORG, OTHER_ORG, YEAR, buildHandWorkedScenario, insertField, insertRanch } from '../../helpers/register-scenario';
+import { HttpError } from '../../../server/platform/errors';
+import { computeRegister, diffRegisters, finaliseRegister, organisationSummary, canonicalJson, seasonOfYear, reportingYearOf } from '../../../server/registers/service';
 
 /*
  * Hand-worked register for reporting year 2025 (season 2024-25) of "Hand-Worked Ranch".
@@ -56,7 +56,7 @@ afterEach(async () => {
 const rowOf = (reg: { rows: { fieldName: string }[] }, name: string) => {
   const row = reg.rows.find((r) => r.fieldName === name);
   if (!row) throw new Error(`no row ${name}`);
-  return row as never as import('../../server/services/registers').RegisterRow;
+  return row as never as import('../../../server/registers/service').RegisterRow;
 };
 const codes = (r: { reasons: { code: string }[] }) => r.reasons.map((x) => x.code);
 

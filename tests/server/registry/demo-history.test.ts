@@ -1,9 +1,9 @@
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
-import { createTestApp, type TestApp } from '../helpers/app';
-import { seedDemoHistory } from '../../seeds/06_demo_history';
-import { computeRegisters } from '../../server/services/registers';
-import { DEMO_ORGANISATIONS } from '../../seeds/demo-people';
-import { seasonOfDate, seasonStartYear, todayIso } from '../../shared/registry/season';
+import { createTestApp, type TestApp } from '../../helpers/app';
+import { seedDemoHistory } from '../../../seeds/06_demo_history';
+import { computeRegisters } from '../../../server/registers/service';
+import { DEMO_ORGANISATIONS } from '../../../seeds/demo-people';
+import { seasonOfDate, seasonStartYear, todayIso } from '../../../shared/registry/season';
 
 let t: TestApp;
 beforeEach(async () => {

@@ -3,8 +3,8 @@ import os from 'node:os';
 import path from 'node:path';
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import request from 'supertest';
-import { createTestApp, csrfFromHtml, signInPages, type TestApp } from '../helpers/app';
-import { safeCsvCell, toCsv } from '../../server/http/csv-safe';
+import { createTestApp, csrfFromHtml, signInPages, type TestApp } from '../../helpers/app';
+import { safeCsvCell, toCsv } from '../../../server/platform/csv-safe';
 import {
   EXAMPLE_HEADER,
   EXAMPLE_ROWS,
@@ -21,9 +21,9 @@ import {
   parseDate,
   parseNumber,
   parseSeason,
-} from '../../server/services/registry-import';
-import { acToHa, lbPerAcToKgPerHa } from '../../shared/calc/units';
-import { seasonOfDate, todayIso } from '../../shared/registry/season';
+} from '../../../server/registry/import/service';
+import { acToHa, lbPerAcToKgPerHa } from '../../../shared/calc/units';
+import { seasonOfDate, todayIso } from '../../../shared/registry/season';
 
 const FIXTURES = path.resolve('tests/fixtures/import');
 const fixture = (name: string) => fs.readFileSync(path.join(FIXTURES, name));

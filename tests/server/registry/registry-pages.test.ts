@@ -1,8 +1,8 @@
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import request from 'supertest';
-import { createTestApp, csrfFromHtml, signInPages, type TestApp } from '../helpers/app';
-import { acToHa } from '../../shared/calc/units';
-import { seasonOfDate, todayIso } from '../../shared/registry/season';
+import { createTestApp, csrfFromHtml, signInPages, type TestApp } from '../../helpers/app';
+import { acToHa } from '../../../shared/calc/units';
+import { seasonOfDate, todayIso } from '../../../shared/registry/season';
 
 let t: TestApp;
 beforeEach(async () => {

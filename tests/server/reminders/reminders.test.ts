@@ -1,10 +1,10 @@
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import { pino } from 'pino';
-import { createTestApp, type TestApp } from '../helpers/app';
-import { createMailer } from '../../server/mail/mailer';
-import { runReminderJob } from '../../server/jobs/daily';
-import { DEMO_ORGANISATIONS, DEMO_USERS } from '../../seeds/demo-people';
-import { addDaysIso } from '../../shared/registry/season';
+import { createTestApp, type TestApp } from '../../helpers/app';
+import { createMailer } from '../../../server/mail/mailer';
+import { runReminderJob } from '../../../server/reminders/daily';
+import { DEMO_ORGANISATIONS, DEMO_USERS } from '../../../seeds/demo-people';
+import { addDaysIso } from '../../../shared/registry/season';
 
 let t: TestApp;
 const TODAY = '2027-02-20';

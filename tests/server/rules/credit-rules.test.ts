@@ -1,10 +1,10 @@
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import request from 'supertest';
-import { createTestApp, csrfFromHtml, signInApi, signInPages, type TestApp } from '../helpers/app';
-import { lbPerAcToKgPerHa } from '../../shared/calc/units';
-import { DEMO_ORGANISATIONS } from '../../seeds/demo-people';
-import { creditRuleForYear, currentCreditRule } from '../../server/services/credit-rule';
-import { insertRuleVersion } from '../../server/db/credit-rules';
+import { createTestApp, csrfFromHtml, signInApi, signInPages, type TestApp } from '../../helpers/app';
+import { lbPerAcToKgPerHa } from '../../../shared/calc/units';
+import { DEMO_ORGANISATIONS } from '../../../seeds/demo-people';
+import { creditRuleForYear, currentCreditRule } from '../../../server/rules/service';
+import { insertRuleVersion } from '../../../server/rules/db';
 
 let t: TestApp;
 beforeEach(async () => {

@@ -1,10 +1,10 @@
 import { randomUUID } from 'node:crypto';
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import request from 'supertest';
-import { createTestApp, signInApi, type TestApp } from '../helpers/app';
-import { seasonOfDate, todayIso } from '../../shared/registry/season';
-import { todayResponseSchema, type TodayItem } from '../../shared/schemas/walks';
-import { DEMO_ORGANISATIONS, DEMO_USERS } from '../../seeds/demo-people';
+import { createTestApp, signInApi, type TestApp } from '../../helpers/app';
+import { seasonOfDate, todayIso } from '../../../shared/registry/season';
+import { todayResponseSchema, type TodayItem } from '../../../shared/schemas/walks';
+import { DEMO_ORGANISATIONS, DEMO_USERS } from '../../../seeds/demo-people';
 
 // GET /api/today: the signed-in user's plantings due for a walk (README, Field walks API).
 

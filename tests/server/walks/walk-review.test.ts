@@ -4,12 +4,12 @@ import os from 'node:os';
 import path from 'node:path';
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import request from 'supertest';
-import { createTestApp, csrfFromHtml, signInApi, signInPages, type TestApp } from '../helpers/app';
-import { seasonOfDate, todayIso } from '../../shared/registry/season';
-import { duePlantings } from '../../server/db/walks';
-import { dotPlotSvg, mapSketchSvg, walksCsv } from '../../server/routes/office/walk-review';
-import { DEMO_WALK_IDS } from '../../seeds/04_demo_walks';
-import { DEMO_ORGANISATIONS, DEMO_USERS } from '../../seeds/demo-people';
+import { createTestApp, csrfFromHtml, signInApi, signInPages, type TestApp } from '../../helpers/app';
+import { seasonOfDate, todayIso } from '../../../shared/registry/season';
+import { duePlantings } from '../../../server/walks/db';
+import { dotPlotSvg, mapSketchSvg, walksCsv } from '../../../server/walks/review-pages';
+import { DEMO_WALK_IDS } from '../../../seeds/04_demo_walks';
+import { DEMO_ORGANISATIONS, DEMO_USERS } from '../../../seeds/demo-people';
 
 // Walk review pages (README, "Walk review"). Each test gets a fresh in-memory database with the
 // demo scenario: organisation 1 has one submitted and one approved walk by sampler2@crowntip.test.

@@ -4,16 +4,16 @@ import os from 'node:os';
 import path from 'node:path';
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import request from 'supertest';
-import { createTestApp, signInApi, signInPages, type TestApp } from '../helpers/app';
-import { estimateBiomass, fitCalibration, type Fit } from '../../shared/calc';
-import { addDaysIso, seasonOfDate, todayIso } from '../../shared/registry/season';
-import { walkEstimateSchema, walkPhotoSchema, walkSchema, type Walk } from '../../shared/schemas/walks';
-import { insertCalibration, insertDataset, markPublished, setAssignment } from '../../server/db/calibrations';
-import { duePlantings } from '../../server/db/walks';
-import { createWalk as createWalkInService } from '../../server/services/walks';
-import { seasonRows } from '../../server/services/season-view';
-import { DEMO_WALK_IDS } from '../../seeds/04_demo_walks';
-import { DEMO_ORGANISATIONS, DEMO_USERS } from '../../seeds/demo-people';
+import { createTestApp, signInApi, signInPages, type TestApp } from '../../helpers/app';
+import { estimateBiomass, fitCalibration, type Fit } from '../../../shared/calc';
+import { addDaysIso, seasonOfDate, todayIso } from '../../../shared/registry/season';
+import { walkEstimateSchema, walkPhotoSchema, walkSchema, type Walk } from '../../../shared/schemas/walks';
+import { insertCalibration, insertDataset, markPublished, setAssignment } from '../../../server/calibrations/db';
+import { duePlantings } from '../../../server/walks/db';
+import { createWalk as createWalkInService } from '../../../server/walks/service';
+import { seasonRows } from '../../../server/registry/season-view';
+import { DEMO_WALK_IDS } from '../../../seeds/04_demo_walks';
+import { DEMO_ORGANISATIONS, DEMO_USERS } from '../../../seeds/demo-people';
 
 // Field walks (../shared/API.md, Field walks). Every test runs on a fresh in-memory database with
 // the demo scenario and its own uploads folder; the walks it posts are invented.
