@@ -55,6 +55,12 @@ export interface Fit {
    * basis because raw x², x⁴ products would lose digits (NIST Pontius has x up to 3·10⁶).
    */
   basis: { centre: number; scale: number };
+  /**
+   * The coefficients in that basis (y, or ln y, = γ0 + γ1·u (+ γ2·u²)). The quadratic predicts from
+   * these: the raw a + b·x + c·x² cancels digits when x is far from 0. Absent in fits stored before
+   * it was added; those predict from the raw coefficients.
+   */
+  centredCoefficients?: number[];
   covUnscaled: number[][];
   /** Human-readable equation, e.g. "y = 0.8105 · x^1.775 × 1.024". */
   equation: string;

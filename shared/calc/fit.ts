@@ -183,20 +183,32 @@ export function fitCalibration(points: CalibrationPoint[], model: ModelKind): Fi
     cf = acc / n;
   }
 
-  // Leave-one-out by the closed form: on the fitted scale the deleted residual is e_i/(1 − h_ii).
-  // For the log models the left-out prediction is back-transformed with the full-fit smearing factor
-  // (an approximation; recomputing the factor n times without point i changes it negligibly at the
-  // sample sizes of a calibration and would cost O(n²)).
+  // Leave-one-out by the closed form: on the fitted scale the deleted residual is e_i/(1 − h_ii),
+  // exactly what refitting without point i gives. For the log models the smearing factor is
+  // refitted too: without point i the other residuals become e_j + h_ji·e_i/(1 − h_ii) (the
+  // rank-one downdate of the fit), and the factor is their mean exp. O(n²), exact as a refit.
   let looSS = 0;
   let looOk = true;
+  const Qa: number[][] = Array.from({ length: n }, (_, i) => Array.from({ length: p }, (_, j) => Q.get(i, j)));
   for (let i = 0; i < n; i++) {
     const denom = 1 - h[i];
     if (denom < 1e-10) {
       looOk = false;
       break;
     }
-    const rLoo = r[i] - e[i] / denom;
-    const yLoo = log ? Math.exp(rLoo) * cf : rLoo;
+    const shift = e[i] / denom;
+    const rLoo = r[i] - shift;
+    let yLoo = rLoo;
+    if (log) {
+      let acc = 0;
+      for (let j = 0; j < n; j++) {
+        if (j === i) continue;
+        let hji = 0;
+        for (let k = 0; k < p; k++) hji += Qa[j][k] * Qa[i][k];
+        acc += Math.exp(e[j] + hji * shift);
+      }
+      yLoo = Math.exp(rLoo) * (acc / (n - 1));
+    }
     looSS += (pts[i].y - yLoo) ** 2;
   }
 
@@ -221,6 +233,7 @@ export function fitCalibration(points: CalibrationPoint[], model: ModelKind): Fi
     biasCorrection: cf,
     biasCorrectionMethod: log ? 'smearing' : 'none',
     basis: { centre, scale },
+    centredCoefficients: gamma,
     covUnscaled: C,
     equation: equationOf(model, coefficients, cf),
   };

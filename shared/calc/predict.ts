@@ -29,6 +29,7 @@ export function assertFit(fit: unknown): asserts fit is Fit {
   if (!finiteArray(f!.xRange, 2) || f!.xRange![0] > f!.xRange![1]) bad('xRange');
   const b = f!.basis;
   if (!b || !Number.isFinite(b.centre) || !Number.isFinite(b.scale) || !(b.scale > 0)) bad('basis');
+  if (f!.centredCoefficients !== undefined && !finiteArray(f!.centredCoefficients, p)) bad('centredCoefficients');
   if (!Array.isArray(f!.covUnscaled) || f!.covUnscaled.length !== p || !f!.covUnscaled.every((r) => finiteArray(r, p))) bad('covUnscaled');
   checked.add(f as object);
 }
@@ -47,8 +48,12 @@ export function linearPredictor(fit: Fit, x: number): number {
   switch (fit.model) {
     case 'linear':
       return c[0] + c[1] * x;
-    case 'quadratic':
-      return c[0] + x * (c[1] + c[2] * x);
+    case 'quadratic': {
+      const g = fit.centredCoefficients;
+      if (!g) return c[0] + x * (c[1] + c[2] * x);
+      const u = (x - fit.basis.centre) / fit.basis.scale;
+      return g[0] + u * (g[1] + g[2] * u);
+    }
     case 'power':
       return fit.fittedScaleCoefficients[0] + c[1] * Math.log(x);
     case 'exponential':

@@ -38,31 +38,32 @@ describe('linear fit: cross-check with simple-statistics and by hand', () => {
     expect((pi[0] + pi[1]) / 2).toBeCloseTo(yhat, 10);
   });
 
-  it('published worked example A: 99% prediction interval at x = 14', () => {
-    // Worked solution published at brilliantassignmenthelp.com ("Construct the indicated prediction
-    // interval for an individual y", stored copy): x 9 7 2 3 4 22 17, y 43 35 16 21 23 102 81;
-    // ŷ = 6.1829 + 4.3394x, s_e = 1.6419, t = 4.032; 99% PI (59.6490, 74.2192).
-    const xs = [9, 7, 2, 3, 4, 22, 17];
-    const ys = [43, 35, 16, 21, 23, 102, 81];
-    const g = fitCalibration(xs.map((x, i) => ({ x, y: ys[i] })), 'linear');
-    expect(g.coefficients[0]).toBeCloseTo(6.1829, 3);
-    expect(g.coefficients[1]).toBeCloseTo(4.3394, 3);
-    expect(g.residualStdError).toBeCloseTo(1.6419, 3);
-    const pi = interval(g, 14, { kind: 'prediction', level: 0.99 });
-    expect(pi[0]).toBeCloseTo(59.649, 2);
-    expect(pi[1]).toBeCloseTo(74.2192, 2);
-  });
-
-  it('published worked example B: 95% prediction and confidence intervals at x = 1', () => {
-    // Worked solution published at wizedu.com (stored copy): points (−1,−1),(2,0),(6,5),(9,6),(12,11);
-    // t = 3.182; single value (−4.4960, 4.5217), mean value (−2.3838, 2.4094).
-    const g = fitCalibration([[-1, -1], [2, 0], [6, 5], [9, 6], [12, 11]].map(([x, y]) => ({ x, y })), 'linear');
-    const pi = interval(g, 1, { kind: 'prediction' });
-    const ci = interval(g, 1, { kind: 'confidence' });
-    expect(pi[0]).toBeCloseTo(-4.496, 2);
-    expect(pi[1]).toBeCloseTo(4.5217, 2);
-    expect(ci[0]).toBeCloseTo(-2.3838, 2);
-    expect(ci[1]).toBeCloseTo(2.4094, 2);
+  it('hand-worked example: 95 % and 90 % intervals at x = 3.5, every step written out', () => {
+    // Invented data, n = 4: x 1 2 3 4, y 3 5 4 8.
+    //   x̄ = 2.5, ȳ = 5; Sxx = 2.25 + 0.25 + 0.25 + 2.25 = 5;
+    //   Sxy = (−1.5)(−2) + (−0.5)(0) + (0.5)(−1) + (1.5)(3) = 3 + 0 − 0.5 + 4.5 = 7;
+    //   b = 7/5 = 1.4, a = 5 − 1.4·2.5 = 1.5.
+    //   fitted 2.9 4.3 5.7 7.1; residuals 0.1 0.7 −1.7 0.9; SSE = 0.01 + 0.49 + 2.89 + 0.81 = 4.2;
+    //   df = 2, s² = 2.1.
+    //   At x0 = 3.5: ŷ = 1.5 + 1.4·3.5 = 6.4; q = 1/4 + (3.5 − 2.5)²/5 = 0.45.
+    //   t for df 2 in closed form, t = (2p − 1)/√(2p(1 − p)):
+    //     95 % two-sided, p = 0.975: 0.95/√0.04875 = 4.302652729749464
+    //     90 % two-sided, p = 0.95:  0.90/√0.095   = 2.919985580353725
+    //   prediction half-width t·√(s²(1 + q)) = t·√3.045; confidence half-width t·√(s²q) = t·√0.945.
+    const g = fitCalibration([[1, 3], [2, 5], [3, 4], [4, 8]].map(([x, y]) => ({ x, y })), 'linear');
+    expect(rel(g.coefficients[0], 1.5)).toBeLessThan(1e-12);
+    expect(rel(g.coefficients[1], 1.4)).toBeLessThan(1e-12);
+    expect(rel(g.residualStdError ** 2, 2.1)).toBeLessThan(1e-12);
+    const t95 = 0.95 / Math.sqrt(0.04875);
+    const t90 = 0.9 / Math.sqrt(0.095);
+    for (const [level, t] of [[0.95, t95], [0.9, t90]]) {
+      const pi = interval(g, 3.5, { kind: 'prediction', level });
+      const ci = interval(g, 3.5, { kind: 'confidence', level });
+      expect(rel(pi[0], 6.4 - t * Math.sqrt(3.045))).toBeLessThan(1e-12);
+      expect(rel(pi[1], 6.4 + t * Math.sqrt(3.045))).toBeLessThan(1e-12);
+      expect(rel(ci[0], 6.4 - t * Math.sqrt(0.945))).toBeLessThan(1e-12);
+      expect(rel(ci[1], 6.4 + t * Math.sqrt(0.945))).toBeLessThan(1e-12);
+    }
   });
 });
 
@@ -129,19 +130,42 @@ describe('leave-one-out RMSE (closed form) equals refitting without each point',
   it.each(MODELS.map((m) => [m]))('%s', (model) => {
     const f = fitCalibration(pts, model as ModelKind);
     let ssq = 0;
-    let ssqExactCf = 0;
     for (let i = 0; i < pts.length; i++) {
-      const rest = pts.filter((_, j) => j !== i);
-      const g = fitCalibration(rest, model as ModelKind);
-      // Documented approximation: the left-out prediction uses the full fit's smearing factor.
-      const yhat = (predict(g, pts[i].x) / g.biasCorrection) * f.biasCorrection;
-      ssq += (pts[i].y - yhat) ** 2;
-      ssqExactCf += (pts[i].y - predict(g, pts[i].x)) ** 2;
+      // A full refit without point i, its own smearing factor included (log models).
+      const g = fitCalibration(pts.filter((_, j) => j !== i), model as ModelKind);
+      ssq += (pts[i].y - predict(g, pts[i].x)) ** 2;
     }
-    const brute = Math.sqrt(ssq / pts.length);
-    expect(rel(f.looRmse as number, brute)).toBeLessThan(1e-9);
-    // …and the approximation is close to a full refit of the factor too.
-    expect(rel(f.looRmse as number, Math.sqrt(ssqExactCf / pts.length))).toBeLessThan(0.01);
+    expect(rel(f.looRmse as number, Math.sqrt(ssq / pts.length))).toBeLessThan(1e-9);
+  });
+
+  it('also at small n, where reusing the full-fit factor was off by several per cent', () => {
+    const few = powerPoints(6, 21, 3.4, 1.65, 0.45);
+    const f = fitCalibration(few, 'power');
+    let ssq = 0;
+    for (let i = 0; i < few.length; i++) {
+      const g = fitCalibration(few.filter((_, j) => j !== i), 'power');
+      ssq += (few[i].y - predict(g, few[i].x)) ** 2;
+    }
+    expect(rel(f.looRmse as number, Math.sqrt(ssq / few.length))).toBeLessThan(1e-9);
+  });
+});
+
+describe('quadratic predictions in the centred basis', () => {
+  it('far from x = 0 the prediction keeps its digits', () => {
+    // Exact data y = 5 + 3·d + 2·d², d = x − 10⁶, at d = −3 … 3. By hand at x = 10⁶ + 0.5:
+    // 5 + 1.5 + 2·0.25 = 7. The raw form a + b·x + c·x² has a ≈ 2·10¹², so evaluating it cancels
+    // about 12 of the 16 digits; the centred form does not.
+    const X0 = 1e6;
+    const f = fitCalibration([-3, -2, -1, 0, 1, 2, 3].map((d) => ({ x: X0 + d, y: 5 + 3 * d + 2 * d * d })), 'quadratic');
+    expect(rel(predict(f, X0 + 0.5), 7)).toBeLessThan(1e-10);
+    expect(rel(predict(f, X0 - 2.25), 5 - 6.75 + 2 * 5.0625)).toBeLessThan(1e-10);
+  });
+
+  it('a quadratic fit stored before the centred coefficients existed still predicts (raw form)', () => {
+    const f = fitCalibration([0, 1, 2, 3, 4, 5].map((x) => ({ x, y: 1 + 2 * x + 3 * x * x })), 'quadratic');
+    const old = { ...f } as Partial<Fit>;
+    delete old.centredCoefficients;
+    expect(predict(old as Fit, 2.5)).toBeCloseTo(1 + 5 + 3 * 6.25, 9);
   });
 });
 
@@ -161,7 +185,7 @@ describe('a Fit is plain JSON', () => {
     const f = fitCalibration(powerPoints(30, 5), 'power');
     expect(Object.keys(f).sort()).toEqual(
       [
-        'basis', 'biasCorrection', 'biasCorrectionMethod', 'coefficients', 'covUnscaled', 'df', 'equation',
+        'basis', 'biasCorrection', 'biasCorrectionMethod', 'centredCoefficients', 'coefficients', 'covUnscaled', 'df', 'equation',
         'fittedScaleCoefficients', 'looRmse', 'model', 'n', 'rSquared', 'residualStdError', 'schema',
         'standardErrors', 'xRange', 'yRange',
       ].sort(),
