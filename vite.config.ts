@@ -3,6 +3,7 @@ import { defineConfig } from 'vite';
 import react from '@vitejs/plugin-react';
 import tailwindcss from '@tailwindcss/vite';
 import { VitePWA } from 'vite-plugin-pwa';
+import { precompress } from './scripts/precompress';
 
 // Absolute, so the server can load this file in middleware mode from any working directory.
 const root = fileURLToPath(new URL('./client', import.meta.url));
@@ -78,6 +79,8 @@ export default defineConfig({
         skipWaiting: false,
       },
     }),
+    // .br and .gz beside each text file of client/dist, written after the service worker.
+    precompress(),
   ],
   build: {
     outDir: 'dist',
