@@ -23,12 +23,49 @@ export const persister = createAsyncStoragePersister({
   },
   key: KEY,
   throttleTime: 500,
+  serialize: (client) => JSON.stringify(keptOnPhone(client)),
 });
+
+interface QueryStateLike {
+  status: string;
+  data?: unknown;
+  error?: unknown;
+}
+
+/** The server's own answer that the session is over; network trouble and 5xx are not. */
+function signedOut(error: unknown): boolean {
+  return (error as { status?: unknown } | null)?.status === 401;
+}
 
 // Typed structurally: the persister packages pin their own query-core patch version (vite.config.ts
 // dedupes them to one copy at build time), so the nominal Query types differ by a patch release.
-export function shouldPersist(query: { state: { status: string }; queryKey: readonly unknown[] }): boolean {
-  return query.state.status === 'success' && PERSISTED_ROOTS.has(String(query.queryKey[0]));
+/**
+ * A listed query is kept while it has an answer, even when the last refetch failed: without signal
+ * every refetch fails, and dropping the answer then locked the app on the next load. Only the
+ * server saying the session is over (401) drops it.
+ */
+export function shouldPersist(query: { state: QueryStateLike; queryKey: readonly unknown[] }): boolean {
+  if (!PERSISTED_ROOTS.has(String(query.queryKey[0]))) return false;
+  if (signedOut(query.state.error)) return false;
+  return query.state.data !== undefined;
+}
+
+/**
+ * What is written to the phone: a query whose refetch failed is kept as its last answer (not as
+ * the failure), so the next load starts from that answer and simply tries the server again.
+ */
+export function keptOnPhone<C extends { clientState: { queries: Array<{ state: QueryStateLike }> } }>(client: C): C {
+  return {
+    ...client,
+    clientState: {
+      ...client.clientState,
+      queries: client.clientState.queries.map((q) =>
+        q.state.status === 'error' && q.state.data !== undefined
+          ? { ...q, state: { ...q.state, status: 'success', error: null, fetchFailureCount: 0, fetchFailureReason: null } }
+          : q,
+      ),
+    },
+  };
 }
 
 export async function clearPersistedCache(): Promise<void> {
