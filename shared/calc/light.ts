@@ -14,6 +14,8 @@ export * from './estimate';
 export * from './combined';
 export * from './power';
 export * from './verdict';
+export * from './outliers';
+export * from './nitrogen';
 export * from './lookup';
 export * from './dates';
 export * from './rules';

@@ -1,4 +1,5 @@
 import { USUAL_SAMPLE_SIZE } from '../calc/estimate';
+import { OUTLIER_Z, median, outlierIndexes, robustZ } from '../calc/outliers';
 import type { WalkEstimate } from '../schemas/walks';
 
 /*
@@ -8,50 +9,9 @@ import type { WalkEstimate } from '../schemas/walks';
  * (and later the phone) put the words in the reader's units.
  */
 
-/**
- * Cut-off of the modified z-score, 0.6745·|x − median| / MAD = |x − median| / (1.4826·MAD):
- * common practice (Iglewicz and Hoaglin's modified z-score), from memory.
- */
-export const OUTLIER_Z = 3.5;
-/** 1 / Φ⁻¹(0.75): makes the MAD estimate the standard deviation of normal data. */
-export const MAD_SCALE = 1.4826;
-/** √(π/2): the same for the mean absolute deviation, used when the MAD is 0 (from memory). */
-export const MEAN_AD_SCALE = 1.253314;
-/** With fewer plants the median and MAD say too little to call one plant odd. */
-export const OUTLIER_MIN_N = 4;
-
-export function median(values: readonly number[]): number {
-  if (!values.length) return NaN;
-  const s = [...values].sort((a, b) => a - b);
-  const mid = s.length >> 1;
-  return s.length % 2 ? s[mid] : (s[mid - 1] + s[mid]) / 2;
-}
-
-/**
- * The robust z of each value: |x − median| / (1.4826·MAD). When more than half the values are
- * equal the MAD is 0; then the mean absolute deviation from the median stands in (× 1.253314).
- * All zeros when every value is the same; empty below OUTLIER_MIN_N values.
- */
-export function robustZ(values: readonly number[]): number[] {
-  if (values.length < OUTLIER_MIN_N) return [];
-  const m = median(values);
-  const dev = values.map((v) => Math.abs(v - m));
-  const mad = median(dev);
-  let scale = MAD_SCALE * mad;
-  if (!(scale > 0)) scale = MEAN_AD_SCALE * (dev.reduce((a, b) => a + b, 0) / dev.length);
-  if (!(scale > 0)) return values.map(() => 0);
-  return dev.map((d) => d / scale);
-}
-
-/** Indexes of the values more than `cutoff` robust z from the median (none below OUTLIER_MIN_N values). */
-export function outlierIndexes(values: readonly number[], cutoff = OUTLIER_Z): number[] {
-  const z = robustZ(values);
-  const out: number[] = [];
-  z.forEach((v, i) => {
-    if (v > cutoff) out.push(i);
-  });
-  return out;
-}
+// The outlier rule lives in the estimation core, shared with the capture app; re-exported here for
+// the office pages that import it from this file.
+export { MAD_SCALE, MEAN_AD_SCALE, OUTLIER_MIN_N, OUTLIER_Z, median, outlierIndexes, robustZ } from '../calc/outliers';
 
 export type WalkFlagCode = 'outlier' | 'extrapolated' | 'no_calibration' | 'few_plants' | 'borderline';
 
