@@ -37,6 +37,8 @@ export const walkCreateSchema = z.object({
     .min(1, 'Measure at least one plant.')
     .max(MAX_PLANTS)
     .refine((plants) => new Set(plants.map((p) => p.stop)).size === plants.length, 'Each stop appears once.'),
+  /** Stops the sampler chose to skip (no plant measured there); optional, older phones leave it out. */
+  skippedStops: z.array(z.number().int().min(1).max(MAX_PLANTS)).max(MAX_PLANTS).optional(),
 });
 export type WalkCreate = z.infer<typeof walkCreateSchema>;
 

@@ -42,8 +42,15 @@ export interface DraftReview {
   body: WalkCreate;
   /** Stops with a refused or unconfirmed questioned value: sending waits for them. */
   needCheck: number[];
-  /** Stops left empty: left out of the walk. */
+  /** Stops left empty without being skipped: left out of the walk. */
   empty: number[];
+  /** Stops the sampler chose to skip (sent with the walk as skipped). */
+  skipped: number[];
+}
+
+/** A stop counts as skipped while it is still empty; typing a length there takes the skip back. */
+export function isSkipped(draft: WalkDraft, stop: number): boolean {
+  return (draft.skipped ?? []).includes(stop) && (draft.values[stop] ?? '').trim() === '';
 }
 
 /** What would be sent, in SI units (cm), and what stands in the way. */
@@ -51,8 +58,9 @@ export function reviewDraft(draft: WalkDraft, states = stopStates(draft)): Draft
   const plants: WalkCreate['plants'] = [];
   const needCheck: number[] = [];
   const empty: number[] = [];
+  const skipped: number[] = [];
   for (const s of states) {
-    if (s.check.kind === 'empty') empty.push(s.stop);
+    if (s.check.kind === 'empty') (isSkipped(draft, s.stop) ? skipped : empty).push(s.stop);
     else if (!s.accepted || s.check.kind === 'refused') needCheck.push(s.stop);
     else {
       const pos = draft.positions[s.stop];
@@ -72,9 +80,11 @@ export function reviewDraft(draft: WalkDraft, states = stopStates(draft)): Draft
       stage: draft.stage,
       notes: notes === '' ? null : notes,
       plants,
+      ...(skipped.length > 0 ? { skippedStops: skipped } : {}),
     },
     needCheck,
     empty,
+    skipped,
   };
 }
 

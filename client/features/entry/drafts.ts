@@ -35,6 +35,8 @@ export interface WalkDraft {
   /** Questioned values the sampler confirmed: the text they confirmed. */
   confirmed: Record<number, string>;
   positions: Record<number, { lat: number; lon: number; accuracyM: number }>;
+  /** Stops the sampler chose to skip after being asked (absent in drafts from older versions). */
+  skipped?: number[];
   photos: Record<number, { key: string; size: number; type: string }>;
   stage: string | null;
   notes: string;

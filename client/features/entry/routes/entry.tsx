@@ -7,7 +7,7 @@ import { useFormat } from '../../session/api';
 import { usePosition } from '../../walk/use-position';
 import { EstimatePanel } from '../../estimate/components/estimate-panel';
 import type { WalkDraft } from '../drafts';
-import { acceptedLengthsCm, stopStates } from '../draft-review';
+import { acceptedLengthsCm, isSkipped, stopStates } from '../draft-review';
 import { WithDraft, type UpdateDraft } from '../components/with-draft';
 import { useLiveEstimate } from '../use-live-estimate';
 import { fromCm, QUESTION_ABOVE_CM, type LengthCheck } from '../validation';
@@ -27,6 +27,8 @@ function Entry({ draft, update }: { draft: WalkDraft; update: UpdateDraft }) {
   const input = useRef<HTMLInputElement>(null);
   const [attempted, setAttempted] = useState(false);
   const [tooMany, setTooMany] = useState(false);
+  const [askSkip, setAskSkip] = useState(false);
+  const nextButton = useRef<HTMLButtonElement>(null);
 
   const states = useMemo(() => stopStates(draft), [draft]);
   const lengths = useMemo(() => acceptedLengthsCm(states), [states]);
@@ -41,6 +43,7 @@ function Entry({ draft, update }: { draft: WalkDraft; update: UpdateDraft }) {
 
   useEffect(() => {
     setAttempted(false);
+    setAskSkip(false);
     input.current?.focus();
   }, [stop]);
 
@@ -54,6 +57,17 @@ function Entry({ draft, update }: { draft: WalkDraft; update: UpdateDraft }) {
       input.current?.focus();
       return;
     }
+    // An empty stop is never passed silently: the sampler says it is skipped (or measures it).
+    if (state.check.kind === 'empty' && !isSkipped(draft, stop)) {
+      setAskSkip(true);
+      return;
+    }
+    advance();
+  }
+
+  function skip() {
+    setAskSkip(false);
+    update((d) => ({ ...d, skipped: [...new Set([...(d.skipped ?? []), stop])].sort((a, b) => a - b) }));
     advance();
   }
 
@@ -70,9 +84,10 @@ function Entry({ draft, update }: { draft: WalkDraft; update: UpdateDraft }) {
     if (last) navigate(`/walks/${draft.id}/finish`);
   }
 
+  // Confirming only keeps the value; Next moves on, so "Yes" then "Next" is one stop, never two.
   function confirm() {
     update((d) => ({ ...d, confirmed: { ...d.confirmed, [stop]: text } }));
-    advance();
+    nextButton.current?.focus();
   }
 
   function addStop() {
@@ -125,6 +140,7 @@ function Entry({ draft, update }: { draft: WalkDraft; update: UpdateDraft }) {
             aria-invalid={attempted && state.check.kind === 'refused'}
             onChange={(e) => {
               const v = e.target.value;
+              setAskSkip(false);
               update((d) => ({ ...d, values: { ...d.values, [stop]: v } }));
             }}
             className="min-h-20 w-full min-w-0 rounded-xl border-4 border-loam-400 bg-white px-4 text-5xl font-bold tabular-nums focus:border-shoot"
@@ -138,9 +154,35 @@ function Entry({ draft, update }: { draft: WalkDraft; update: UpdateDraft }) {
         </p>
         <div id="length-check" aria-live="assertive">
           {attempted && <CheckMessage check={state.check} accepted={state.accepted} inUnit={inUnit} onConfirm={confirm} />}
+          {askSkip && (
+            <div role="alert" className="mt-2 rounded-lg border-l-8 border-straw-600 bg-straw-50 p-3">
+              <p className="text-lg font-bold">{t('entry.skipAsk', { n: stop })}</p>
+              <p>{t('entry.skipHelp')}</p>
+              <div className="mt-2 grid gap-2">
+                <button
+                  type="button"
+                  onClick={skip}
+                  className="min-h-14 rounded-xl border-2 border-loam bg-white px-3 text-lg font-bold"
+                >
+                  {t('entry.skipYes', { n: stop })}
+                </button>
+                <button
+                  type="button"
+                  onClick={() => {
+                    setAskSkip(false);
+                    input.current?.focus();
+                  }}
+                  className="min-h-14 rounded-xl border-2 border-loam bg-white px-3 text-lg font-bold"
+                >
+                  {t('entry.skipNo')}
+                </button>
+              </div>
+            </div>
+          )}
         </div>
 
         <button
+          ref={nextButton}
           type="submit"
           className="mt-3 min-h-16 w-full rounded-xl bg-shoot px-5 text-2xl font-bold text-white hover:bg-shoot-800"
         >
@@ -178,6 +220,7 @@ function Entry({ draft, update }: { draft: WalkDraft; update: UpdateDraft }) {
         <ol className="flex flex-wrap gap-2">
           {states.map((s) => {
             const filled = s.check.kind !== 'empty';
+            const skipped = !filled && isSkipped(draft, s.stop);
             // The stop being typed is flagged only once Next was pressed on it.
             const flagged = filled && !s.accepted && (s.stop !== stop || attempted);
             const current = s.stop === stop;
@@ -187,10 +230,16 @@ function Entry({ draft, update }: { draft: WalkDraft; update: UpdateDraft }) {
                   type="button"
                   onClick={() => go(s.stop)}
                   aria-current={current ? 'step' : undefined}
-                  aria-label={filled ? t('entry.stopChipDone', { n: s.stop, value: `${s.text} ${unitLabel}` }) : t('entry.stopChip', { n: s.stop })}
+                  aria-label={
+                    filled
+                      ? t('entry.stopChipDone', { n: s.stop, value: `${s.text} ${unitLabel}` })
+                      : skipped
+                        ? t('entry.stopChipSkipped', { n: s.stop })
+                        : t('entry.stopChip', { n: s.stop })
+                  }
                   className={`flex size-12 items-center justify-center rounded-lg border-2 text-lg font-bold ${
                     current ? 'border-loam ring-4 ring-straw' : 'border-loam-300'
-                  } ${flagged ? 'bg-clay text-white' : filled ? 'bg-shoot text-white' : 'bg-white'}`}
+                  } ${flagged ? 'bg-clay text-white' : filled ? 'bg-shoot text-white' : skipped ? 'border-dashed bg-loam-100 text-loam-600 line-through' : 'bg-white'}`}
                 >
                   {s.stop}
                 </button>

@@ -97,7 +97,13 @@ function Finish({ draft, update }: { draft: WalkDraft; update: UpdateDraft }) {
                 <span className="font-bold">{s.stop}</span>
                 <span className="flex flex-col items-end leading-tight">
                   <span className="tabular-nums">
-                    {s.check.kind === 'empty' ? <span className="text-loam-500">{t('finish.noLength')}</span> : `${s.text} ${unitLabel}`}
+                    {s.check.kind !== 'empty' ? (
+                      `${s.text} ${unitLabel}`
+                    ) : review.skipped.includes(s.stop) ? (
+                      <span className="text-loam-500">{t('finish.skippedMark')}</span>
+                    ) : (
+                      <span className="text-loam-500">{t('finish.noLength')}</span>
+                    )}
                   </span>
                   {draft.photos[s.stop] && <span className="text-sm font-bold text-sky-700">{t('finish.withPhoto')}</span>}
                 </span>
@@ -116,6 +122,9 @@ function Finish({ draft, update }: { draft: WalkDraft; update: UpdateDraft }) {
         )}
         {review.empty.length > 0 && n > 0 && (
           <p>{t('finish.empty', { count: review.empty.length, stops: review.empty.join(', ') })}</p>
+        )}
+        {review.skipped.length > 0 && (
+          <p>{t('finish.skipped', { count: review.skipped.length, stops: review.skipped.join(', ') })}</p>
         )}
         {n > 0 && n < USUAL_SAMPLE_SIZE && <p>{t('finish.few', { count: n, usual: USUAL_SAMPLE_SIZE })}</p>}
       </div>

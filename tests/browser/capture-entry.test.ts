@@ -1,0 +1,84 @@
+import { describe, expect, it } from 'vitest';
+import type { Page } from 'playwright-core';
+import { screenshot, signIn, SUITE_PASSWORD, useServerAndBrowser } from '../helpers/browser';
+
+/**
+ * The entry screen, one stop at a time: an empty Next asks before skipping a stop, a skipped stop
+ * is recorded and sent with the walk, and confirming a questioned length never moves on twice.
+ */
+
+const suite = useServerAndBrowser({}, { viewport: { width: 390, height: 844 } });
+
+async function startWalk(page: Page, email: string, field: RegExp) {
+  await signIn(page, suite.server.url, email, SUITE_PASSWORD);
+  await page.getByRole('link', { name: field }).first().click();
+  await page.getByRole('button', { name: /Start the walk|Empezar el recorrido/ }).click();
+}
+
+describe('/capture entry screen', () => {
+  it('asks before skipping an empty stop, records the skip and sends it; Yes then Next moves one stop', async () => {
+    const page = await suite.browser.context.newPage();
+    const errors: string[] = [];
+    page.on('pageerror', (e) => errors.push(e.message));
+    const posted: unknown[] = [];
+    page.on('request', (r) => {
+      if (r.method() === 'POST' && new URL(r.url()).pathname === '/api/walks') posted.push(r.postDataJSON());
+    });
+
+    await startWalk(page, 'sampler2@crowntip.test', /Open the walk plan for Bench 1/);
+    await page.getByRole('heading', { name: 'Stop 1 of 10' }).waitFor();
+    const label = /Main shoot length/;
+
+    // Next on an empty stop asks first; "No" stays on the stop.
+    await page.getByRole('button', { name: /Next/ }).click();
+    await page.getByText('Skip stop 1?').waitFor();
+    await screenshot(page, 'capture-entry-skip-en');
+    await page.getByRole('button', { name: 'No, measure it' }).click();
+    await page.getByRole('heading', { name: 'Stop 1 of 10' }).waitFor();
+    expect(await page.getByText('Skip stop 1?').count()).toBe(0);
+
+    // "Yes" skips it, and its chip says so.
+    await page.getByRole('button', { name: /Next/ }).click();
+    await page.getByRole('button', { name: 'Yes, skip stop 1' }).click();
+    await page.getByRole('heading', { name: 'Stop 2 of 10' }).waitFor();
+    await page.getByRole('button', { name: 'Stop 1: skipped' }).waitFor();
+
+    for (const [stop, v] of [[2, '30'], [3, '31'], [4, '29'], [5, '32']] as const) {
+      await page.getByRole('heading', { name: `Stop ${stop} of 10` }).waitFor();
+      await page.getByLabel(label).fill(v);
+      await page.getByRole('button', { name: /Next/ }).click();
+    }
+    // Stop 6: 3 in among ~30 in is questioned; "Yes, it is right" keeps it, then Next moves one stop.
+    await page.getByRole('heading', { name: 'Stop 6 of 10' }).waitFor();
+    await page.getByLabel(label).fill('3');
+    await page.getByRole('button', { name: /Next/ }).click();
+    await page.getByRole('button', { name: 'Yes, it is right' }).click();
+    await page.getByRole('button', { name: /Next/ }).click();
+    await page.getByRole('heading', { name: 'Stop 7 of 10' }).waitFor();
+    // Stop 7 was not skipped behind the sampler's back.
+    expect(await page.getByRole('button', { name: 'Stop 7: skipped' }).count()).toBe(0);
+    expect(await page.getByText('Skip stop 7?').count()).toBe(0);
+
+    for (const [stop, v] of [[7, '30'], [8, '31'], [9, '29']] as const) {
+      await page.getByRole('heading', { name: `Stop ${stop} of 10` }).waitFor();
+      await page.getByLabel(label).fill(v);
+      await page.getByRole('button', { name: /Next/ }).click();
+    }
+    await page.getByRole('heading', { name: 'Stop 10 of 10' }).waitFor();
+    await page.getByLabel(label).fill('30');
+    await page.getByRole('button', { name: 'Check and send' }).click();
+
+    await page.getByRole('heading', { name: 'Check and send', level: 1 }).waitFor();
+    await page.getByText('Stop 1 was skipped.').waitFor();
+    await screenshot(page, 'capture-finish-skipped-en');
+    await page.getByRole('button', { name: 'Send the walk' }).click();
+    await page.getByRole('heading', { name: /Walk sent/ }).waitFor({ timeout: 30_000 });
+
+    expect(posted).toHaveLength(1);
+    const body = posted[0] as { skippedStops?: number[]; plants: Array<{ stop: number }> };
+    expect(body.skippedStops).toEqual([1]);
+    expect(body.plants.map((p) => p.stop)).toEqual([2, 3, 4, 5, 6, 7, 8, 9, 10]);
+    expect(errors).toEqual([]);
+    await page.close();
+  });
+});
