@@ -2,12 +2,12 @@ import type { Config } from 'tailwindcss';
 
 /**
  * Crowntip's own palette and type, loaded by Tailwind v4 through `@config` in
- * client/styles/*.css. The token names are ours; contrast pairs we rely on
- * (WCAG 2.x ratios, checked when the palette was chosen):
- *   white on shoot (700) 7.6 · white on clay (600) 6.4 · white on sky (600) 7.2
- *   loam (900) on straw (400) 8.9 · loam on mist 14.6 · loam-500 on white 5.6
- *   clay-600 on mist 5.7 · loam-400 input border on white 3.4 (non-text, ≥ 3)
- * Straw is an accent for fills and borders only: never straw text on a light ground.
+ * client/styles/*.css. The token names are ours. Roles: loam (text, the dark header), mist (pale
+ * grounds), shoot (green: primary actions and good outcomes only), dusk (slate blue: the accent
+ * for active tabs, links, the mark on dark grounds, banners, cautions and review flags), clay
+ * (errors, refusals, "below"), sky (information and the focus ring).
+ * Every text/background pair the styles use is checked against WCAG 2.2 AA in
+ * tests/client/theme-contrast.test.ts (4.5:1 text, 3:1 large text and UI components).
  */
 const loam = {
   DEFAULT: '#23201a',
@@ -37,19 +37,26 @@ const shoot = {
   900: '#10331e',
 };
 
-const straw = {
-  DEFAULT: '#e9b949',
-  50: '#fdf8ea',
-  100: '#faedc8',
-  200: '#f5dc95',
-  300: '#efca68',
-  400: '#e9b949',
-  500: '#d49d2a',
-  600: '#b07d1d',
-  700: '#8a5f18',
-  800: '#6a4816',
-  900: '#4d3512',
+// The accent: a slate blue for active tabs, the mark on dark headers, banners and cautions.
+// Green (shoot) is kept for primary actions and good outcomes; clay for errors and refusals.
+const dusk = {
+  DEFAULT: '#4a5689',
+  50: '#f2f4f9',
+  100: '#e2e6f1',
+  200: '#c6cde4',
+  300: '#a2add2',
+  400: '#7d8abd',
+  500: '#5d6ba3',
+  600: '#4a5689',
+  700: '#3c4670',
+  800: '#2e3656',
+  900: '#20263d',
 };
+
+// The phone app's classes (client/) still say `straw`, the old accent's name: they get the
+// accent, with the light tint as DEFAULT (a mark or a fill on the dark header, a banner ground
+// under loam text), as straw's DEFAULT was light.
+const straw = { ...dusk, DEFAULT: dusk[300] };
 
 const clay = {
   DEFAULT: '#a63d1f',
@@ -92,7 +99,7 @@ const sky = {
 export default {
   theme: {
     extend: {
-      colors: { loam, shoot, straw, clay, mist, sky },
+      colors: { loam, shoot, dusk, straw, clay, mist, sky },
       fontFamily: {
         sans: [
           'Lato',
