@@ -46,13 +46,17 @@ describe('unit conversions (NIST SP 811 / HB 44 App. C)', () => {
     );
   });
 
-  it('rejects non-finite input with a typed error', () => {
-    for (const bad of [NaN, Infinity, -Infinity]) {
-      expect(() => inToCm(bad)).toThrow(CalcError);
-      try {
-        lbPerAcToKgPerHa(bad);
-      } catch (e) {
-        expect((e as CalcError).code).toBe('not_finite');
+  it('rejects non-finite input with a typed error, every converter', () => {
+    const all = [inToCm, cmToIn, lbPerAcToKgPerHa, kgPerHaToLbPerAc, acToHa, haToAc];
+    for (const f of all) {
+      for (const bad of [NaN, Infinity, -Infinity, '5' as unknown as number]) {
+        let code = 'none';
+        try {
+          f(bad);
+        } catch (e) {
+          code = e instanceof CalcError ? e.code : 'other';
+        }
+        expect(code, `${f.name}(${String(bad)})`).toBe('not_finite');
       }
     }
   });
