@@ -1,48 +1,33 @@
 import path from 'node:path';
-import express, { type Express } from 'express';
+import express, { type Express, type Router } from 'express';
 import session from 'express-session';
 import { pinoHttp } from 'pino-http';
 import { pino, type Logger } from 'pino';
 import type { Knex } from 'knex';
 import type { ViteDevServer } from 'vite';
 import type { Config } from './platform/config';
-import { configurePassport } from './people/passport';
+import type { AppContext } from './platform/app-context';
 import type { FastReads } from './platform/fast-reads';
-import { SessionStore } from './people/session-store';
-import { signInLimits } from './people/sign-in-limits';
 import { ROLE_LABELS } from './platform/roles';
 import { CROP_LABELS } from '../shared/registry/crops';
 import { errorHandler, isApiRequest, notFound } from './platform/errors';
 import { csrfProtection, securityHeaders } from './platform/security';
 import { CLIENT_DIST, readOfficeAssets } from './platform/assets';
 import { makeFormatter, pickLocale } from './platform/format';
-import { createMailer, type Mailer } from './mail/mailer';
-import { sessionApi } from './people/session-routes';
-import { authPages } from './people/auth-pages';
-import { homePages } from './people/home-pages';
-import { userAdminPages } from './people/user-pages';
-import { outboxPages } from './mail/pages';
-import { accountPages } from './people/account-pages';
 import { captureApp } from './platform/capture-app';
-import { rulesPages } from './rules/pages';
-import { rulesAdminApi } from './rules/routes';
-import { IMPORT_UPLOAD_PATHS, importUploadBeforeCsrf, registryImportPages } from './registry/import/pages';
-import { FIELD_FORM_PATHS, boundaryUpload, registryPages } from './registry/pages';
-import { seasonPages } from './registry/season-pages';
-import { historyPages } from './registry/history-pages';
-import { mountRegistryApi } from './registry/routes';
-import { registersApi } from './registers/routes';
-import { registerPages } from './registers/pages';
-import { calibrationsApi } from './calibrations/routes';
-import { CALIBRATION_UPLOAD_PATHS, calibrationPages, calibrationUpload } from './calibrations/pages';
-import { mountWalksApi } from './walks/api';
-import { walkReviewPages } from './walks/review-pages';
+import * as people from './people';
+import * as mail from './mail';
+import * as registry from './registry';
+import * as walks from './walks';
+import * as calibrations from './calibrations';
+import * as rules from './rules';
+import * as registers from './registers';
 
 export interface AppDeps {
   config: Config;
   db: Knex;
   logger?: Logger;
-  mailer?: Mailer;
+  mailer?: mail.Mailer;
   /** Vite in middleware mode, for `npm run dev` only. */
   vite?: ViteDevServer;
   /** Prepared-statement reads of sessions and users on a database file (see server/platform/fast-reads.ts). */
@@ -51,18 +36,11 @@ export interface AppDeps {
   sessionSecret: string;
 }
 
-export interface AppContext {
-  config: Config;
-  db: Knex;
-  logger: Logger;
-  mailer: Mailer;
-}
-
 /** Builds the whole app; only server/main.ts listens, so tests build it on a fresh database each. */
 export function createApp(deps: AppDeps): Express {
   const { config, db } = deps;
   const logger = deps.logger ?? pino({ level: config.isTest ? 'silent' : config.LOG_LEVEL });
-  const mailer = deps.mailer ?? createMailer(db, { smtpUrl: config.SMTP_URL, from: config.MAIL_FROM, logger });
+  const mailer = deps.mailer ?? mail.createMailer(db, { smtpUrl: config.SMTP_URL, from: config.MAIL_FROM, logger });
   const ctx: AppContext = { config, db, logger, mailer };
 
   const app = express();
@@ -113,12 +91,12 @@ export function createApp(deps: AppDeps): Express {
   app.use((req, res, next) => (req.method === 'GET' || req.method === 'HEAD' ? next() : json(req, res, next)));
   app.use((req, res, next) => (req.method === 'GET' || req.method === 'HEAD' ? next() : form(req, res, next)));
 
-  const passport = configurePassport(db, deps.fastReads);
+  const passport = people.configurePassport(db, deps.fastReads);
   app.use(
     session({
       name: 'crowntip.sid',
       secret: deps.sessionSecret,
-      store: new SessionStore(db, 60_000, config.isTest ? 0 : 10 * 60_000, deps.fastReads),
+      store: new people.SessionStore(db, 60_000, config.isTest ? 0 : 10 * 60_000, deps.fastReads),
       resave: false,
       saveUninitialized: false, // no session row for anonymous page views (STACK.md, gotcha 2)
       cookie: {
@@ -133,7 +111,7 @@ export function createApp(deps: AppDeps): Express {
   app.use(passport.session());
 
   // Sign-in limits run before the CSRF check, so a flood of bad tokens still counts (gotcha 3).
-  const limits = signInLimits(config.SIGNIN_LIMIT_PER_ACCOUNT, config.SIGNIN_LIMIT_PER_ADDRESS);
+  const limits = people.signInLimits(config.SIGNIN_LIMIT_PER_ACCOUNT, config.SIGNIN_LIMIT_PER_ADDRESS);
   app.post('/login', ...limits);
   app.post('/api/session', ...limits);
 
@@ -150,38 +128,51 @@ export function createApp(deps: AppDeps): Express {
     next();
   });
 
-  // Multipart field forms are parsed before the CSRF check so that it can read their token.
-  app.post(FIELD_FORM_PATHS, boundaryUpload);
-  app.post(CALIBRATION_UPLOAD_PATHS, calibrationUpload);
-  app.post(IMPORT_UPLOAD_PATHS, importUploadBeforeCsrf);
+  // Multipart forms are parsed before the CSRF check so that it can read their token.
+  app.post(registry.FIELD_FORM_PATHS, registry.boundaryUpload);
+  app.post(calibrations.CALIBRATION_UPLOAD_PATHS, calibrations.calibrationUpload);
+  app.post(registry.IMPORT_UPLOAD_PATHS, registry.importUploadBeforeCsrf);
   app.use(csrfProtection());
   app.use((req, res, next) => {
     if (!isApiRequest(req)) res.locals.csrfToken = req.csrfToken ? req.csrfToken() : '';
     next();
   });
 
-  app.use('/api/session', sessionApi(ctx, passport));
-  mountRegistryApi(app, ctx);
-  app.use('/api/calibrations', calibrationsApi(ctx));
-  mountWalksApi(app, ctx);
-  app.use('/api/rules', rulesAdminApi(ctx));
-  app.use('/api/registers', registersApi(ctx));
+  // The route table: every JSON path and the one router that answers it (API.md lists the paths).
+  const api: [string, Router][] = [
+    ['/api/session', people.sessionApi(ctx, passport)],
+    ['/api/ranches', registry.ranchesApi(ctx)],
+    ['/api/fields', registry.fieldsApi(ctx)],
+    ['/api/plantings', registry.plantingsApi(ctx)],
+    ['/api/crops', registry.cropsApi(ctx)],
+    ['/api/history', registry.historyApi(ctx)],
+    ['/api/calibrations', calibrations.calibrationsApi(ctx)],
+    ['/api/walks', walks.walksApi(ctx)],
+    ['/api/today', walks.todayApi(ctx)],
+    ['/api/rules', rules.rulesApi(ctx)],
+    ['/api/registers', registers.registersApi(ctx)],
+  ];
+  for (const [prefix, router] of api) app.use(prefix, router);
   app.use('/api', notFound);
 
-  app.use(authPages(ctx, passport));
-  app.use(homePages(ctx));
-  app.use(accountPages(ctx));
-  app.use('/admin/users', userAdminPages(ctx));
-  app.use('/admin/outbox', outboxPages(ctx));
-  app.use(registryPages(ctx));
-  app.use(seasonPages(ctx));
-  app.use(historyPages(ctx));
-  app.use('/registry/import', registryImportPages(ctx));
-  app.use(rulesPages(ctx));
-  app.use(calibrationPages(ctx));
-  app.use(registerPages(ctx));
-  app.use(walkReviewPages(ctx));
-  app.use(captureApp(deps.vite));
+  // The office pages and the capture app, in the order they are tried ('/' routers hold full paths).
+  const pages: [string, Router][] = [
+    ['/', people.authPages(ctx, passport)],
+    ['/', people.homePages(ctx)],
+    ['/', people.accountPages(ctx)],
+    ['/admin/users', people.userAdminPages(ctx)],
+    ['/admin/outbox', mail.outboxPages(ctx)],
+    ['/', registry.registryPages(ctx)],
+    ['/', registry.seasonPages(ctx)],
+    ['/', registry.historyPages(ctx)],
+    ['/registry/import', registry.registryImportPages(ctx)],
+    ['/', rules.rulesPages(ctx)],
+    ['/', calibrations.calibrationPages(ctx)],
+    ['/', registers.registerPages(ctx)],
+    ['/', walks.walkReviewPages(ctx)],
+    ['/', captureApp(deps.vite)],
+  ];
+  for (const [prefix, router] of pages) app.use(prefix, router);
 
   app.use(notFound);
   app.use(errorHandler(logger));

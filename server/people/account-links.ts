@@ -1,4 +1,4 @@
-import type { AppContext } from '../app';
+import type { AppContext } from '../platform/app-context';
 import type { User } from './db';
 import { issueUserToken } from './tokens-db';
 import { ROLE_LABELS, ROLE_SUMMARIES } from '../platform/roles';

@@ -1,6 +1,6 @@
 import { Router } from 'express';
 import { z } from 'zod';
-import type { AppContext } from '../app';
+import type { AppContext } from '../platform/app-context';
 import { requireSignIn } from '../platform/guards';
 import { hashPassword, passwordSchema, verifyPassword } from './passwords';
 import { parseForm } from '../platform/validation';

@@ -1,5 +1,5 @@
 import { Router } from 'express';
-import type { AppContext } from '../app';
+import type { AppContext } from '../platform/app-context';
 import { requireRole } from '../platform/guards';
 import { OFFICE_ROLES, ROLE_SUMMARIES, homeFor } from '../platform/roles';
 import { countUsers } from './db';

@@ -1,6 +1,6 @@
 import { Router, type Request, type Response, type NextFunction } from 'express';
 import type passport from 'passport';
-import type { AppContext } from '../app';
+import type { AppContext } from '../platform/app-context';
 import { requireSignIn } from '../platform/guards';
 import { SIGN_IN_FAILED } from './passport';
 import { HttpError } from '../platform/errors';

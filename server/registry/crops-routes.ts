@@ -1,5 +1,5 @@
 import { Router } from 'express';
-import type { AppContext } from '../app';
+import type { AppContext } from '../platform/app-context';
 import { requireSignIn } from '../platform/guards';
 import { listCrops } from './plantings-db';
 

@@ -1,6 +1,6 @@
 import { Router, type Request, type Response } from 'express';
 import type { z } from 'zod';
-import type { AppContext } from '../app';
+import type { AppContext } from '../platform/app-context';
 import { requireRole, requireSignIn } from '../platform/guards';
 import { HttpError } from '../platform/errors';
 import { validateBody, validateQuery } from '../platform/validation';

@@ -1,6 +1,6 @@
 import { Router } from 'express';
 import { z } from 'zod';
-import type { AppContext } from '../app';
+import type { AppContext } from '../platform/app-context';
 import { requireRole } from '../platform/guards';
 import { historyAuthors, listHistory } from './history-db';
 import { isoDate } from '../../shared/schemas/registry';

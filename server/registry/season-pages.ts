@@ -1,6 +1,6 @@
 import { Router, type Request } from 'express';
 import { z } from 'zod';
-import type { AppContext } from '../app';
+import type { AppContext } from '../platform/app-context';
 import { requireSignIn } from '../platform/guards';
 import { CROPS } from '../../shared/calc/rules';
 import { seasonLabel, seasonOfDate, seasonStartYear, seasonStarting, todayIso } from '../../shared/registry/season';

@@ -1,5 +1,5 @@
 import { Router, type Request } from 'express';
-import type { AppContext } from '../app';
+import type { AppContext } from '../platform/app-context';
 import { requireRole } from '../platform/guards';
 import { parseForm } from '../platform/validation';
 import { CROPS } from '../../shared/calc/rules';

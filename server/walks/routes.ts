@@ -4,7 +4,7 @@ import { pipeline } from 'node:stream/promises';
 import { Router, type Request, type RequestHandler, type Response } from 'express';
 import multer from 'multer';
 import { z } from 'zod';
-import type { AppContext } from '../app';
+import type { AppContext } from '../platform/app-context';
 import { requireRole, requireSignIn } from '../platform/guards';
 import { HttpError } from '../platform/errors';
 import { validateBody, validateQuery } from '../platform/validation';

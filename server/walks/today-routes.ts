@@ -1,6 +1,6 @@
 import { Router, type Request, type Response } from 'express';
 import { z } from 'zod';
-import type { AppContext } from '../app';
+import type { AppContext } from '../platform/app-context';
 import { requireRole } from '../platform/guards';
 import { validateQuery } from '../platform/validation';
 import { todayList } from './service';

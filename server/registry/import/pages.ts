@@ -1,7 +1,7 @@
 import { Router, type NextFunction, type Request, type RequestHandler, type Response } from 'express';
 import multer from 'multer';
 import { z } from 'zod';
-import type { AppContext } from '../../app';
+import type { AppContext } from '../../platform/app-context';
 import { requireRole } from '../../platform/guards';
 import { HttpError } from '../../platform/errors';
 import { parseForm } from '../../platform/validation';

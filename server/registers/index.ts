@@ -1,0 +1,3 @@
+/** What server/app.ts mounts from credit registers. */
+export { registersApi } from './routes';
+export { registerPages } from './pages';
