@@ -21,7 +21,7 @@ const patch = (c: Client, path: string, body: unknown) => c.agent.patch(path).se
 const del = (c: Client, path: string) => c.agent.delete(path).set('X-CSRF-Token', c.csrf);
 
 /**
- * A 0.001° × 0.001° square with its south-west corner at 36°N. By hand, on turf's sphere
+ * A 0.001° × 0.001° square with its south-west corner at 36° N, 135° W (open sea, invented). By hand, on turf's sphere
  * (R = 6 378 137 m): 0.001° of latitude = R·π/180·0.001 ≈ 111.32 m; 0.001° of longitude at the
  * middle latitude 36.0005° ≈ 111.32 m × cos 36.0005° ≈ 90.06 m; area ≈ 10 025 m² ≈ 1.0025 ha.
  */
@@ -29,11 +29,11 @@ const SQUARE = {
   type: 'Polygon',
   coordinates: [
     [
-      [10.0, 36.0],
-      [10.001, 36.0],
-      [10.001, 36.001],
-      [10.0, 36.001],
-      [10.0, 36.0],
+      [-135.0, 36.0],
+      [-134.999, 36.0],
+      [-134.999, 36.001],
+      [-135.0, 36.001],
+      [-135.0, 36.0],
     ],
   ],
 };
@@ -455,7 +455,7 @@ describe('registry rules', () => {
   it('refuses invalid GeoJSON with 400 on the boundary', async () => {
     const clerk = await as('clerk@crowntip.test');
     const { ranch, field } = await makeChain(clerk);
-    const open = { type: 'Polygon', coordinates: [SQUARE.coordinates[0].slice(0, 4).concat([[10.0005, 36.0]])] };
+    const open = { type: 'Polygon', coordinates: [SQUARE.coordinates[0].slice(0, 4).concat([[-134.9995, 36.0]])] };
     const farNorth = { type: 'Polygon', coordinates: [SQUARE.coordinates[0].map(([lon, lat]) => [lon, lat + 164])] };
     const point = { type: 'Point', coordinates: [10, 36] };
     for (const boundary of [open, farNorth, point]) {

@@ -35,7 +35,7 @@ async function postFieldForm(agent: Agent, ranchId: string, fields: { name: stri
 // (1° of latitude ≈ 111.32 km; 1° of longitude ≈ 111.32 km × cos 36.2° ≈ 89.83 km; spherical, from memory).
 const SQUARE = {
   type: 'Polygon',
-  coordinates: [[[-120.9, 36.2], [-120.898, 36.2], [-120.898, 36.202], [-120.9, 36.202], [-120.9, 36.2]]],
+  coordinates: [[[-134.9, 36.2], [-134.898, 36.2], [-134.898, 36.202], [-134.9, 36.202], [-134.9, 36.2]]],
 };
 
 describe('demo registry', () => {

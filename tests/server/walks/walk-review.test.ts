@@ -256,7 +256,7 @@ describe('a walk’s evidence', () => {
     const agent = await pages('clerk@crowntip.test');
     expect((await agent.get(`/walks/${SUBMITTED}`)).text).toContain('No GPS was recorded at any stop');
     const noBoundary = (await duePlantings(t.db, ORG1, { season: seasonOfDate(todayIso()), today: todayIso() })).find((p) => p.crop === 'cereal_rye' && !p.boundary)!;
-    const id = await postWalk(noBoundary.plantingId, ORDINARY.slice(0, 4), { gps: (i) => ({ lat: 36.2 + i * 0.0003, lon: -120.9 + i * 0.0004 }) });
+    const id = await postWalk(noBoundary.plantingId, ORDINARY.slice(0, 4), { gps: (i) => ({ lat: 36.2 + i * 0.0003, lon: -134.9 + i * 0.0004 }) });
     const html = (await agent.get(`/walks/${id}`)).text;
     expect(html).toContain('No field boundary on record: the stops alone');
     expect(html.match(/<title>Stop \d+: 36\.2/g)).toHaveLength(4);
@@ -378,8 +378,8 @@ describe('the drawings', () => {
   });
 
   it('the sketch keeps a stop recorded outside the field in view', () => {
-    const boundary = { type: 'Polygon' as const, coordinates: [[[-120.95, 36.25], [-120.947, 36.25], [-120.947, 36.2514], [-120.95, 36.2514], [-120.95, 36.25]]] };
-    const svg = mapSketchSvg({ id: 'm', title: 'Sketch', boundary, stops: [{ stop: 1, lat: 36.2507, lon: -120.9485 }, { stop: 2, lat: 36.26, lon: -120.94 }], outliers: new Set([2]), units: 'metric' });
+    const boundary = { type: 'Polygon' as const, coordinates: [[[-134.95, 36.25], [-134.947, 36.25], [-134.947, 36.2514], [-134.95, 36.2514], [-134.95, 36.25]]] };
+    const svg = mapSketchSvg({ id: 'm', title: 'Sketch', boundary, stops: [{ stop: 1, lat: 36.2507, lon: -134.9485 }, { stop: 2, lat: 36.26, lon: -134.94 }], outliers: new Set([2]), units: 'metric' });
     for (const m of svg.matchAll(/<circle cx="([\d.-]+)" cy="([\d.-]+)"/g)) {
       expect(Number(m[1])).toBeGreaterThanOrEqual(0);
       expect(Number(m[1])).toBeLessThanOrEqual(420);

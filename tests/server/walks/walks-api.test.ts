@@ -74,7 +74,7 @@ function walkBody(plantingId: string, extra: Record<string, unknown> = {}) {
     walkedOn: todayIso(),
     stage: 'Z31',
     notes: 'Soft ground by the pump.',
-    plants: LENGTHS.map((lengthCm, i) => ({ stop: i + 1, lengthCm, lat: 36.2 + i * 0.0001, lon: -120.9 })),
+    plants: LENGTHS.map((lengthCm, i) => ({ stop: i + 1, lengthCm, lat: 36.2 + i * 0.0001, lon: -134.9 })),
     ...extra,
   };
 }
