@@ -6,9 +6,10 @@ import { describe, expect, it } from 'vitest';
 // The issue's constraints on shared/calc, checked on the source: no I/O or framework imports at
 // all, and the phone's estimate path (light.ts and what it imports) free of ml-matrix.
 const DIR = join(dirname(fileURLToPath(import.meta.url)), '..', '..', 'shared', 'calc');
+const FORMAT = join(DIR, '..', 'format');
 const files = readdirSync(DIR).filter((f) => f.endsWith('.ts'));
-const importsOf = (file: string) =>
-  [...readFileSync(join(DIR, file), 'utf8').matchAll(/^\s*(?:import|export)\s[^;]*?from\s+'([^']+)'/gms)].map((m) => m[1]);
+const importsOf = (file: string, dir = DIR) =>
+  [...readFileSync(join(dir, file), 'utf8').matchAll(/^\s*(?:import|export)\s[^;]*?from\s+'([^']+)'/gms)].map((m) => m[1]);
 
 describe('shared/calc purity', () => {
   it('imports no node:*, DOM-only, express, knex or react modules', () => {
@@ -16,6 +17,12 @@ describe('shared/calc purity', () => {
       for (const spec of importsOf(f)) {
         expect(spec, `${f} imports ${spec}`).not.toMatch(/^(node:|fs$|path$|express|knex|react|better-sqlite3)/);
       }
+    }
+  });
+
+  it('shared/format imports nothing but the estimation core (pure, for phone and server alike)', () => {
+    for (const f of readdirSync(FORMAT).filter((x) => x.endsWith('.ts'))) {
+      for (const spec of importsOf(f, FORMAT)) expect(spec, `${f} imports ${spec}`).toMatch(/^\.\.?\//);
     }
   });
 

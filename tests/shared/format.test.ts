@@ -1,0 +1,142 @@
+import { describe, expect, it } from 'vitest';
+import { DEMO_RULE, decideVerdict, fitCalibration, lbPerAcToKgPerHa } from '../../shared/calc';
+import {
+  DECISION_BASIS_WORDS, VERDICT_WORDS, adviceText, area, biomass, biomassAgainstThreshold, credit, date, formatNumber, length,
+  nitrogenRate, percent, reasonText, verdictSentence,
+} from '../../shared/format';
+import { readDemo } from './demo-data';
+
+// Conversions by hand with the exact factors (1 lb = 0.45359237 kg, 1 ac = 0.40468564224 ha, 1 in = 2.54 cm;
+// NIST SP 811 App. B): 1 kg/ha = 0.40468564224/0.45359237 lb/ac = 0.892179 lb/ac.
+describe('figures: the same rounding for every output', () => {
+  it('numbers: thousands separators, half away from zero on the decimal value', () => {
+    expect(formatNumber(5043.83)).toBe('5,044');
+    expect(formatNumber(1234567.891, 2)).toBe('1,234,567.89');
+    expect(formatNumber(1.005, 2)).toBe('1.01'); // toFixed would say 1.00
+    expect(formatNumber(-2.5)).toBe('-3');
+    expect(formatNumber(999.96, 1)).toBe('1,000.0');
+    expect(formatNumber(NaN)).toBe('—');
+    expect(formatNumber(4495.8, 0, 'es')).toBe('4,496'); // es-MX writes numbers as en-US
+  });
+
+  it('biomass: 4,500 lb/ac is 5,043.83 kg/ha; whole units in both systems', () => {
+    const kg = lbPerAcToKgPerHa(4500);
+    expect(biomass(kg, 'us').full).toBe('4,500 lb/ac');
+    expect(biomass(kg, 'metric').full).toBe('5,044 kg/ha');
+    // 6,000 kg/ha × 0.892179 = 5,353.07 lb/ac
+    expect(biomass(6000, 'us').text).toBe('5,353');
+  });
+
+  it('length, area, nitrogen, credit, percent', () => {
+    expect(length(81.788, 'us').full).toBe('32.2 in'); // 81.788/2.54 = 32.2
+    expect(length(81.788, 'metric').full).toBe('81.8 cm');
+    expect(area(10, 'us').full).toBe('24.7 ac'); // 10/0.40468564224 = 24.71
+    expect(area(10, 'metric').full).toBe('10.0 ha');
+    expect(nitrogenRate(lbPerAcToKgPerHa(50), 'us').full).toBe('50 lb N/ac');
+    expect(nitrogenRate(56.04, 'metric').full).toBe('56 kg N/ha');
+    expect(credit(45.359237, 'us').full).toBe('100 lb N'); // 45.359237 kg / 0.45359237 = 100 lb
+    expect(credit(45.359237, 'metric').full).toBe('45 kg N');
+    expect(percent(0.9)).toBe('90%');
+    expect(percent(0.9, 'es')).toBe('90 %');
+  });
+
+  it('dates: calendar day in the reader’s language, no time zone shift', () => {
+    expect(date('2026-12-02')).toBe('Dec 2, 2026');
+    expect(date('2026-12-02', 'es')).toBe('2 dic 2026');
+    expect(date('2027-01-31', 'es')).toBe('31 ene 2027');
+    expect(() => date('2026-02-30')).toThrow();
+  });
+});
+
+describe('a shown value never contradicts its verdict', () => {
+  const T = lbPerAcToKgPerHa(4500);
+  it('4,495.8 lb/ac against 4,500: "4,496" (whole units already separate them)', () => {
+    const c = biomassAgainstThreshold(lbPerAcToKgPerHa(4495.8), T, 'us');
+    expect(c.value.text).toBe('4,496');
+    expect(c.threshold.text).toBe('4,500');
+    expect(c.atOrAbove).toBe(false);
+    expect(c.nearness).toBeNull();
+  });
+
+  it('4,499.7 against 4,500: one more decimal and "just below"', () => {
+    const c = biomassAgainstThreshold(lbPerAcToKgPerHa(4499.7), T, 'us');
+    expect(c.value.text).toBe('4,499.7');
+    expect(c.threshold.text).toBe('4,500.0');
+    expect(c.nearness).toBe('just_below');
+  });
+
+  it('4,499.999 against 4,500: even 2 decimals tie, so the words must say it', () => {
+    const c = biomassAgainstThreshold(lbPerAcToKgPerHa(4499.999), T, 'us');
+    expect(c.wordsNeeded).toBe(true);
+    expect(c.nearness).toBe('just_below');
+    expect(reasonText({ code: 'point_below', biomassKgHa: lbPerAcToKgPerHa(4499.999), thresholdKgHa: T }, { lang: 'en', units: 'us' })).toContain('just below');
+  });
+
+  it('exactly at the threshold meets and shows equal numbers', () => {
+    const c = biomassAgainstThreshold(T, T, 'metric');
+    expect(c.atOrAbove).toBe(true);
+    expect(c.value.text).toBe(c.threshold.text);
+  });
+
+  it('the property holds across values near the threshold, in both unit systems', () => {
+    for (let d = -3; d <= 3; d += 0.01) {
+      for (const units of ['us', 'metric'] as const) {
+        const v = T + d;
+        const c = biomassAgainstThreshold(v, T, units);
+        if (c.wordsNeeded) continue;
+        if (v >= T) expect(c.value.rounded).toBeGreaterThanOrEqual(c.threshold.rounded);
+        else expect(c.value.rounded).toBeLessThan(c.threshold.rounded);
+      }
+    }
+  });
+});
+
+describe('verdict sentences in the reader’s language and units', () => {
+  const rye = fitCalibration(readDemo('cereal-rye').rows, 'power');
+  const rule = { thresholdKgHa: DEMO_RULE.thresholdKgHa, decisionBasis: 'point_with_borderline' as const, confidence: 0.9, minPlants: 10 };
+
+  it('two plants: borderline, too few plants, in lb/ac for a US reader and kg/ha for a metric one', () => {
+    const v = decideVerdict(rye, [118, 122], rule);
+    const en = verdictSentence(v, { lang: 'en', units: 'us' });
+    expect(en).toMatch(/^Borderline\. Only 2 plants measured; the rule asks for at least 10\./);
+    expect(en).toContain('lb/ac');
+    expect(en).not.toContain('kg/ha');
+    expect(en).toContain('Measure 8 more plants to reach the minimum of 10.');
+    const es = verdictSentence(v, { lang: 'es', units: 'metric' });
+    expect(es).toMatch(/^En el límite\. Solo se midieron 2 plantas; la regla pide al menos 10\./);
+    expect(es).toContain('kg/ha');
+    expect(es).not.toContain('lb/ac');
+  });
+
+  it('advice with its stated power', () => {
+    expect(adviceText({ kind: 'measure_more', more: 12, total: 22, power: 0.8, alpha: 0.1, sided: 'two' }, { lang: 'en', units: 'us' }))
+      .toBe('About 12 more plants would give an 80% chance of settling it.');
+    expect(adviceText({ kind: 'measure_more', more: 12, total: 22, power: 0.8, alpha: 0.1, sided: 'two' }, { lang: 'es', units: 'us' }))
+      .toBe('Unas 12 plantas más darían un 80 % de probabilidad de decidirlo.');
+  });
+
+  it('every reason code and advice kind has words in both languages', () => {
+    const reasons = [
+      { code: 'point_meets', biomassKgHa: 6000, thresholdKgHa: 5000 },
+      { code: 'point_below', biomassKgHa: 4000, thresholdKgHa: 5000 },
+      { code: 'lower_bound_meets', lowerBoundKgHa: 5100, thresholdKgHa: 5000, confidence: 0.9 },
+      { code: 'lower_bound_below', lowerBoundKgHa: 4100, thresholdKgHa: 5000, confidence: 0.9 },
+      { code: 'interval_spans_threshold', lowKgHa: 4000, highKgHa: 6000, thresholdKgHa: 5000, level: 0.9 },
+      { code: 'interval_above_threshold', lowKgHa: 5100, highKgHa: 6000, thresholdKgHa: 5000, level: 0.9 },
+      { code: 'interval_below_threshold', lowKgHa: 3000, highKgHa: 4000, thresholdKgHa: 5000, level: 0.9 },
+      { code: 'too_few_plants', n: 1, minPlants: 10 },
+      { code: 'unknown_spread', n: 1 },
+      { code: 'unknown_spread', n: 10 },
+      { code: 'extrapolated', meanLengthCm: 150, calibratedCm: [20, 130] },
+    ] as const;
+    for (const r of reasons) {
+      for (const lang of ['en', 'es'] as const) {
+        const text = reasonText(r, { lang, units: 'metric' });
+        expect(text.length, `${r.code} ${lang}`).toBeGreaterThan(20);
+        expect(text).not.toMatch(/undefined|NaN/);
+      }
+    }
+    expect(Object.keys(VERDICT_WORDS.es)).toEqual(['meets', 'below', 'borderline']);
+    expect(Object.keys(DECISION_BASIS_WORDS.es).sort()).toEqual(['lower_bound', 'point', 'point_with_borderline']);
+  });
+});
