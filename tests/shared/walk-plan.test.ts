@@ -1,99 +1,131 @@
-import { booleanPointInPolygon } from '@turf/boolean-point-in-polygon';
-import { distance } from '@turf/distance';
-import { point } from '@turf/helpers';
 import type { Polygon } from 'geojson';
 import { describe, expect, it } from 'vitest';
-import { PACE_LENGTH_M, walkPlan } from '../../shared/calc';
-import { codeOf } from './prng';
+import { MAX_STOPS, PACE_LENGTH_M, newWalkSeed, suggestStops, walkPlan } from '../../shared/calc';
+import { codeOf, mulberry32 } from './prng';
 
-// Invented field outlines near 0°, 0° (open sea: no real place), about 300 m × 200 m.
+// Invented outline in the open sea near 36° N, 125° W (no real place): about 300 m × 200 m.
 const RECT: Polygon = {
   type: 'Polygon',
-  coordinates: [[[0, 0], [0.0027, 0], [0.0027, 0.0018], [0, 0.0018], [0, 0]]],
+  coordinates: [[[-125, 36], [-124.99667, 36], [-124.99667, 36.0018], [-125, 36.0018], [-125, 36]]],
 };
-// An L-shaped field: the longest corner-to-corner line crosses the missing quarter.
-const ELL: Polygon = {
-  type: 'Polygon',
-  coordinates: [[[0, 0], [0.004, 0], [0.004, 0.001], [0.001, 0.001], [0.001, 0.004], [0, 0.004], [0, 0]]],
-};
-const TRIANGLE: Polygon = { type: 'Polygon', coordinates: [[[0, 0], [0.003, 0], [0, 0.002], [0, 0]]] };
+const positions = (p: ReturnType<typeof walkPlan>) => p.stops.map((s) => [s.lng, s.lat]);
 
-const m = (a: number[], b: number[]) => distance(point(a), point(b), { units: 'meters' });
-
-describe('walkPlan with a boundary', () => {
-  it('rectangle: the corner-to-corner diagonal, 10 m in from each end, 10 evenly spaced stops', () => {
-    const p = walkPlan(RECT);
-    expect(p.mode).toBe('boundary');
-    expect(p.diagonalM).toBeCloseTo(m([0, 0], [0.0027, 0.0018]), 6);
-    expect(p.edgeMarginM).toBe(10);
-    expect(p.walkLengthM).toBeCloseTo(p.diagonalM - 20, 9);
-    expect(p.stops).toHaveLength(10);
-    expect(p.spacingM).toBeCloseTo(p.walkLengthM / 9, 9);
-    const corners = [[0, 0], [0.0027, 0.0018], [0.0027, 0], [0, 0.0018]];
-    const first = p.stops[0];
-    const last = p.stops[9];
-    const nearest = (s: { lng: number | null; lat: number | null }) => Math.min(...corners.map((c) => m([s.lng!, s.lat!], c)));
-    expect(nearest(first)).toBeCloseTo(10, 1);
-    expect(nearest(last)).toBeCloseTo(10, 1);
-    p.stops.forEach((s, i) => {
-      expect(s.index).toBe(i + 1);
-      expect(s.distanceM).toBeCloseTo(i * p.spacingM, 9);
-      expect(s.distanceFt).toBeCloseTo(s.distanceM / 0.3048, 9);
-      expect(s.paces).toBeCloseTo(s.distanceM / PACE_LENGTH_M, 9);
-      expect(booleanPointInPolygon(point([s.lng!, s.lat!]), RECT)).toBe(true);
-      if (i > 0) expect(m([s.lng!, s.lat!], [p.stops[i - 1].lng!, p.stops[i - 1].lat!])).toBeCloseTo(p.spacingM, 1);
-    });
-    expect(p.areaHa).toBeGreaterThan(5.5);
-    expect(p.areaHa).toBeLessThan(6.5);
+describe('seeds: the same seed gives the same stops', () => {
+  it('same seed → identical plan; another seed → other positions on the same line', () => {
+    const a = walkPlan(RECT, { seed: 'north-7' });
+    const b = walkPlan(RECT, { seed: 'north-7' });
+    const c = walkPlan(RECT, { seed: 'north-8' });
+    expect(b).toEqual(a);
+    expect(a.seed).toBe('north-7');
+    expect(positions(c)).not.toEqual(positions(a));
+    // The line is the same; only the random start moves (every stop shifts by the same amount).
+    expect(c.legs).toEqual(a.legs);
+    const shift = c.stops[0].legDistanceM - a.stops[0].legDistanceM;
+    c.stops.forEach((s, k) => expect(s.legDistanceM - a.stops[k].legDistanceM).toBeCloseTo(shift, 6));
   });
 
-  it('L-shaped field: the line stays inside (not the corner-to-corner line across the gap)', () => {
-    const p = walkPlan(ELL, { stops: 12 });
-    expect(p.diagonalM).toBeCloseTo(m([0, 0], [0.004, 0.001]), 3);
-    for (const s of p.stops) expect(booleanPointInPolygon(point([s.lng!, s.lat!]), ELL)).toBe(true);
-    expect(p.diagonalM).toBeLessThan(m([0.004, 0], [0, 0.004]));
+  it('an integer seed and its decimal text are the same seed', () => {
+    expect(positions(walkPlan(RECT, { seed: 42 }))).toEqual(positions(walkPlan(RECT, { seed: '42' })));
   });
 
-  it('triangle (no diagonals): corner to the middle of the opposite side', () => {
-    const p = walkPlan(TRIANGLE, { stops: 5 });
-    expect(p.stops).toHaveLength(5);
-    for (const s of p.stops) expect(booleanPointInPolygon(point([s.lng!, s.lat!]), TRIANGLE)).toBe(true);
+  it('twenty different seeds give twenty different first-stop positions', () => {
+    const firsts = new Set(Array.from({ length: 20 }, (_, i) => walkPlan(RECT, { seed: `s${i}` }).stops[0].legDistanceM.toFixed(3)));
+    expect(firsts.size).toBe(20);
   });
 
-  it('a GeoJSON Feature around the polygon is accepted', () => {
-    const p = walkPlan({ type: 'Feature', properties: {}, geometry: RECT });
-    expect(p.stops).toHaveLength(10);
+  it('without a seed the plan is still stable, and reports the seed it used (which reproduces it)', () => {
+    const a = walkPlan(RECT);
+    expect(walkPlan(RECT)).toEqual(a);
+    expect(positions(walkPlan(RECT, { seed: a.seed }))).toEqual(positions(a));
+  });
+
+  it('newWalkSeed: 12 base-36 characters, new each time; reproducible from a given random source', () => {
+    const seeds = new Set(Array.from({ length: 50 }, () => newWalkSeed()));
+    expect(seeds.size).toBe(50);
+    for (const s of seeds) expect(s).toMatch(/^[0-9a-z]{12}$/);
+    expect(newWalkSeed(mulberry32(5))).toBe(newWalkSeed(mulberry32(5)));
   });
 });
 
-describe('walkPlan without a boundary', () => {
-  it('4 ha square: diagonal 282.84 m less two 10 m margins, in metres, feet and paces', () => {
-    const p = walkPlan(null, { areaHa: 4 });
+describe('without a boundary: a square of the given area', () => {
+  it('4 ha: a 200 m square, 180 m square inside a 10 m margin, diagonal 180·√2 = 254.56 m (hand-worked)', () => {
+    const p = walkPlan(null, { areaHa: 4, seed: 1 });
     expect(p.mode).toBe('area');
-    expect(p.diagonalM).toBeCloseTo(200 * Math.SQRT2, 9);
-    expect(p.walkLengthM).toBeCloseTo(200 * Math.SQRT2 - 20, 9);
-    expect(p.walkLengthFt).toBeCloseTo(p.walkLengthM / 0.3048, 9);
-    expect(p.spacingPaces).toBeCloseTo(p.spacingM / 0.76, 9);
-    expect(p.stops[9].distanceM).toBeCloseTo(p.walkLengthM, 9);
-    expect(p.stops[0]).toMatchObject({ lng: null, lat: null, distanceM: 0 });
+    expect(p.pattern).toBe('square');
+    expect(p.reason.code).toBe('no_boundary');
+    expect(p.diagonalM).toBeCloseTo(180 * Math.SQRT2, 9);
+    expect(p.walkLengthM).toBeCloseTo(180 * Math.SQRT2, 9);
+    expect(p.walkableAreaHa).toBeCloseTo(3.24, 9);
+    // 10 stops: one in each tenth of the line, 25.456 m apart.
+    expect(p.spacingM).toBeCloseTo(18 * Math.SQRT2, 9);
+    expect(p.spacingPaces).toBeCloseTo((18 * Math.SQRT2) / 0.76, 9);
+    expect(p.spacingFt).toBeCloseTo((18 * Math.SQRT2) / 0.3048, 9);
+    expect(p.stops[0].distanceM).toBeLessThan(18 * Math.SQRT2);
+    p.stops.forEach((s, k) => {
+      expect(s.distanceM - p.stops[0].distanceM).toBeCloseTo(k * 18 * Math.SQRT2, 9);
+      expect(s.paces).toBeCloseTo(s.distanceM / PACE_LENGTH_M, 9);
+      expect(s).toMatchObject({ lng: null, lat: null, leg: 1 });
+    });
     expect(p.start).toBeNull();
+    expect(p.noteParts).toContainEqual({ code: 'no_boundary', areaHa: 4 });
     expect(p.note).toMatch(/square/);
   });
 
-  it('tiny field: margin reduced, and said', () => {
-    const p = walkPlan(null, { areaHa: 0.01, stops: 3 }); // 10 m × 10 m, diagonal 14.1 m
-    expect(p.edgeMarginM).toBeCloseTo(0.4 * 10 * Math.SQRT2, 9);
-    expect(p.walkLengthM).toBeGreaterThan(0);
-    expect(p.note).toMatch(/reduced/);
+  it('0.01 ha (10 m square): 10 m and 5 m leave nothing; 2.5 m leaves 5 × 5 m = 25 %, the least allowed (hand-worked)', () => {
+    const p = walkPlan(null, { areaHa: 0.01, stops: 3 });
+    expect(p.edgeMarginM).toBe(2.5);
+    expect(p.noteParts).toContainEqual({ code: 'margin_reduced', askedM: 10, usedM: 2.5 });
+    expect(p.note).toMatch(/too small/);
   });
 
-  it('one stop sits mid-walk', () => {
-    const p = walkPlan(null, { areaHa: 1, stops: 1 });
-    expect(p.stops[0].distanceM).toBeCloseTo(p.walkLengthM / 2, 9);
+  it('one stop falls somewhere on the line, decided by the seed', () => {
+    const p = walkPlan(null, { areaHa: 1, stops: 1, seed: 'one' });
+    expect(p.stops[0].distanceM).toBeGreaterThanOrEqual(0);
+    expect(p.stops[0].distanceM).toBeLessThanOrEqual(p.walkLengthM);
+    expect(p.spacingM).toBe(0);
   });
 });
 
-describe('walkPlan bad input', () => {
+describe('what the phone reads keeps its shape', () => {
+  it('a Polygon, a Feature around it, and a MultiPolygon are all accepted', () => {
+    const p = walkPlan(RECT, { stops: 12, areaHa: 6 });
+    expect(p.mode).toBe('boundary');
+    expect(p.stops).toHaveLength(12);
+    expect(p.start).toHaveLength(2);
+    expect(p.end).toHaveLength(2);
+    expect(p.paceLengthM).toBe(PACE_LENGTH_M);
+    expect(typeof p.note).toBe('string');
+    expect(walkPlan({ type: 'Feature', properties: {}, geometry: RECT }).stops).toHaveLength(10);
+    // A MultiPolygon of one part is that polygon.
+    expect(walkPlan({ type: 'MultiPolygon', coordinates: [RECT.coordinates] }).pattern).toBe('diagonal');
+  });
+});
+
+describe('how many stops', () => {
+  // The rule of thumb itself is common practice, no published source: the rule's minimum up to
+  // 20 ha, one more per 5 ha beyond, half as many again for a patchy stand, at most twice the minimum.
+  it.each([
+    [4, 10, false, 10, 'none'],
+    [20, 10, false, 10, 'none'],
+    [21, 10, false, 11, 'large'], // 1 ha over: ceil(1/5) = 1 more
+    [40, 10, false, 14, 'large'], // 20 ha over: 4 more
+    [200, 10, false, 20, 'large'], // 36 more, capped at 2 × 10
+    [8, 10, true, 15, 'variable'], // 1.5 × 10
+    [60, 10, true, 18, 'large_and_variable'], // 10 + 8 = 18 beats 15
+    [30, 60, false, 62, 'large'],
+    [30, 60, true, 90, 'large_and_variable'], // both apply; 1.5 × 60 = 90 is the larger
+    [1000, 80, false, MAX_STOPS, 'large'], // never above the plan's limit
+  ] as const)('%s ha, minimum %s, patchy %s → %s (%s)', (areaHa, minimum, variable, suggested, why) => {
+    expect(suggestStops(areaHa, minimum, { variable })).toEqual({ minimum, suggested, source: 'common_practice', why });
+  });
+
+  it('the default minimum is the demo rule’s 10 plants', () => {
+    expect(suggestStops(5).minimum).toBe(10);
+    expect(walkPlan(RECT).stops).toHaveLength(10);
+  });
+});
+
+describe('bad input', () => {
   it.each([
     ['no boundary, no area', null, {}, 'missing_area'],
     ['no boundary, zero area', null, { areaHa: 0 }, 'non_positive'],
@@ -104,10 +136,18 @@ describe('walkPlan bad input', () => {
     ['NaN coordinate', { type: 'Polygon', coordinates: [[[0, 0], [NaN, 0], [0.001, 0.001], [0, 0]]] }, {}, 'bad_boundary'],
     ['latitude 100', { type: 'Polygon', coordinates: [[[0, 0], [0.001, 100], [0.001, 0.001], [0, 0]]] }, {}, 'bad_boundary'],
     ['all corners the same', { type: 'Polygon', coordinates: [[[0, 0], [0, 0], [0, 0], [0, 0]]] }, {}, 'bad_boundary'],
+    ['empty MultiPolygon', { type: 'MultiPolygon', coordinates: [] }, {}, 'bad_boundary'],
+    ['under 1 m across', { type: 'Polygon', coordinates: [[[0, 0], [0.000001, 0], [0, 0.000001], [0, 0]]] }, {}, 'boundary_too_small'],
     ['zero stops', RECT, { stops: 0 }, 'bad_option'],
     ['fractional stops', RECT, { stops: 2.5 }, 'bad_option'],
+    ['101 stops', RECT, { stops: 101 }, 'bad_option'],
     ['negative margin', RECT, { edgeMarginM: -1 }, 'negative'],
+    ['fractional seed', RECT, { seed: 1.5 }, 'bad_option'],
+    ['empty seed', RECT, { seed: '' }, 'bad_option'],
+    ['seed of 65 characters', RECT, { seed: 'x'.repeat(65) }, 'bad_option'],
+    ['suggestion for zero hectares', 'suggest', { areaHa: 0 }, 'non_positive'],
   ])('%s → %s', (_n, boundary, opts, code) => {
-    expect(codeOf(() => walkPlan(boundary as never, opts as never))).toBe(code);
+    if (boundary === 'suggest') expect(codeOf(() => suggestStops((opts as { areaHa: number }).areaHa))).toBe(code);
+    else expect(codeOf(() => walkPlan(boundary as never, opts as never))).toBe(code);
   });
 });
