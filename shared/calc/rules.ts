@@ -8,6 +8,10 @@ export type CropClass = (typeof CROPS)[number];
 /** The winter cereals (non-legume scavengers) a typical rule makes eligible. */
 export const CEREAL_CROPS = ['cereal_rye', 'triticale', 'barley', 'oats', 'wheat'] as const satisfies readonly CropClass[];
 
+/** How a rule turns an estimate into a verdict; explained in shared/calc/verdict.ts. */
+export const DECISION_BASES = ['point', 'lower_bound', 'point_with_borderline'] as const;
+export type DecisionBasis = (typeof DECISION_BASES)[number];
+
 export interface CreditRule {
   thresholdKgHa: number;
   minDaysInWindow: number;

@@ -4,6 +4,7 @@ import type { Fit } from './fit-types';
 import { lengthForBiomass } from './inverse';
 import { sampleSizeForMean } from './power';
 import { assertFit, predict } from './predict';
+import { DECISION_BASES, type DecisionBasis } from './rules';
 import { requireLevel, requirePositive } from './validate';
 
 /*
@@ -11,7 +12,6 @@ import { requireLevel, requirePositive } from './validate';
  * is numbers (SI) and codes; shared/format turns them into words in the reader's language and units.
  */
 
-export const DECISION_BASES = ['point', 'lower_bound', 'point_with_borderline'] as const;
 /**
  * - point: the point estimate ≥ threshold meets.
  * - lower_bound: the one-sided lower bound of the combined interval at the rule's confidence ≥
@@ -19,7 +19,6 @@ export const DECISION_BASES = ['point', 'lower_bound', 'point_with_borderline'] 
  * - point_with_borderline: the point estimate decides, but a two-sided combined interval at the
  *   rule's confidence that spans the threshold (or an unknown spread) makes it borderline.
  */
-export type DecisionBasis = (typeof DECISION_BASES)[number];
 export type Verdict = 'meets' | 'below' | 'borderline';
 
 /** The parts of a credit rule the verdict needs (thresholdKgHa in kg/ha). */

@@ -1,4 +1,5 @@
-import type { DecisionBasis, MorePlantsAdvice, Verdict, VerdictReason, VerdictResult } from '../calc/verdict';
+import type { DecisionBasis } from '../calc/rules';
+import type { MorePlantsAdvice, Verdict, VerdictReason, VerdictResult } from '../calc/verdict';
 import { biomass, biomassAgainstThreshold, length, percent, type Lang, type UnitSystem } from './figures';
 
 /*

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { DEMO_RULE, decideVerdict, fitCalibration, lbPerAcToKgPerHa } from '../../shared/calc';
+import { DEMO_RULE, decideVerdict, fitCalibration, lbPerAcToKgPerHa, type VerdictReason } from '../../shared/calc';
 import {
   DECISION_BASIS_WORDS, VERDICT_WORDS, adviceText, area, biomass, biomassAgainstThreshold, credit, date, formatNumber, length,
   nitrogenRate, percent, reasonText, verdictSentence,
@@ -128,7 +128,7 @@ describe('verdict sentences in the reader’s language and units', () => {
       { code: 'unknown_spread', n: 1 },
       { code: 'unknown_spread', n: 10 },
       { code: 'extrapolated', meanLengthCm: 150, calibratedCm: [20, 130] },
-    ] as const;
+    ] satisfies VerdictReason[];
     for (const r of reasons) {
       for (const lang of ['en', 'es'] as const) {
         const text = reasonText(r, { lang, units: 'metric' });
