@@ -7,6 +7,7 @@ import { PAGE_LOADED_AT, reconcilePreferences, sessionKeys, useSession } from '.
 import { SignOutButton } from '../features/session/components/sign-out-button';
 import { QueueBanner } from '../features/offline/components/queue-banner';
 import { loadOutbox, useQueueJobs } from '../features/offline';
+import { watchForSignal } from '../features/offline/resend';
 import { todayKeys } from '../features/today/api';
 import { walkKeys } from '../features/submit/api';
 import { Mark } from './mark';
@@ -56,6 +57,19 @@ export function Shell() {
   useEffect(() => {
     void loadOutbox();
   }, []);
+
+  // The outbox sends by itself when the signal may be back, without the app being reopened. A
+  // session not yet confirmed on this page load is asked for first: it decides whose walks go.
+  const freshRef = useRef(fresh);
+  freshRef.current = fresh;
+  useEffect(
+    () =>
+      watchForSignal((why) => {
+        if (!freshRef.current) void qc.refetchQueries({ queryKey: sessionKeys.current() });
+        void loadOutbox().then((outbox) => (why === 'timer' ? outbox.run() : outbox.retryNow()));
+      }),
+    [qc],
+  );
 
   if (restoring) return <Loading />;
   if (!data) {

@@ -1,5 +1,4 @@
 import { describe, expect, it } from 'vitest';
-import type { Page } from 'playwright-core';
 import { screenshot, signIn, SUITE_PASSWORD, useServerAndBrowser } from '../helpers/browser';
 
 /**
@@ -8,12 +7,6 @@ import { screenshot, signIn, SUITE_PASSWORD, useServerAndBrowser } from '../help
  */
 
 const suite = useServerAndBrowser({}, { viewport: { width: 390, height: 844 } });
-
-async function startWalk(page: Page, email: string, field: RegExp) {
-  await signIn(page, suite.server.url, email, SUITE_PASSWORD);
-  await page.getByRole('link', { name: field }).first().click();
-  await page.getByRole('button', { name: /Start the walk|Empezar el recorrido/ }).click();
-}
 
 describe('/capture entry screen', () => {
   it('asks before skipping an empty stop, records the skip and sends it; Yes then Next moves one stop', async () => {
@@ -25,7 +18,11 @@ describe('/capture entry screen', () => {
       if (r.method() === 'POST' && new URL(r.url()).pathname === '/api/walks') posted.push(r.postDataJSON());
     });
 
-    await startWalk(page, 'sampler2@crowntip.test', /Open the walk plan for Bench 1/);
+    await signIn(page, suite.server.url, 'sampler2@crowntip.test', SUITE_PASSWORD);
+    await page.getByRole('heading', { name: 'Assigned to you', level: 2 }).waitFor();
+    await screenshot(page, 'capture-today-groups-en');
+    await page.getByRole('link', { name: /Open the walk plan for Bench 1/ }).first().click();
+    await page.getByRole('button', { name: 'Start the walk' }).click();
     await page.getByRole('heading', { name: 'Stop 1 of 10' }).waitFor();
     const label = /Main shoot length/;
 

@@ -87,3 +87,26 @@ describe('Today in Spanish, metric', () => {
     expect(render([item({ assigned: false })])).toContain('No tienes campos asignados');
   });
 });
+
+describe('Today in groups', () => {
+  beforeAll(async () => {
+    await loadLanguage('en');
+    await setLanguage('en');
+  });
+
+  it('lists assigned plantings, then the other open ones, each with rejected walks first', () => {
+    const rejected = { id: 'w', status: 'rejected' as const, walkedOn: '2027-02-14', rejectReason: 'Stops outside the field' };
+    const approved = { id: 'w2', status: 'approved' as const, walkedOn: '2027-02-10', rejectReason: null };
+    const html = render([
+      item({ plantingId: 'a1', fieldName: 'Assigned One' }),
+      item({ plantingId: 'o1', fieldName: 'Other One', assigned: false, latestWalk: approved }),
+      item({ plantingId: 'a2', fieldName: 'Assigned Rejected', latestWalk: rejected }),
+      item({ plantingId: 'o2', fieldName: 'Other Rejected', assigned: false, latestWalk: rejected }),
+    ]);
+    const order = ['>Assigned to you<', 'Assigned Rejected', 'Assigned One', '>Other open plantings<', 'Other Rejected', 'Other One'].map(
+      (s) => html.indexOf(s),
+    );
+    expect(order.every((i) => i >= 0)).toBe(true);
+    expect([...order].sort((a, b) => a - b)).toEqual(order);
+  });
+});

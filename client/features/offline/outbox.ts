@@ -35,6 +35,5 @@ const transport: QueueTransport = {
   cleanUp: (job) => delMany(job.photos.map((p) => p.key), photoStore()),
 };
 
+// Tried again when the signal may be back: see features/offline/resend.ts, started by the shell.
 export const outbox = createQueue({ storage, transport });
-
-window.addEventListener('online', () => void outbox.retryNow());

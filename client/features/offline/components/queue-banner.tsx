@@ -1,4 +1,4 @@
-import { useState } from 'react';
+import { useEffect, useRef, useState } from 'react';
 import { useTranslation } from 'react-i18next';
 import { useFormat } from '../../session/api';
 import { loadOutbox, useOnline, useQueueJobs, useSendingId } from '../index';
@@ -17,7 +17,37 @@ export function QueueBanner() {
   const s = summarise(jobs);
   const pending = jobs.filter((j) => j.state !== 'done');
 
+  // Walks seen waiting on this screen that have since reached the office: said once, until closed.
+  const seenWaiting = useRef(new Set<string>());
+  const [arrived, setArrived] = useState<QueueJob[]>([]);
+  useEffect(() => {
+    const now = jobs.filter((j) => j.state === 'done' && seenWaiting.current.has(j.id));
+    for (const j of now) seenWaiting.current.delete(j.id);
+    // Only walks that had failed to go (no signal, or a session to renew): a walk sent at once
+    // already has its own screen saying so.
+    for (const j of pending) if (j.lastError !== null || j.attention === 'signin') seenWaiting.current.add(j.id);
+    if (now.length > 0) setArrived((a) => [...a, ...now]);
+  }, [jobs]);
+  const sentNote =
+    arrived.length > 0 ? (
+      <div role="status" className="bg-shoot-50 text-shoot-800" data-testid="sent-banner">
+        <div className="mx-auto flex max-w-2xl items-center justify-between gap-3 px-4 py-2">
+          <p className="font-bold">
+            {t('queue.sentNow', { count: arrived.length, fields: arrived.map((j) => j.label.fieldName).join(', ') })}
+          </p>
+          <button
+            type="button"
+            onClick={() => setArrived([])}
+            className="min-h-touch shrink-0 rounded-lg border-2 border-current px-3 font-bold"
+          >
+            {t('queue.sentOk')}
+          </button>
+        </div>
+      </div>
+    ) : null;
+
   if (pending.length === 0) {
+    if (sentNote) return sentNote;
     if (online) return null;
     return (
       <div role="status" className="bg-loam-700 text-white">
@@ -30,6 +60,8 @@ export function QueueBanner() {
 
   const tone = s.attention > 0 ? 'bg-clay text-white' : 'bg-straw text-loam';
   return (
+    <>
+    {sentNote}
     <div role="status" className={tone} data-testid="queue-banner">
       <div className="mx-auto max-w-2xl px-4 py-3">
         {s.waiting > 0 && (
@@ -76,6 +108,7 @@ export function QueueBanner() {
         )}
       </div>
     </div>
+    </>
   );
 }
 

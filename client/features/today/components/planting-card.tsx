@@ -4,7 +4,7 @@ import type { TodayItem } from '../../../../shared/schemas/walks';
 import { useFormat } from '../../session/api';
 import type { WalkDraft } from '../../entry/drafts';
 
-export function PlantingCard({ item, draft }: { item: TodayItem; draft: WalkDraft | null }) {
+export function PlantingCard({ item, draft, waiting = false }: { item: TodayItem; draft: WalkDraft | null; waiting?: boolean }) {
   const { t } = useTranslation();
   const f = useFormat();
   const walk = item.latestWalk;
@@ -38,6 +38,8 @@ export function PlantingCard({ item, draft }: { item: TodayItem; draft: WalkDraf
                 total: draft.stopCount,
               })}
             </span>
+          ) : waiting ? (
+            <span className="font-bold text-sky-800">{t('today.waitingToSend')}</span>
           ) : walk ? (
             <span className={`font-bold ${walk.status === 'rejected' ? 'text-clay-700' : 'text-shoot-700'}`}>
               {t(`today.walk.${walk.status}`, { date: f.date(walk.walkedOn) })}

@@ -7,7 +7,9 @@ import { useFormat, useUser } from '../../session/api';
 import { LanguageToggle, PreferencesPanel } from '../../session/components/preferences';
 import { calibrationsQuery, rulesQuery } from '../../walk/api';
 import { listDrafts } from '../../entry/draft-list';
+import { useQueueJobs } from '../../offline';
 import { todayQuery } from '../api';
+import { groupToday } from '../groups';
 import { PlantingCard } from '../components/planting-card';
 
 /** Today's walks: the sampler's plantings, walks in progress, search, language and units. */
@@ -33,6 +35,12 @@ export function TodayRoute() {
   const shown = query ? items.filter((i) => i.fieldName.toLowerCase().includes(query)) : items;
   const draftFor = new Map((drafts.data ?? []).map((d) => [d.planting.plantingId, d]));
   const noneAssigned = items.length > 0 && !items.some((i) => i.assigned);
+  const groups = groupToday(shown);
+  // A walk handed to the outbox but not yet at the office: its planting is not "not walked".
+  const waiting = new Set(useQueueJobs().filter((j) => j.state !== 'done').map((j) => j.body.plantingId));
+  const card = (item: TodayItem) => (
+    <PlantingCard key={item.plantingId} item={item} draft={draftFor.get(item.plantingId) ?? null} waiting={waiting.has(item.plantingId)} />
+  );
 
   return (
     <section aria-labelledby="today-title">
@@ -42,35 +50,6 @@ export function TodayRoute() {
         </h1>
         <LanguageToggle />
       </div>
-
-      {(drafts.data?.length ?? 0) > 0 && (
-        <section aria-labelledby="drafts-title" className="mt-4">
-          <h2 id="drafts-title" className="text-xl font-bold">
-            {t('today.inProgress')}
-          </h2>
-          <ul className="mt-2 space-y-3">
-            {drafts.data!.map((d) => {
-              const done = Object.values(d.values).filter((v) => v.trim() !== '').length;
-              return (
-                <li key={d.id} className="rounded-xl border-4 border-straw bg-white p-4">
-                  <p className="text-xl font-bold">{d.planting.fieldName}</p>
-                  <p className="text-loam-600">
-                    {d.planting.ranchName} · {f.date(d.walkedOn)}
-                  </p>
-                  <p className="mt-1 font-bold">{t('today.plantsDone', { count: done, total: d.stopCount })}</p>
-                  <Link
-                    to={`/walks/${d.id}`}
-                    aria-label={`${t('today.continue')}: ${d.planting.fieldName}`}
-                    className="mt-3 flex min-h-14 items-center justify-center rounded-lg bg-shoot px-5 text-xl font-bold text-white hover:bg-shoot-800"
-                  >
-                    {t('today.continue')}
-                  </Link>
-                </li>
-              );
-            })}
-          </ul>
-        </section>
-      )}
 
       <div className="mt-5">
         <label htmlFor="today-search" className="block text-lg font-bold">
@@ -115,13 +94,51 @@ export function TodayRoute() {
         </div>
       )}
       {today.data && items.length > 0 && shown.length === 0 && <p className="mt-4 text-lg">{t('today.noMatch', { q })}</p>}
-      {noneAssigned && !query && <p className="mt-4 text-loam-600">{t('today.allOpen')}</p>}
-      {shown.length > 0 && (
-        <ul className="mt-4 space-y-3" aria-label={t('today.title')}>
-          {shown.map((item: TodayItem) => (
-            <PlantingCard key={item.plantingId} item={item} draft={draftFor.get(item.plantingId) ?? null} />
-          ))}
-        </ul>
+      {groups.assigned.length > 0 && (
+        <section aria-labelledby="assigned-title" className="mt-5">
+          <h2 id="assigned-title" className="border-b-2 border-loam-300 pb-1 text-xl font-bold">
+            {t('today.groupAssigned')}
+          </h2>
+          <ul className="mt-2 space-y-3">{groups.assigned.map(card)}</ul>
+        </section>
+      )}
+      {(drafts.data?.length ?? 0) > 0 && (
+        <section aria-labelledby="drafts-title" className="mt-5">
+          <h2 id="drafts-title" className="border-b-2 border-loam-300 pb-1 text-xl font-bold">
+            {t('today.inProgress')}
+          </h2>
+          <ul className="mt-2 space-y-3">
+            {drafts.data!.map((d) => {
+              const done = Object.values(d.values).filter((v) => v.trim() !== '').length;
+              return (
+                <li key={d.id} className="rounded-xl border-4 border-straw bg-white p-4">
+                  <p className="text-xl font-bold">{d.planting.fieldName}</p>
+                  <p className="text-loam-600">
+                    {d.planting.ranchName} · {f.date(d.walkedOn)}
+                  </p>
+                  <p className="mt-1 font-bold">{t('today.plantsDone', { count: done, total: d.stopCount })}</p>
+                  <Link
+                    to={`/walks/${d.id}`}
+                    aria-label={`${t('today.continue')}: ${d.planting.fieldName}`}
+                    className="mt-3 flex min-h-14 items-center justify-center rounded-lg bg-shoot px-5 text-xl font-bold text-white hover:bg-shoot-800"
+                  >
+                    {t('today.continue')}
+                  </Link>
+                </li>
+              );
+            })}
+          </ul>
+        </section>
+      )}
+
+      {groups.other.length > 0 && (
+        <section aria-labelledby="other-title" className="mt-5">
+          <h2 id="other-title" className="border-b-2 border-loam-300 pb-1 text-xl font-bold">
+            {t('today.groupOther')}
+          </h2>
+          {noneAssigned && !query && <p className="mt-1 text-loam-600">{t('today.allOpen')}</p>}
+          <ul className="mt-2 space-y-3">{groups.other.map(card)}</ul>
+        </section>
       )}
       {today.data && today.isError && <p className="mt-3 text-loam-600">{t('today.cached')}</p>}
 
