@@ -2,8 +2,10 @@
  * Benchmarks of the estimation core. Targets from the issue: compareModels on 150 points < 5 ms;
  * one estimate from a stored Fit < 20 µs. Each case is timed in batches; we report the median batch
  * time divided by the batch size (robust to GC pauses and JIT warm-up, which runs first).
+ * Run with `npx tsx bench/calc.ts`; it is not part of `npm run bench` (its 10,000-point case is slow).
  */
 import { compareModels, estimateBiomass, fitCalibration, lookupTable, predict, DEMO_RULE, type Fit } from '../shared/calc';
+import { pathToFileURL } from 'node:url';
 import { mulberry32 } from '../scripts/prng';
 
 /** Calibration-like points: y = 3.4·x^1.65 with ~22 % multiplicative scatter. */
@@ -74,3 +76,5 @@ export function printTable(title: string, rows: BenchResult[]): void {
     );
   }
 }
+
+if (import.meta.url === pathToFileURL(process.argv[1] ?? '').href) printTable('Estimation core (shared/calc)', runCalcBench());
