@@ -1,3 +1,4 @@
+import { readFileSync } from 'node:fs';
 import { afterAll, describe, expect, it } from 'vitest';
 import type { Locator, Page } from 'playwright-core';
 import { SUITE_PASSWORD, openBrowser, screenshot, signIn, useServerAndBrowser } from '../helpers/browser';
@@ -55,8 +56,9 @@ describe('the office header', () => {
     for (const c of controls) {
       const b = await box(c);
       const middle = b.y + b.height / 2;
-      expect(middle, await c.textContent()).toBeGreaterThan(logo.y);
-      expect(middle, await c.textContent()).toBeLessThan(logo.y + logo.height);
+      const label = (await c.textContent()) ?? '';
+      expect(middle, label).toBeGreaterThan(logo.y);
+      expect(middle, label).toBeLessThan(logo.y + logo.height);
     }
     // and the header is no taller than one row of 44 px targets plus its padding.
     expect((await box(header)).height).toBeLessThan(70);
@@ -132,20 +134,27 @@ describe('cautions and chips', () => {
     expect(await page.locator('.caution li').count()).toBeGreaterThanOrEqual(1);
     await screenshot(page, 'look-register-draft-clerk');
 
-    // The chip styles as the walk views use them (views/walks/_flags.ejs and _verdict.ejs).
-    const chips = await page.evaluate(() => {
-      const read = (cls: string) => {
-        const el = document.createElement('span');
-        el.className = cls;
-        el.textContent = cls;
-        document.body.append(el);
-        const cs = getComputedStyle(el);
-        const out = { bg: cs.backgroundColor, border: cs.borderTopColor, color: cs.color };
-        el.remove();
-        return out;
-      };
-      return { flag: read('badge-flag'), below: read('badge-bad'), meets: read('badge-good') };
+    // The demo's approved walk is below the threshold: its chip on the walks list, beside the
+    // chip the flags use (views/walks/_flags.ejs; the demo walks carry no flag, so a probe).
+    await page.goto(`${suite.server.url}/walks?status=all`);
+    const belowChip = page.getByText('below threshold', { exact: true }).first();
+    const meetsChip = page.getByText('meets threshold', { exact: true }).first();
+    const read = (l: Locator) => l.evaluate((el) => {
+      const cs = getComputedStyle(el);
+      return { bg: cs.backgroundColor, border: cs.borderTopColor, color: cs.color };
     });
+    const flagClass = /class="([^"]+)" data-flag/.exec(readFileSync('views/walks/_flags.ejs', 'utf8'))![1];
+    const flag = await page.evaluate((cls) => {
+      const el = document.createElement('span');
+      el.className = cls;
+      el.textContent = 'outlier';
+      document.querySelector('main')!.append(el);
+      const cs = getComputedStyle(el);
+      const out = { bg: cs.backgroundColor, border: cs.borderTopColor, color: cs.color };
+      el.remove();
+      return out;
+    }, flagClass);
+    const chips = { flag, below: await read(belowChip), meets: await read(meetsChip) };
     expect(chips.flag.bg).not.toBe(chips.below.bg);
     expect(chips.flag.border).not.toBe(chips.below.border);
     expect(chips.flag.color).not.toBe(chips.below.color);
