@@ -13,7 +13,8 @@ import { CROP_LABELS } from '../shared/registry/crops';
 import { errorHandler, isApiRequest, notFound } from './platform/errors';
 import { csrfProtection, securityHeaders } from './platform/security';
 import { CLIENT_DIST, readOfficeAssets } from './platform/assets';
-import { makeFormatter, pickLocale } from './platform/format';
+import { makeFormatter } from './platform/format';
+import { requestContext } from './platform/context';
 import { captureApp } from './platform/capture-app';
 import * as people from './people';
 import * as mail from './mail';
@@ -109,6 +110,7 @@ export function createApp(deps: AppDeps): Express {
   );
   app.use(passport.initialize());
   app.use(passport.session());
+  app.use(requestContext);
 
   // Sign-in limits run before the CSRF check, so a flood of bad tokens still counts (gotcha 3).
   const limits = people.signInLimits(config.SIGNIN_LIMIT_PER_ACCOUNT, config.SIGNIN_LIMIT_PER_ADDRESS);
@@ -119,9 +121,10 @@ export function createApp(deps: AppDeps): Express {
   app.locals.assets = readOfficeAssets(Boolean(deps.vite));
   app.use((req, res, next) => {
     if (isApiRequest(req)) return next(); // JSON answers render no page
-    res.locals.user = req.user ?? null;
+    const { user, units, locale } = req.context!;
+    res.locals.user = user;
     res.locals.currentPath = req.path;
-    res.locals.fmt = makeFormatter(req.user?.units ?? 'us', pickLocale((l) => req.acceptsLanguages(l)));
+    res.locals.fmt = makeFormatter(units, locale);
     res.locals.csrfToken = '';
     res.locals.flash = req.session?.flash ?? null;
     if (req.session?.flash) delete req.session.flash;

@@ -3,7 +3,8 @@ import { Router, type NextFunction, type Request, type RequestHandler, type Resp
 import multer from 'multer';
 import { z } from 'zod';
 import type { AppContext } from '../platform/app-context';
-import { requireRole, requireSignIn } from '../platform/guards';
+import { contextOf } from '../platform/context';
+import { can } from '../platform/permissions';
 import { HttpError } from '../platform/errors';
 import { parseForm } from '../platform/validation';
 import { decodeUtf8, CsvReadError } from '../platform/csv-read';
@@ -106,12 +107,11 @@ function unitsHelpers(fmt: Formatter) {
 export function calibrationPages(ctx: AppContext): Router {
   const router = Router();
   const { db } = ctx;
-  const admins = requireRole('admin');
-  const org = (req: Request) => req.user!.organisationId;
-  const actor = (req: Request): calibrations.Actor => ({ id: req.user!.id, organisationId: req.user!.organisationId });
-  const isAdmin = (req: Request) => req.user!.role === 'admin';
+  const admins = can('calibrations.publish');
+  const org = (req: Request) => contextOf(req).organisationId;
+  const isAdmin = (req: Request) => contextOf(req).can('calibrations.publish');
 
-  router.use('/calibrations', requireSignIn, (_req: Request, res: Response, next: NextFunction) => {
+  router.use('/calibrations', can('calibrations.read'), (_req: Request, res: Response, next: NextFunction) => {
     res.locals.cu = unitsHelpers(res.locals.fmt as Formatter);
     res.locals.modelLabels = MODEL_LABELS;
     res.locals.sig = sig;
@@ -158,7 +158,7 @@ export function calibrationPages(ctx: AppContext): Router {
       if (e instanceof CsvReadError) return fail(e.message);
       throw e;
     }
-    const id = await cal.insertUpload(db, org(req), { uploadedBy: req.user!.id, fileName: path.basename(file.originalname || 'upload.csv'), content, byteSize: file.size });
+    const id = await cal.insertUpload(db, org(req), { uploadedBy: contextOf(req).id, fileName: path.basename(file.originalname || 'upload.csv'), content, byteSize: file.size });
     if (wantsJson) return res.json({ previewUrl: `/calibrations/uploads/${id}` });
     res.redirect(303, `/calibrations/uploads/${id}`);
   });
@@ -219,7 +219,7 @@ export function calibrationPages(ctx: AppContext): Router {
     const v = parsed.value;
     let created;
     try {
-      created = await calibrations.createDraft(db, actor(req), {
+      created = await calibrations.createDraft(db, contextOf(req), {
         crop: v.crop,
         variety: v.variety || null,
         region: v.region || null,
@@ -258,7 +258,7 @@ export function calibrationPages(ctx: AppContext): Router {
     const parsed = parseForm(assignFormSchema, req.body);
     if (!parsed.ok) return renderAssignments(req, res, req.body ?? {}, parsed.errors, 400);
     try {
-      const a = await calibrations.assign(db, actor(req), parsed.value);
+      const a = await calibrations.assign(db, contextOf(req), parsed.value);
       req.session.flash = { kind: 'info', text: `${a.cropLabel}${a.variety ? ` ${a.variety}` : ''} estimates now use version ${a.version} (${a.label}).` };
       res.redirect(303, '/calibrations/assignments');
     } catch (e) {
@@ -270,7 +270,7 @@ export function calibrationPages(ctx: AppContext): Router {
   router.post('/calibrations/assignments/remove', admins, async (req, res) => {
     const crop = String(req.body?.crop ?? '');
     const variety = String(req.body?.variety ?? '') || null;
-    await calibrations.unassign(db, actor(req), crop, variety);
+    await calibrations.unassign(db, contextOf(req), crop, variety);
     req.session.flash = { kind: 'info', text: 'Assignment removed: estimates for it have no calibration until you choose one.' };
     res.redirect(303, '/calibrations/assignments');
   });
@@ -313,7 +313,7 @@ export function calibrationPages(ctx: AppContext): Router {
     if (!c.fit) throw new HttpError('conflict', 'No model could be fitted to these points, so there is no table.');
     const q = tableQuerySchema.safeParse(req.query);
     const query = q.success ? q.data : {};
-    const unit = query.unit ?? (req.user!.units === 'metric' ? 'cm' : 'in');
+    const unit = query.unit ?? (contextOf(req).units === 'metric' ? 'cm' : 'in');
     const rule = await currentCreditRule(db, org(req));
     let view = lookupView(c.fit, { unit, thresholdKgHa: rule.thresholdKgHa, from: query.from, to: query.to });
     let rangeNote: string | null = null;
@@ -339,7 +339,7 @@ export function calibrationPages(ctx: AppContext): Router {
     const parsed = parseForm(publishFormSchema, req.body);
     if (!parsed.ok) return renderFitPage(req, res, c, { values: req.body ?? {}, errors: parsed.errors }, 400);
     try {
-      const done = await calibrations.publish(db, actor(req), c.id, { model: parsed.value.model, label: parsed.value.label, assign: parsed.value.assign === 'yes' });
+      const done = await calibrations.publish(db, contextOf(req), c.id, { model: parsed.value.model, label: parsed.value.label, assign: parsed.value.assign === 'yes' });
       req.session.flash = { kind: 'info', text: `Published as version ${done.version} (${done.label}).${done.assigned ? ` ${done.cropLabel} estimates now use it.` : ''}` };
       res.redirect(303, `/calibrations/${c.id}`);
     } catch (e) {
@@ -351,7 +351,7 @@ export function calibrationPages(ctx: AppContext): Router {
   router.post('/calibrations/:id/retire', admins, async (req, res) => {
     const c = await load(req);
     try {
-      const done = await calibrations.retire(db, actor(req), c.id);
+      const done = await calibrations.retire(db, contextOf(req), c.id);
       req.session.flash = { kind: 'info', text: `Version ${done.version} retired. It stays readable, and estimates made with it keep it.` };
     } catch (e) {
       if (!(e instanceof HttpError && e.code === 'conflict')) throw e;
@@ -362,13 +362,13 @@ export function calibrationPages(ctx: AppContext): Router {
 
   router.post('/calibrations/:id/delete', admins, async (req, res) => {
     const c = await load(req);
-    await calibrations.deleteDraft(db, actor(req), c.id);
+    await calibrations.deleteDraft(db, contextOf(req), c.id);
     req.session.flash = { kind: 'info', text: 'Draft deleted.' };
     res.redirect(303, '/calibrations');
   });
 
   router.post('/calibrations/:id/drafts', admins, async (req, res) => {
-    const draft = await calibrations.draftFrom(db, actor(req), (await load(req)).id);
+    const draft = await calibrations.draftFrom(db, contextOf(req), (await load(req)).id);
     req.session.flash = { kind: 'info', text: 'A new draft with the same points: choose the model and publish it as the next version.' };
     res.redirect(303, `/calibrations/${draft.id}`);
   });

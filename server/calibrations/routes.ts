@@ -1,7 +1,8 @@
 import { Router, type NextFunction, type Request, type Response } from 'express';
 import type { z } from 'zod';
 import type { AppContext } from '../platform/app-context';
-import { requireRole, requireSignIn } from '../platform/guards';
+import { contextOf } from '../platform/context';
+import { can } from '../platform/permissions';
 import { HttpError } from '../platform/errors';
 import { validateBody, validateQuery } from '../platform/validation';
 import * as cal from './db';
@@ -31,11 +32,10 @@ import { lookupView, MAX_LOOKUP_PAGE_ROWS } from './view';
 export function calibrationsApi(ctx: AppContext): Router {
   const router = Router();
   const { db } = ctx;
-  const admins = requireRole('admin');
-  const fitters = requireRole('admin', 'clerk');
-  const actor = (req: Request): calibrations.Actor => ({ id: req.user!.id, organisationId: req.user!.organisationId });
-  const org = (req: Request) => req.user!.organisationId;
-  const seesDrafts = (req: Request) => req.user!.role === 'admin';
+  const admins = can('calibrations.publish');
+  const fitters = can('calibrations.fit');
+  const org = (req: Request) => contextOf(req).organisationId;
+  const seesDrafts = (req: Request) => contextOf(req).can('calibrations.publish');
 
   /** Before a change is even validated: 404 if unknown here, 409 if no longer a draft. */
   const draftOnly = async (req: Request<{ id: string }>, _res: Response, next: NextFunction) => {
@@ -79,7 +79,7 @@ export function calibrationsApi(ctx: AppContext): Router {
     const c = await calibrations.loadCalibration(db, org(req), req.params.id, { drafts: seesDrafts(req) });
     if (!c.fit) throw new HttpError('conflict', 'No model could be fitted to this calibration’s points, so it has no table.');
     const rule = await currentCreditRule(db, org(req));
-    const unit = q.unit ?? (req.user!.units === 'metric' ? 'cm' : 'in');
+    const unit = q.unit ?? (contextOf(req).units === 'metric' ? 'cm' : 'in');
     let view;
     try {
       view = lookupView(c.fit, { unit, thresholdKgHa: rule.thresholdKgHa, from: q.from, to: q.to });
@@ -120,29 +120,29 @@ export function calibrationsApi(ctx: AppContext): Router {
   const create = async (req: Request, res: Response) => {
     const body = req.body as z.infer<typeof createBodySchema>;
     const points = body.points.map((p) => Object.fromEntries(Object.entries(p).filter(([, v]) => v != null)) as unknown as cal.DatasetPoint);
-    const c = await calibrations.createDraft(db, actor(req), { ...body, fileName: null, points });
+    const c = await calibrations.createDraft(db, contextOf(req), { ...body, fileName: null, points });
     res.status(201).json(calibrationJson(c));
   };
 
   const patch = async (req: Request<{ id: string }>, res: Response) => {
-    res.json(calibrationJson(await calibrations.changeDraft(db, actor(req), req.params.id, req.body)));
+    res.json(calibrationJson(await calibrations.changeDraft(db, contextOf(req), req.params.id, req.body)));
   };
 
   const remove = async (req: Request<{ id: string }>, res: Response) => {
-    await calibrations.deleteDraft(db, actor(req), req.params.id);
+    await calibrations.deleteDraft(db, contextOf(req), req.params.id);
     res.status(204).end();
   };
 
   const publish = async (req: Request<{ id: string }>, res: Response) => {
-    res.json(calibrationJson(await calibrations.publish(db, actor(req), req.params.id, req.body)));
+    res.json(calibrationJson(await calibrations.publish(db, contextOf(req), req.params.id, req.body)));
   };
 
   const retire = async (req: Request<{ id: string }>, res: Response) => {
-    res.json(calibrationJson(await calibrations.retire(db, actor(req), req.params.id)));
+    res.json(calibrationJson(await calibrations.retire(db, contextOf(req), req.params.id)));
   };
 
   const draftFrom = async (req: Request<{ id: string }>, res: Response) => {
-    res.status(201).json(calibrationJson(await calibrations.draftFrom(db, actor(req), req.params.id)));
+    res.status(201).json(calibrationJson(await calibrations.draftFrom(db, contextOf(req), req.params.id)));
   };
 
   const assignments = async (req: Request, res: Response) => {
@@ -151,24 +151,24 @@ export function calibrationsApi(ctx: AppContext): Router {
   };
 
   const putAssignment = async (req: Request, res: Response) => {
-    res.json(assignmentJson(await calibrations.assign(db, actor(req), req.body)));
+    res.json(assignmentJson(await calibrations.assign(db, contextOf(req), req.body)));
   };
 
   const deleteAssignment = async (req: Request, res: Response) => {
     const q = res.locals.query as z.infer<typeof assignmentQuerySchema>;
-    await calibrations.unassign(db, actor(req), q.crop, q.variety ?? null);
+    await calibrations.unassign(db, contextOf(req), q.crop, q.variety ?? null);
     res.status(204).end();
   };
 
-  router.get('/', requireSignIn, validateQuery(listQuerySchema), list);
+  router.get('/', can('calibrations.read'), validateQuery(listQuerySchema), list);
   router.post('/', admins, validateBody(createBodySchema), create);
   router.post('/fit', fitters, validateBody(fitBodySchema), fit);
   router.post('/compare', fitters, validateBody(compareBodySchema), compare);
-  router.get('/assignments', requireSignIn, assignments);
+  router.get('/assignments', can('calibrations.read'), assignments);
   router.put('/assignments', admins, validateBody(assignmentBodySchema), putAssignment);
   router.delete('/assignments', admins, validateQuery(assignmentQuerySchema), deleteAssignment);
-  router.get('/:id', requireSignIn, show);
-  router.get('/:id/table', requireSignIn, validateQuery(tableQuerySchema), table);
+  router.get('/:id', can('calibrations.read'), show);
+  router.get('/:id/table', can('calibrations.read'), validateQuery(tableQuerySchema), table);
   router.patch('/:id', admins, draftOnly, validateBody(patchBodySchema), patch);
   router.put('/:id', admins, draftOnly, validateBody(patchBodySchema), patch);
   router.delete('/:id', admins, remove);

@@ -1,7 +1,8 @@
 import { Router } from 'express';
 import { z } from 'zod';
 import type { AppContext } from '../platform/app-context';
-import { requireRole } from '../platform/guards';
+import { contextOf } from '../platform/context';
+import { can } from '../platform/permissions';
 import { HttpError } from '../platform/errors';
 import { getOutboxMessage, listOutbox } from './db';
 
@@ -11,11 +12,11 @@ const pageQuery = z.object({ page: z.coerce.number().int().min(1).default(1).cat
 /** Admin only: every message Crowntip sent or captured for this organisation. */
 export function outboxPages(ctx: AppContext): Router {
   const router = Router();
-  router.use(requireRole('admin'));
+  router.use(can('mail.outbox'));
 
   router.get('/', async (req, res) => {
     const { page } = pageQuery.parse(req.query);
-    const { items, total } = await listOutbox(ctx.db, req.user!.organisationId, { limit: PAGE, offset: (page - 1) * PAGE });
+    const { items, total } = await listOutbox(ctx.db, contextOf(req).organisationId, { limit: PAGE, offset: (page - 1) * PAGE });
     res.render('admin/outbox', {
       title: 'Outbox',
       items,
@@ -27,7 +28,7 @@ export function outboxPages(ctx: AppContext): Router {
   });
 
   router.get('/:id', async (req, res) => {
-    const message = await getOutboxMessage(ctx.db, req.user!.organisationId, req.params.id);
+    const message = await getOutboxMessage(ctx.db, contextOf(req).organisationId, req.params.id);
     if (!message) throw new HttpError('not_found');
     // Links in the text become clickable so an invitation can be followed from here in development.
     res.render('admin/outbox-message', { title: message.subject, message, links: message.text.match(/https?:\/\/\S+/g) ?? [] });

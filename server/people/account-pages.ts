@@ -1,7 +1,8 @@
 import { Router } from 'express';
 import { z } from 'zod';
 import type { AppContext } from '../platform/app-context';
-import { requireSignIn } from '../platform/guards';
+import { contextOf } from '../platform/context';
+import { signedIn } from '../platform/permissions';
 import { hashPassword, passwordSchema, verifyPassword } from './passwords';
 import { parseForm } from '../platform/validation';
 import { findUserForSignIn, setUserPassword, setUserPreferences } from './db';
@@ -18,7 +19,7 @@ const preferencesForm = z.object({
 /** Every signed-in user: own password, units and language. */
 export function accountPages(ctx: AppContext): Router {
   const router = Router();
-  router.use('/account', requireSignIn);
+  router.use('/account', signedIn);
 
   const show = (res: import('express').Response, status: number, extra: Record<string, unknown> = {}) =>
     res.status(status).render('account/index', { title: 'Your account', passwordErrors: {}, prefErrors: {}, ...extra });
@@ -26,7 +27,7 @@ export function accountPages(ctx: AppContext): Router {
   router.get('/account', (_req, res) => show(res, 200));
 
   router.post('/account/password', async (req, res) => {
-    const user = req.user!;
+    const user = contextOf(req).user;
     const parsed = parseForm(passwordForm, req.body);
     if (!parsed.ok) return show(res, 400, { passwordErrors: parsed.errors });
     const stored = await findUserForSignIn(ctx.db, user.email);
@@ -39,7 +40,7 @@ export function accountPages(ctx: AppContext): Router {
   });
 
   router.post('/account/preferences', async (req, res) => {
-    const user = req.user!;
+    const user = contextOf(req).user;
     const parsed = parseForm(preferencesForm, req.body);
     if (!parsed.ok) return show(res, 400, { prefErrors: parsed.errors });
     await setUserPreferences(ctx.db, user.organisationId, user.id, parsed.value);

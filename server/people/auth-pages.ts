@@ -2,7 +2,7 @@ import { Router } from 'express';
 import type passport from 'passport';
 import { z } from 'zod';
 import type { AppContext } from '../platform/app-context';
-import { homeFor } from '../platform/roles';
+import { homeFor } from '../platform/permissions';
 import { SIGN_IN_FAILED } from './passport';
 import { hashPassword, passwordSchema } from './passwords';
 import { parseForm } from '../platform/validation';

@@ -2,6 +2,7 @@ import { randomUUID } from 'node:crypto';
 import type { Knex } from 'knex';
 import type { Role } from '../platform/roles';
 import { inOrganisation, nowIso } from '../platform/scope';
+import { rolesAllowed } from '../platform/permissions';
 
 export type Units = 'us' | 'metric';
 export type Language = 'en' | 'es';
@@ -185,7 +186,8 @@ export const recordSignIn = (db: Knex, organisationId: string, id: string) =>
 
 export async function countActiveAdmins(db: Knex, organisationId: string): Promise<number> {
   const row = await inOrganisation(db, 'users', organisationId)
-    .where({ role: 'admin', active: true })
+    .whereIn('role', rolesAllowed('users.manage'))
+    .where({ active: true })
     .count({ n: '*' })
     .first();
   return Number(row?.n ?? 0);

@@ -1,7 +1,8 @@
 import { Router } from 'express';
 import type { AppContext } from '../platform/app-context';
-import { requireRole } from '../platform/guards';
-import { OFFICE_ROLES, ROLE_SUMMARIES, homeFor } from '../platform/roles';
+import { contextOf } from '../platform/context';
+import { can, homeFor } from '../platform/permissions';
+import { ROLE_SUMMARIES } from '../platform/roles';
 import { countUsers } from './db';
 
 export function homePages(ctx: AppContext): Router {
@@ -12,14 +13,14 @@ export function homePages(ctx: AppContext): Router {
   });
 
   // The office dashboard: admin and clerk work here; the auditor sees the same, read-only.
-  router.get('/office', requireRole(...OFFICE_ROLES), async (req, res) => {
-    const user = req.user!;
+  router.get('/office', can('office.use'), async (req, res) => {
+    const user = contextOf(req).user;
     const counts = await countUsers(ctx.db, user.organisationId);
     res.render('office/dashboard', {
       title: 'Office',
       counts,
       roleSummary: ROLE_SUMMARIES[user.role],
-      readOnly: user.role === 'auditor',
+      readOnly: !contextOf(req).can('registry.write'),
     });
   });
 

@@ -1,7 +1,8 @@
 import { Router, type Request, type Response, type NextFunction } from 'express';
 import type passport from 'passport';
 import type { AppContext } from '../platform/app-context';
-import { requireSignIn } from '../platform/guards';
+import { contextOf } from '../platform/context';
+import { signedIn } from '../platform/permissions';
 import { SIGN_IN_FAILED } from './passport';
 import { HttpError } from '../platform/errors';
 import { validateBody } from '../platform/validation';
@@ -41,8 +42,8 @@ export function sessionApi(ctx: AppContext, pp: passport.PassportStatic): Router
     res.json({ user: toSessionUser(req.user), csrfToken: req.csrfToken?.() });
   });
 
-  router.patch('/', requireSignIn, validateBody(preferencesSchema), async (req, res) => {
-    const user = req.user!;
+  router.patch('/', signedIn, validateBody(preferencesSchema), async (req, res) => {
+    const user = contextOf(req).user;
     const prefs = { units: req.body.units ?? user.units, language: req.body.language ?? user.language };
     await setUserPreferences(ctx.db, user.organisationId, user.id, prefs);
     res.json({ user: toSessionUser({ ...user, ...prefs }), csrfToken: req.csrfToken?.() });

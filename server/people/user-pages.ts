@@ -1,7 +1,8 @@
 import { Router } from 'express';
 import { z } from 'zod';
 import type { AppContext } from '../platform/app-context';
-import { requireRole } from '../platform/guards';
+import { contextOf } from '../platform/context';
+import { allows, can, DEFAULT_INVITE_ROLE } from '../platform/permissions';
 import { ROLES } from '../platform/roles';
 import { HttpError } from '../platform/errors';
 import { parseForm } from '../platform/validation';
@@ -37,7 +38,7 @@ const activeForm = z.object({ active: z.enum(['true', 'false']).transform((v) =>
 /** Admin only: the organisation's users, invitations, roles and deactivation. */
 export function userAdminPages(ctx: AppContext): Router {
   const router = Router();
-  router.use(requireRole('admin'));
+  router.use(can('users.manage'));
 
   router.get('/', async (req, res) => {
     const query = listQuery.parse(req.query);
@@ -48,12 +49,12 @@ export function userAdminPages(ctx: AppContext): Router {
       sort: query.sort,
       dir: query.dir,
     };
-    const users = await listUsers(ctx.db, req.user!.organisationId, listArgs);
+    const users = await listUsers(ctx.db, contextOf(req).organisationId, listArgs);
     res.render('admin/users', { title: 'Users', users, query, roles: ROLES });
   });
 
   router.get('/invite', (_req, res) => {
-    res.render('admin/invite', { title: 'Invite a user', values: { role: 'sampler' }, errors: {}, roles: ROLES });
+    res.render('admin/invite', { title: 'Invite a user', values: { role: DEFAULT_INVITE_ROLE }, errors: {}, roles: ROLES });
   });
 
   router.post('/invite', async (req, res) => {
@@ -66,7 +67,7 @@ export function userAdminPages(ctx: AppContext): Router {
       res.status(400).render('admin/invite', { title: 'Invite a user', values: req.body ?? {}, errors, roles: ROLES });
       return;
     }
-    const admin = req.user!;
+    const admin = contextOf(req).user;
     const id = await insertUser(ctx.db, admin.organisationId, { ...parsed.value, passwordHash: null });
     await sendInvitation(ctx, { id, ...parsed.value, organisationId: admin.organisationId }, admin);
     req.session.flash = { kind: 'info', text: `Invitation sent to ${parsed.value.email}.` };
@@ -80,11 +81,11 @@ export function userAdminPages(ctx: AppContext): Router {
   };
 
   router.post('/:id/role', async (req, res) => {
-    const admin = req.user!;
+    const admin = contextOf(req).user;
     const target = await loadTarget(admin.organisationId, req.params.id);
     const parsed = parseForm(roleForm, req.body);
     if (!parsed.ok) throw new HttpError('invalid', 'Choose a role.', parsed.errors);
-    if (target.role === 'admin' && parsed.value.role !== 'admin' && (await countActiveAdmins(ctx.db, admin.organisationId)) <= 1) {
+    if (allows(target.role, 'users.manage') && !allows(parsed.value.role, 'users.manage') && (await countActiveAdmins(ctx.db, admin.organisationId)) <= 1) {
       throw new HttpError('conflict', 'The organisation needs at least one active administrator.');
     }
     await setUserRole(ctx.db, admin.organisationId, target.id, parsed.value.role);
@@ -93,7 +94,7 @@ export function userAdminPages(ctx: AppContext): Router {
   });
 
   router.post('/:id/active', async (req, res) => {
-    const admin = req.user!;
+    const admin = contextOf(req).user;
     const target = await loadTarget(admin.organisationId, req.params.id);
     const parsed = parseForm(activeForm, req.body);
     if (!parsed.ok) throw new HttpError('invalid', undefined, parsed.errors);
@@ -109,7 +110,7 @@ export function userAdminPages(ctx: AppContext): Router {
   });
 
   router.post('/:id/reset', async (req, res) => {
-    const admin = req.user!;
+    const admin = contextOf(req).user;
     const target = await loadTarget(admin.organisationId, req.params.id);
     if (!target.active) throw new HttpError('conflict', 'Reactivate the account before sending a reset link.');
     if (target.hasPassword) await sendPasswordResetLink(ctx, target);

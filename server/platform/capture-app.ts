@@ -2,7 +2,7 @@ import fs from 'node:fs';
 import path from 'node:path';
 import { Router, type Request, type Response } from 'express';
 import type { ViteDevServer } from 'vite';
-import { requireRole } from './guards';
+import { can } from './permissions';
 import { CLIENT_DIST } from './assets';
 
 /**
@@ -16,7 +16,7 @@ import { CLIENT_DIST } from './assets';
  */
 export function captureApp(vite?: ViteDevServer): Router {
   const router = Router();
-  const guard = requireRole('sampler', 'clerk', 'admin');
+  const guard = can('capture.use');
   let builtHtml: string | null = null;
 
   const serve = async (req: Request, res: Response) => {

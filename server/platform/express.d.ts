@@ -1,4 +1,5 @@
 import type { User as CrowntipUser } from '../people/db';
+import type { RequestContext } from './context';
 
 declare global {
   namespace Express {
@@ -7,6 +8,8 @@ declare global {
     interface Request {
       /** Set by lusca: the CSRF token for forms and the X-CSRF-Token header. */
       csrfToken?: () => string;
+      /** Who is asking (server/platform/context.ts); read it through contextOf(req). */
+      context?: RequestContext;
     }
   }
 }

@@ -1,4 +1,4 @@
-/** The four roles of ../shared/PRODUCT.md and what they may do, in one place. */
+/** The four roles and how the office names them; what each may do is server/platform/permissions.ts. */
 export const ROLES = ['admin', 'clerk', 'sampler', 'auditor'] as const;
 export type Role = (typeof ROLES)[number];
 
@@ -15,11 +15,3 @@ export const ROLE_SUMMARIES: Record<Role, string> = {
   sampler: 'field walks on a phone in /capture',
   auditor: 'reads registers, walks, calibrations and the change history; prints and exports',
 };
-
-/** Roles that use the office pages; samplers work in /capture. */
-export const OFFICE_ROLES: Role[] = ['admin', 'clerk', 'auditor'];
-
-/** Where each role lands after signing in. */
-export function homeFor(role: Role): string {
-  return role === 'sampler' ? '/capture' : '/office';
-}

@@ -1,7 +1,8 @@
 import { Router, type Request, type Response } from 'express';
 import { z } from 'zod';
 import type { AppContext } from '../platform/app-context';
-import { requireRole } from '../platform/guards';
+import { contextOf } from '../platform/context';
+import { can } from '../platform/permissions';
 import { HttpError } from '../platform/errors';
 import { getRegister, latestRegister, listRegisterVersions } from './db';
 import { registerRanches } from './inputs-db';
@@ -39,8 +40,8 @@ const wantsJson = (req: Request) => req.accepts(['html', 'json']) === 'json';
  */
 export function registerPages(ctx: AppContext): Router {
   const router = Router();
-  const readers = requireRole('admin', 'clerk', 'auditor');
-  const writers = requireRole('clerk', 'admin');
+  const readers = can('registers.read');
+  const writers = can('registers.finalise');
   const jobs = createRegisterJobs({ db: ctx.db, logger: ctx.logger });
   router.use('/registers', readers);
 
@@ -56,9 +57,9 @@ export function registerPages(ctx: AppContext): Router {
     const today = todayIso();
     const current = reportingYearOf(today);
     const year = q.year ?? current;
-    const orgId = req.user!.organisationId;
+    const orgId = contextOf(req).organisationId;
     const summary = await organisationSummary(ctx.db, orgId, year, today);
-    const rf = registerUnits(req.user!.units);
+    const rf = registerUnits(contextOf(req).units);
     const chart = summary.ranches.length
       ? barChartSvg({
           id: 'credit-by-ranch',
@@ -86,7 +87,7 @@ export function registerPages(ctx: AppContext): Router {
   router.post('/registers/jobs', async (req, res) => {
     const y = yearParam.safeParse(req.body?.year);
     if (!y.success) throw new HttpError('invalid', 'Choose a reporting year.', { year: 'Choose a reporting year.' });
-    const job = jobs.start(req.user!.organisationId, y.data, req.user!);
+    const job = jobs.start(contextOf(req).organisationId, y.data, contextOf(req).user);
     const status = jobs.status(job);
     if (wantsJson(req)) {
       res.status(202).json({ ...status, statusUrl: `/registers/jobs/${job.id}` });
@@ -96,7 +97,7 @@ export function registerPages(ctx: AppContext): Router {
   });
 
   const findJob = (req: Request<{ id: string }>) => {
-    const job = jobs.get(req.user!.organisationId, req.params.id);
+    const job = jobs.get(contextOf(req).organisationId, req.params.id);
     if (!job) throw new HttpError('not_found', 'This build is unknown or has expired (results are kept for an hour). Start a new one.');
     return job;
   };
@@ -124,14 +125,14 @@ export function registerPages(ctx: AppContext): Router {
 
   // ---- a finalised version ----
   const loadVersion = async (req: Request) => {
-    const orgId = req.user!.organisationId;
+    const orgId = contextOf(req).organisationId;
     const stored = await getRegister(ctx.db, orgId, String(req.params.id));
     if (!stored) throw new HttpError('not_found');
     return { stored, final: parseStored(stored) };
   };
 
   router.get('/registers/v/:id', async (req, res) => {
-    const orgId = req.user!.organisationId;
+    const orgId = contextOf(req).organisationId;
     const { stored, final } = await loadVersion(req);
     const { paper } = paperQuery.parse(req.query);
     const previous = final.previousId ? await getFinalRegister(ctx.db, orgId, final.previousId) : undefined;
@@ -147,7 +148,7 @@ export function registerPages(ctx: AppContext): Router {
       newest: versions[0]?.id === final.id,
       contactEmails: ranch?.contactEmails ?? [],
       paper: paper ?? 'a4',
-      rf: registerUnits(req.user!.units),
+      rf: registerUnits(contextOf(req).units),
       cautions: CAUTIONS,
       cropLabel,
       shortId,
@@ -155,7 +156,7 @@ export function registerPages(ctx: AppContext): Router {
   });
 
   router.post('/registers/v/:id/send', writers, async (req, res) => {
-    const orgId = req.user!.organisationId;
+    const orgId = contextOf(req).organisationId;
     const { final } = await loadVersion(req);
     const [ranch] = await registerRanches(ctx.db, orgId, [final.ranch.id]);
     const to = ranch?.contactEmails ?? [];
@@ -165,8 +166,8 @@ export function registerPages(ctx: AppContext): Router {
       return;
     }
     const doc = asFinal(final);
-    const rf = registerUnits(req.user!.units);
-    const pdf = await registerPdf([doc], { units: req.user!.units });
+    const rf = registerUnits(contextOf(req).units);
+    const pdf = await registerPdf([doc], { units: contextOf(req).units });
     const t = final.totals;
     await ctx.mailer.send({
       organisationId: orgId,
@@ -182,7 +183,7 @@ export function registerPages(ctx: AppContext): Router {
         '',
         ...CAUTIONS,
         '',
-        `Sent by ${req.user!.name} (${req.user!.organisationName}) with Crowntip.`,
+        `Sent by ${contextOf(req).name} (${contextOf(req).user.organisationName}) with Crowntip.`,
       ].join('\n'),
       attachments: [{ filename: `${registerFileStem(doc)}.pdf`, contentType: 'application/pdf', content: pdf }],
     });
@@ -192,7 +193,7 @@ export function registerPages(ctx: AppContext): Router {
 
   // ---- a ranch's register for a year: the draft and the Finalise form ----
   const showDraft = async (req: Request, res: Response, status = 200, errors: Record<string, string> = {}) => {
-    const orgId = req.user!.organisationId;
+    const orgId = contextOf(req).organisationId;
     const year = parseYear(String(req.params.year));
     const draft = await computeRegister(ctx.db, orgId, String(req.params.ranchId), year, todayIso());
     if (!draft) throw new HttpError('not_found');
@@ -206,7 +207,7 @@ export function registerPages(ctx: AppContext): Router {
       latest: latestFinal ? { id: latestFinal.id, version: latestFinal.version } : null,
       diff: latestFinal ? diffRegisters(latestFinal, draft) : null,
       errors,
-      rf: registerUnits(req.user!.units),
+      rf: registerUnits(contextOf(req).units),
       cautions: CAUTIONS,
       cropLabel,
       shortId,
@@ -222,7 +223,7 @@ export function registerPages(ctx: AppContext): Router {
       return showDraft(req, res, 400, { confirm: 'Tick the box to confirm that the rows are checked; a finalised register cannot be changed.' });
     }
     try {
-      const final = await finaliseRegister(ctx.db, req.user!.organisationId, ranchId, year, req.user!, todayIso());
+      const final = await finaliseRegister(ctx.db, contextOf(req).organisationId, ranchId, year, contextOf(req).user, todayIso());
       req.session.flash = {
         kind: 'info',
         text: final.version === 1 ? `Register finalised as version 1.` : `Amendment finalised as version ${final.version}; the changes from version ${final.version - 1} are listed below.`,

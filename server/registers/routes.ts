@@ -1,7 +1,8 @@
 import { Router, type Request, type Response } from 'express';
 import { z } from 'zod';
 import type { AppContext } from '../platform/app-context';
-import { requireRole } from '../platform/guards';
+import { contextOf } from '../platform/context';
+import { can } from '../platform/permissions';
 import { HttpError } from '../platform/errors';
 import { validateBody, validateQuery } from '../platform/validation';
 import { getRegister, latestRegister, listRegisterVersions } from './db';
@@ -46,12 +47,12 @@ async function withDiff(ctx: AppContext, organisationId: string, final: FinalReg
  */
 export function registersApi(ctx: AppContext): Router {
   const router = Router();
-  const readers = requireRole('admin', 'clerk', 'auditor');
-  const writers = requireRole('clerk', 'admin');
+  const readers = can('registers.read');
+  const writers = can('registers.finalise');
 
   const current = async (req: Request, res: Response) => {
     const q = res.locals.query as z.infer<typeof registerQuery>;
-    const orgId = req.user!.organisationId;
+    const orgId = contextOf(req).organisationId;
     const wantDraft = q.draft === '1' || q.draft === 'true';
     const latest = wantDraft ? undefined : await latestRegister(ctx.db, orgId, q.ranchId, q.year);
     if (latest) {
@@ -65,26 +66,26 @@ export function registersApi(ctx: AppContext): Router {
 
   const finalise = async (req: Request, res: Response) => {
     const body = req.body as z.infer<typeof finaliseBody>;
-    const orgId = req.user!.organisationId;
-    const final = await finaliseRegister(ctx.db, orgId, body.ranchId, body.year, req.user!, todayIso());
+    const orgId = contextOf(req).organisationId;
+    const final = await finaliseRegister(ctx.db, orgId, body.ranchId, body.year, contextOf(req).user, todayIso());
     res.status(201).json(await withDiff(ctx, orgId, final));
   };
 
   const versions = async (req: Request, res: Response) => {
     const q = res.locals.query as z.infer<typeof versionsQuery>;
-    const items = await listRegisterVersions(ctx.db, req.user!.organisationId, q.ranchId, q.year);
+    const items = await listRegisterVersions(ctx.db, contextOf(req).organisationId, q.ranchId, q.year);
     res.json({ items, total: items.length });
   };
 
   const load = async (req: Request<{ id: string }>) => {
-    const stored = await getRegister(ctx.db, req.user!.organisationId, req.params.id);
+    const stored = await getRegister(ctx.db, contextOf(req).organisationId, req.params.id);
     if (!stored) throw new HttpError('not_found');
     return stored;
   };
 
   const show = async (req: Request<{ id: string }>, res: Response) => {
     const stored = await load(req);
-    res.json({ ...(await withDiff(ctx, req.user!.organisationId, parseStored(stored))), hashVerified: verifyStored(stored) });
+    res.json({ ...(await withDiff(ctx, contextOf(req).organisationId, parseStored(stored))), hashVerified: verifyStored(stored) });
   };
 
   const csv = async (req: Request<{ id: string }>, res: Response) => {
@@ -98,7 +99,7 @@ export function registersApi(ctx: AppContext): Router {
   const pdf = async (req: Request<{ id: string }>, res: Response) => {
     const doc = asFinal(parseStored(await load(req)));
     const { paper } = paperQuery.parse(req.query);
-    const buffer = await registerPdf([doc], { units: req.user!.units, paper });
+    const buffer = await registerPdf([doc], { units: contextOf(req).units, paper });
     res.setHeader('Content-Type', 'application/pdf');
     res.setHeader('Content-Disposition', `attachment; filename="${registerFileStem(doc)}.pdf"`);
     res.setHeader('X-Content-Hash', doc.contentHash!);
@@ -107,7 +108,7 @@ export function registersApi(ctx: AppContext): Router {
 
   // Writers learn that the register exists and cannot change; a missing one is still 404.
   const immutable = async (req: Request<{ id?: string }>) => {
-    if (req.params.id && !(await getRegister(ctx.db, req.user!.organisationId, req.params.id))) throw new HttpError('not_found');
+    if (req.params.id && !(await getRegister(ctx.db, contextOf(req).organisationId, req.params.id))) throw new HttpError('not_found');
     throw new HttpError('conflict', IMMUTABLE_MESSAGE);
   };
 

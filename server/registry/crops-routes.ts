@@ -1,12 +1,12 @@
 import { Router } from 'express';
 import type { AppContext } from '../platform/app-context';
-import { requireSignIn } from '../platform/guards';
+import { can } from '../platform/permissions';
 import { listCrops } from './plantings-db';
 
 /** GET /api/crops: the crop list every install has (from a migration), for any signed-in role. */
 export function cropsApi(ctx: AppContext): Router {
   const router = Router();
-  router.get('/', requireSignIn, async (_req, res) => {
+  router.get('/', can('registry.read'), async (_req, res) => {
     const items = await listCrops(ctx.db);
     res.json({ items, total: items.length });
   });

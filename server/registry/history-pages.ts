@@ -1,7 +1,8 @@
 import { Router } from 'express';
 import { z } from 'zod';
 import type { AppContext } from '../platform/app-context';
-import { requireRole } from '../platform/guards';
+import { contextOf } from '../platform/context';
+import { can } from '../platform/permissions';
 import { historyAuthors, listHistory } from './history-db';
 import { isoDate } from '../../shared/schemas/registry';
 
@@ -21,9 +22,9 @@ const HREF: Record<string, string> = { ranch: '/registry/ranches/', field: '/reg
 /** The organisation's change history, read-only for every office role (auditors included). */
 export function historyPages(ctx: AppContext): Router {
   const router = Router();
-  router.get('/history', requireRole('admin', 'clerk', 'auditor'), async (req, res) => {
+  router.get('/history', can('history.read'), async (req, res) => {
     const q = historyQuery.parse(req.query);
-    const orgId = req.user!.organisationId;
+    const orgId = contextOf(req).organisationId;
     const { items, total } = await listHistory(ctx.db, orgId, {
       entityType: q.entityType,
       entityId: q.entityId || undefined,

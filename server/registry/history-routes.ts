@@ -1,7 +1,8 @@
 import { Router, type Request, type Response } from 'express';
 import { z } from 'zod';
 import type { AppContext } from '../platform/app-context';
-import { requireRole } from '../platform/guards';
+import { contextOf } from '../platform/context';
+import { can } from '../platform/permissions';
 import { validateQuery } from '../platform/validation';
 import { listHistory } from './history-db';
 import { isoDate, pagingSchema } from '../../shared/schemas/registry';
@@ -23,9 +24,9 @@ export function historyApi(ctx: AppContext): Router {
   const router = Router();
 
   const list = async (req: Request, res: Response) => {
-    res.json(await listHistory(ctx.db, req.user!.organisationId, res.locals.query as z.infer<typeof listSchema>));
+    res.json(await listHistory(ctx.db, contextOf(req).organisationId, res.locals.query as z.infer<typeof listSchema>));
   };
 
-  router.get('/', requireRole('admin', 'clerk', 'auditor'), validateQuery(listSchema), list);
+  router.get('/', can('history.read'), validateQuery(listSchema), list);
   return router;
 }

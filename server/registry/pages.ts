@@ -2,7 +2,8 @@ import { Router, type Request, type Response } from 'express';
 import multer from 'multer';
 import { z } from 'zod';
 import type { AppContext } from '../platform/app-context';
-import { requireRole, requireSignIn } from '../platform/guards';
+import { contextOf } from '../platform/context';
+import { can } from '../platform/permissions';
 import { HttpError } from '../platform/errors';
 import { parseForm } from '../platform/validation';
 import { areasDisagree } from '../../shared/registry/boundary-area';
@@ -27,10 +28,9 @@ export const boundaryUpload = multer({
 export const FIELD_FORM_PATHS = ['/registry/fields', '/registry/fields/:id'];
 
 const PAGE = 50;
-const writers = requireRole('clerk', 'admin');
-const canEdit = (req: Request) => req.user?.role === 'clerk' || req.user?.role === 'admin';
-const actorOf = (req: Request): registry.Actor => ({ id: req.user!.id, name: req.user!.name, organisationId: req.user!.organisationId });
-const org = (req: Request) => req.user!.organisationId;
+const writers = can('registry.write');
+const canEdit = (req: Request) => Boolean(req.context?.can('registry.write'));
+const org = (req: Request) => contextOf(req).organisationId;
 const currentSeason = () => seasonOfDate(todayIso());
 
 const ranchListQuery = z.object({
@@ -58,7 +58,7 @@ function rerender(res: Response, view: string, locals: Record<string, unknown>, 
 export function registryPages(ctx: AppContext): Router {
   const router = Router();
   const { db } = ctx;
-  router.use('/registry', requireSignIn);
+  router.use('/registry', can('registry.read'));
 
   router.get('/registry', (_req, res) => res.redirect('/registry/ranches'));
 
@@ -89,7 +89,7 @@ export function registryPages(ctx: AppContext): Router {
     const parsed = parseForm(ranchInputSchema, req.body);
     if (!parsed.ok) return res.status(400).render('registry/ranch-form', { ...locals, errors: parsed.errors });
     try {
-      const ranch = await registry.createRanch(db, actorOf(req), parsed.value);
+      const ranch = await registry.createRanch(db, contextOf(req), parsed.value);
       req.session.flash = { kind: 'info', text: `Ranch “${ranch.name}” added.` };
       res.redirect(`/registry/ranches/${ranch.id}`);
     } catch (err) {
@@ -125,7 +125,7 @@ export function registryPages(ctx: AppContext): Router {
     const parsed = parseForm(ranchInputSchema, req.body);
     if (!parsed.ok) return res.status(400).render('registry/ranch-form', { ...locals, errors: parsed.errors });
     try {
-      await registry.updateRanch(db, actorOf(req), ranch.id, { ...parsed.value, contactEmails: parsed.value.contactEmails ?? [] });
+      await registry.updateRanch(db, contextOf(req), ranch.id, { ...parsed.value, contactEmails: parsed.value.contactEmails ?? [] });
       req.session.flash = { kind: 'info', text: 'Ranch saved.' };
       res.redirect(`/registry/ranches/${ranch.id}`);
     } catch (err) {
@@ -135,7 +135,7 @@ export function registryPages(ctx: AppContext): Router {
 
   router.post('/registry/ranches/:id/delete', writers, async (req, res) => {
     const ranch = await loadRanch(req);
-    await registry.deleteRanch(db, actorOf(req), ranch.id);
+    await registry.deleteRanch(db, contextOf(req), ranch.id);
     req.session.flash = { kind: 'info', text: `Ranch “${ranch.name}” deleted.` };
     res.redirect('/registry/ranches');
   });
@@ -148,7 +148,7 @@ export function registryPages(ctx: AppContext): Router {
     const input: Record<string, unknown> = {
       ranchId: body.ranchId,
       name: body.name,
-      areaHa: areaToHa(body.area, req.user!.units),
+      areaHa: areaToHa(body.area, contextOf(req).units),
       notes: body.notes,
     };
     if (upload.boundary) input.boundary = upload.boundary;
@@ -178,8 +178,8 @@ export function registryPages(ctx: AppContext): Router {
     if (!parsed.ok || problem) return res.status(400).render('registry/field-form', { ...locals, errors });
     try {
       const saved = field
-        ? await registry.updateField(db, actorOf(req), field.id, parsed.value)
-        : await registry.createField(db, actorOf(req), parsed.value as z.infer<typeof fieldInputSchema>);
+        ? await registry.updateField(db, contextOf(req), field.id, parsed.value)
+        : await registry.createField(db, contextOf(req), parsed.value as z.infer<typeof fieldInputSchema>);
       req.session.flash = { kind: 'info', text: field ? 'Field saved.' : `Field “${saved.name}” added.` };
       res.redirect(`/registry/fields/${saved.id}`);
     } catch (err) {
@@ -226,7 +226,7 @@ export function registryPages(ctx: AppContext): Router {
       crop: b.crop,
       variety: b.variety,
       seededOn: b.seededOn,
-      seedingRateKgHa: rateToKgHa(b.seedingRate, req.user!.units),
+      seedingRateKgHa: rateToKgHa(b.seedingRate, contextOf(req).units),
       plannedTerminationOn: b.plannedTerminationOn || null,
       terminatedOn: b.terminatedOn || null,
       notes: b.notes,
@@ -257,8 +257,8 @@ export function registryPages(ctx: AppContext): Router {
     if (!parsed.ok) return res.status(400).render('registry/planting-form', { ...locals, errors: renameErrors(parsed.errors) });
     try {
       const saved = planting
-        ? await registry.updatePlanting(db, actorOf(req), planting.id, parsed.value)
-        : await registry.createPlanting(db, actorOf(req), parsed.value);
+        ? await registry.updatePlanting(db, contextOf(req), planting.id, parsed.value)
+        : await registry.createPlanting(db, contextOf(req), parsed.value);
       req.session.flash = { kind: 'info', text: `Planting ${seasonLabel(saved.season)} saved.` };
       res.redirect(`/registry/fields/${field.id}`);
     } catch (err) {

@@ -1,14 +1,15 @@
 import { Router, type Request, type Response } from 'express';
 import { z } from 'zod';
 import type { AppContext } from '../platform/app-context';
-import { requireRole, requireSignIn } from '../platform/guards';
+import { contextOf } from '../platform/context';
+import { can } from '../platform/permissions';
 import { HttpError } from '../platform/errors';
 import { validateBody, validateQuery } from '../platform/validation';
 import { getPlanting, listPlantings } from './plantings-db';
 import { createPlanting, updatePlanting } from './service';
 import { assignWalk, unassignWalk } from '../walks/public';
 import { cropSchema, isoDate, pagingSchema, plantingInputSchema, plantingPatchSchema, seasonSchema } from '../../shared/schemas/registry';
-import { actorOf, idFilter, listQuery } from './route-helpers';
+import { idFilter, listQuery } from './route-helpers';
 
 const listSchema = listQuery(
   pagingSchema.extend({
@@ -31,41 +32,40 @@ const assignmentSchema = z.object({
  */
 export function plantingsApi(ctx: AppContext): Router {
   const router = Router();
-  const writers = requireRole('clerk', 'admin');
+  const writers = can('registry.write');
 
   const list = async (req: Request, res: Response) => {
-    res.json(await listPlantings(ctx.db, req.user!.organisationId, res.locals.query as z.infer<typeof listSchema>));
+    res.json(await listPlantings(ctx.db, contextOf(req).organisationId, res.locals.query as z.infer<typeof listSchema>));
   };
 
   const show = async (req: Request<{ id: string }>, res: Response) => {
-    const planting = await getPlanting(ctx.db, req.user!.organisationId, req.params.id);
+    const planting = await getPlanting(ctx.db, contextOf(req).organisationId, req.params.id);
     if (!planting) throw new HttpError('not_found');
     res.json(planting);
   };
 
   // A field of another organisation is refused by the service as 400 on fieldId.
   const create = async (req: Request, res: Response) => {
-    res.status(201).json(await createPlanting(ctx.db, actorOf(req), req.body));
+    res.status(201).json(await createPlanting(ctx.db, contextOf(req), req.body));
   };
 
   const update = async (req: Request<{ id: string }>, res: Response) => {
-    res.json(await updatePlanting(ctx.db, actorOf(req), req.params.id, req.body));
+    res.json(await updatePlanting(ctx.db, contextOf(req), req.params.id, req.body));
   };
 
-  const walkActor = (req: Request) => ({ id: req.user!.id, organisationId: req.user!.organisationId, role: req.user!.role });
   const assign = async (req: Request<{ id: string }>, res: Response) => {
-    res.json(await assignWalk(ctx.db, walkActor(req), req.params.id, req.body));
+    res.json(await assignWalk(ctx.db, contextOf(req), req.params.id, req.body));
   };
   const unassign = async (req: Request<{ id: string; samplerId: string }>, res: Response) => {
-    await unassignWalk(ctx.db, walkActor(req), req.params.id, req.params.samplerId);
+    await unassignWalk(ctx.db, contextOf(req), req.params.id, req.params.samplerId);
     res.status(204).end();
   };
 
-  router.get('/', requireSignIn, validateQuery(listSchema), list);
+  router.get('/', can('registry.read'), validateQuery(listSchema), list);
   router.post('/', writers, validateBody(plantingInputSchema), create);
-  router.get('/:id', requireSignIn, show);
+  router.get('/:id', can('registry.read'), show);
   router.patch('/:id', writers, validateBody(plantingPatchSchema), update);
-  router.put('/:id/assignment', writers, validateBody(assignmentSchema), assign);
-  router.delete('/:id/assignment/:samplerId', writers, unassign);
+  router.put('/:id/assignment', can('walks.assign'), validateBody(assignmentSchema), assign);
+  router.delete('/:id/assignment/:samplerId', can('walks.assign'), unassign);
   return router;
 }

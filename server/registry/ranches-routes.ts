@@ -1,13 +1,14 @@
 import { Router, type Request, type Response } from 'express';
 import { z } from 'zod';
 import type { AppContext } from '../platform/app-context';
-import { requireRole, requireSignIn } from '../platform/guards';
+import { contextOf } from '../platform/context';
+import { can } from '../platform/permissions';
 import { HttpError } from '../platform/errors';
 import { validateBody, validateQuery } from '../platform/validation';
 import { getRanch, listRanches, RANCH_SORTS, type Ranch, type RanchSort } from './ranches-db';
 import { createRanch, deleteRanch, updateRanch } from './service';
 import { pagingSchema, ranchInputSchema, ranchPatchSchema, seasonSchema } from '../../shared/schemas/registry';
-import { actorOf, currentSeason, listQuery, searchText } from './route-helpers';
+import { currentSeason, listQuery, searchText } from './route-helpers';
 
 // Sort keys as the answer spells them (camelCase); the office pages' column names work too.
 const SORT_ALIASES: Record<string, RanchSort> = {
@@ -37,39 +38,39 @@ const answer = (ranch: Ranch, season: string) => ({ ...ranch, coverCroppedSeason
 /** /api/ranches (../shared/API.md, Registry): everyone in the organisation reads, clerk and admin write. */
 export function ranchesApi(ctx: AppContext): Router {
   const router = Router();
-  const writers = requireRole('clerk', 'admin');
+  const writers = can('registry.write');
 
   const list = async (req: Request, res: Response) => {
     const query = res.locals.query as z.infer<typeof listSchema>;
     const season = query.season ?? currentSeason();
-    const { items, total } = await listRanches(ctx.db, req.user!.organisationId, { ...query, season });
+    const { items, total } = await listRanches(ctx.db, contextOf(req).organisationId, { ...query, season });
     res.json({ items: items.map((r) => answer(r, season)), total });
   };
 
   const show = async (req: Request<{ id: string }>, res: Response) => {
     const season = (res.locals.query as z.infer<typeof seasonQuery>).season ?? currentSeason();
-    const ranch = await getRanch(ctx.db, req.user!.organisationId, req.params.id, season);
+    const ranch = await getRanch(ctx.db, contextOf(req).organisationId, req.params.id, season);
     if (!ranch) throw new HttpError('not_found');
     res.json(answer(ranch, season));
   };
 
   // The service counts a written ranch's totals for the current season.
   const create = async (req: Request, res: Response) => {
-    res.status(201).json(answer(await createRanch(ctx.db, actorOf(req), req.body), currentSeason()));
+    res.status(201).json(answer(await createRanch(ctx.db, contextOf(req), req.body), currentSeason()));
   };
 
   const update = async (req: Request<{ id: string }>, res: Response) => {
-    res.json(answer(await updateRanch(ctx.db, actorOf(req), req.params.id, req.body), currentSeason()));
+    res.json(answer(await updateRanch(ctx.db, contextOf(req), req.params.id, req.body), currentSeason()));
   };
 
   const remove = async (req: Request<{ id: string }>, res: Response) => {
-    await deleteRanch(ctx.db, actorOf(req), req.params.id);
+    await deleteRanch(ctx.db, contextOf(req), req.params.id);
     res.status(204).end();
   };
 
-  router.get('/', requireSignIn, validateQuery(listSchema), list);
+  router.get('/', can('registry.read'), validateQuery(listSchema), list);
   router.post('/', writers, validateBody(ranchInputSchema), create);
-  router.get('/:id', requireSignIn, validateQuery(seasonQuery), show);
+  router.get('/:id', can('registry.read'), validateQuery(seasonQuery), show);
   router.patch('/:id', writers, validateBody(ranchPatchSchema), update);
   router.delete('/:id', writers, remove);
   return router;

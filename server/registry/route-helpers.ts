@@ -1,13 +1,6 @@
-import type { Request } from 'express';
+import { contextOf } from '../platform/context';
 import { z } from 'zod';
-import type { Actor } from './service';
 import { seasonOfDate, todayIso } from '../../shared/registry/season';
-
-/** Who makes a registry change: the signed-in user (the guard has already required one). */
-export const actorOf = (req: Request): Actor => {
-  const user = req.user!;
-  return { id: user.id, name: user.name, organisationId: user.organisationId };
-};
 
 export const currentSeason = () => seasonOfDate(todayIso());
 

@@ -1,7 +1,8 @@
 import { Router, type Request } from 'express';
 import { z } from 'zod';
 import type { AppContext } from '../platform/app-context';
-import { requireSignIn } from '../platform/guards';
+import { contextOf } from '../platform/context';
+import { can } from '../platform/permissions';
 import { CROPS } from '../../shared/calc/rules';
 import { seasonLabel, seasonOfDate, seasonStartYear, seasonStarting, todayIso } from '../../shared/registry/season';
 import { seasonSchema } from '../../shared/schemas/registry';
@@ -19,14 +20,14 @@ const seasonQuery = z.object({
 /** The organisation's season at a glance: every field, its planting and its days in the rainy window. */
 export function seasonPages(ctx: AppContext): Router {
   const router = Router();
-  router.use('/registry/season', requireSignIn);
+  router.use('/registry/season', can('registry.read'));
 
   const load = async (req: Request) => {
     const q = seasonQuery.parse(req.query);
     const today = todayIso();
     const season = q.season ?? seasonOfDate(today);
-    const rule = await currentCreditRule(ctx.db, req.user!.organisationId);
-    const rows = await seasonRows(ctx.db, req.user!.organisationId, { season, ranchId: q.ranchId || undefined, crop: q.crop, today, rule });
+    const rule = await currentCreditRule(ctx.db, contextOf(req).organisationId);
+    const rows = await seasonRows(ctx.db, contextOf(req).organisationId, { season, ranchId: q.ranchId || undefined, crop: q.crop, today, rule });
     return { q, season, rule, rows, today };
   };
 
@@ -40,7 +41,7 @@ export function seasonPages(ctx: AppContext): Router {
       seasons: [now + 1, now, now - 1, now - 2, now - 3].map(seasonStarting),
       seasonLabel,
       query: q,
-      ranches: await ranchOptions(ctx.db, req.user!.organisationId),
+      ranches: await ranchOptions(ctx.db, contextOf(req).organisationId),
       crops: CROPS,
       rule,
       today,
@@ -48,7 +49,7 @@ export function seasonPages(ctx: AppContext): Router {
     });
   });
 
-  router.get('/registry/season.csv', requireSignIn, async (req, res) => {
+  router.get('/registry/season.csv', can('registry.read'), async (req, res) => {
     const { season, rows } = await load(req);
     const header = ['ranch', 'field', 'area_ha', 'crop', 'variety', 'seeded_on', 'terminated_on', 'planned_termination_on', 'days_since_seeding', 'days_in_window', 'walk_status'];
     const body = rows.map((r) => [

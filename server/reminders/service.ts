@@ -2,6 +2,7 @@ import type { Knex } from 'knex';
 import type { Mailer } from '../mail/mailer';
 import { addDaysIso } from '../../shared/registry/season';
 import { CROP_LABELS } from '../../shared/registry/crops';
+import { rolesAllowed } from '../platform/permissions';
 
 export interface ReminderItem {
   plantingId: string;
@@ -37,7 +38,7 @@ export async function dueForReminder(db: Knex, today: string, daysAhead: number)
     .orderBy('plantings.planned_termination_on')
     .orderBy('ranches.name')
     .orderBy('fields.name');
-  const samplers: Record<string, string>[] = await db('users').where({ role: 'sampler', active: true }).whereNotNull('password_hash').select('id', 'organisation_id', 'name', 'email');
+  const samplers: Record<string, string>[] = await db('users').whereIn('role', rolesAllowed('walks.assignee')).where({ active: true }).whereNotNull('password_hash').select('id', 'organisation_id', 'name', 'email');
   const assignments: Record<string, string>[] = await db('walk_assignments').select('planting_id', 'sampler_id');
   const assignedTo = new Map<string, Set<string>>();
   for (const a of assignments) {

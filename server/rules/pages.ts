@@ -1,6 +1,7 @@
 import { Router, type Request } from 'express';
 import type { AppContext } from '../platform/app-context';
-import { requireRole } from '../platform/guards';
+import { contextOf } from '../platform/context';
+import { can } from '../platform/permissions';
 import { parseForm } from '../platform/validation';
 import { CROPS } from '../../shared/calc/rules';
 import { kgPerHaToLbPerAc } from '../../shared/calc/units';
@@ -13,13 +14,13 @@ import { numberOrText, rateToKgHa } from '../registry/forms';
 /** Admin: the organisation's credit rule, versioned with an effective date. */
 export function rulesPages(ctx: AppContext): Router {
   const router = Router();
-  router.use('/admin/rules', requireRole('admin'));
+  router.use('/admin/rules', can('rules.manage'));
 
   const show = async (req: Request, status: number, res: import('express').Response, values?: Record<string, unknown>, errors: Record<string, string> = {}) => {
-    const orgId = req.user!.organisationId;
+    const orgId = contextOf(req).organisationId;
     const current = await currentCreditRule(ctx.db, orgId);
     const versions = await listRuleVersions(ctx.db, orgId);
-    const units = req.user!.units;
+    const units = contextOf(req).units;
     const asForm = (r: typeof current) => ({
       threshold: units === 'us' ? String(Math.round(kgPerHaToLbPerAc(r.thresholdKgHa))) : String(Math.round(r.thresholdKgHa)),
       minDaysInWindow: String(r.minDaysInWindow),
@@ -38,7 +39,7 @@ export function rulesPages(ctx: AppContext): Router {
 
   router.post('/admin/rules', async (req, res) => {
     const b = req.body ?? {};
-    const units = req.user!.units;
+    const units = contextOf(req).units;
     const crops = Array.isArray(b.eligibleCrops) ? b.eligibleCrops : b.eligibleCrops ? [b.eligibleCrops] : [];
     const input = {
       thresholdKgHa: rateToKgHa(b.threshold, units),
@@ -61,7 +62,7 @@ export function rulesPages(ctx: AppContext): Router {
       return show(req, 400, res, { ...b, eligibleCrops: crops }, errors);
     }
     const { effectiveFrom, notes, ...rule } = parsed.value;
-    const saved = await insertRuleVersion(ctx.db, req.user!.organisationId, { ...rule, effectiveFrom: effectiveFrom ?? todayIso(), notes }, req.user!);
+    const saved = await insertRuleVersion(ctx.db, contextOf(req).organisationId, { ...rule, effectiveFrom: effectiveFrom ?? todayIso(), notes }, contextOf(req).user);
     req.session.flash = { kind: 'info', text: `Rule version ${saved.version} saved, in effect from ${saved.effectiveFrom}.` };
     res.redirect('/admin/rules');
   });

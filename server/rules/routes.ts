@@ -1,6 +1,7 @@
 import { Router } from 'express';
 import type { AppContext } from '../platform/app-context';
-import { requireRole, requireSignIn } from '../platform/guards';
+import { contextOf } from '../platform/context';
+import { can } from '../platform/permissions';
 import { validateBody } from '../platform/validation';
 import { todayIso } from '../../shared/registry/season';
 import { creditRuleInputSchema, type CreditRuleInput } from '../../shared/schemas/rules';
@@ -14,16 +15,16 @@ import { currentCreditRule } from './service';
  */
 export function rulesApi(ctx: AppContext): Router {
   const router = Router();
-  router.get('/current', requireSignIn, async (req, res) => {
-    res.json(await currentCreditRule(ctx.db, req.user!.organisationId));
+  router.get('/current', can('rules.read'), async (req, res) => {
+    res.json(await currentCreditRule(ctx.db, contextOf(req).organisationId));
   });
-  router.put('/current', requireRole('admin'), validateBody(creditRuleInputSchema), async (req, res) => {
+  router.put('/current', can('rules.manage'), validateBody(creditRuleInputSchema), async (req, res) => {
     const { effectiveFrom, notes, ...rule } = req.body as CreditRuleInput;
-    await insertRuleVersion(ctx.db, req.user!.organisationId, { ...rule, effectiveFrom: effectiveFrom ?? todayIso(), notes }, req.user!);
-    res.json(await currentCreditRule(ctx.db, req.user!.organisationId));
+    await insertRuleVersion(ctx.db, contextOf(req).organisationId, { ...rule, effectiveFrom: effectiveFrom ?? todayIso(), notes }, contextOf(req).user);
+    res.json(await currentCreditRule(ctx.db, contextOf(req).organisationId));
   });
-  router.get('/versions', requireRole('admin', 'clerk', 'auditor'), async (req, res) => {
-    const items = await listRuleVersions(ctx.db, req.user!.organisationId);
+  router.get('/versions', can('rules.history'), async (req, res) => {
+    const items = await listRuleVersions(ctx.db, contextOf(req).organisationId);
     res.json({ items, total: items.length });
   });
   return router;

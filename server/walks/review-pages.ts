@@ -1,7 +1,8 @@
 import { Router, type Request, type Response } from 'express';
 import { z } from 'zod';
 import type { AppContext } from '../platform/app-context';
-import { requireRole } from '../platform/guards';
+import { contextOf } from '../platform/context';
+import { allows, can } from '../platform/permissions';
 import { HttpError } from '../platform/errors';
 import { parseForm } from '../platform/validation';
 import { toCsv } from '../platform/csv-safe';
@@ -42,16 +43,15 @@ const listQuery = z.object({
 });
 type ListQuery = z.infer<typeof listQuery>;
 
-const walkActor = (req: Request): service.WalkActor => ({ id: req.user!.id, organisationId: req.user!.organisationId, role: req.user!.role });
 
 /** Clerks and admins land on the review queue; auditors on what counts in registers. */
-const defaultTab = (req: Request): Tab => (req.user!.role === 'auditor' ? 'approved' : 'submitted');
+const defaultTab = (req: Request): Tab => (contextOf(req).can('walks.review') ? 'submitted' : 'approved');
 
 export function walkReviewPages(ctx: AppContext): Router {
   const router = Router();
   const { db } = ctx;
-  const reviewers = requireRole('clerk', 'admin');
-  router.use('/walks', requireRole('admin', 'clerk', 'auditor'));
+  const reviewers = can('walks.review');
+  router.use('/walks', can('walks.readAll'));
 
   router.get('/walks', async (req, res) => {
     const q = listQuery.parse(req.query);
@@ -64,7 +64,7 @@ export function walkReviewPages(ctx: AppContext): Router {
     const tab = q.status ?? defaultTab(req);
     const walks: Walk[] = [];
     for (let offset = 0; ; offset += 500) {
-      const { items, total } = await listWalks(db, req.user!.organisationId, { ...filterOf(q, tab), limit: 500, offset });
+      const { items, total } = await listWalks(db, contextOf(req).organisationId, { ...filterOf(q, tab), limit: 500, offset });
       walks.push(...items);
       if (!items.length || walks.length >= total) break;
     }
@@ -93,7 +93,7 @@ export function walkReviewPages(ctx: AppContext): Router {
   async function review(req: Request, res: Response, decision: { approve: true } | { approve: false; reason: string }) {
     const walkId = String(req.params.id);
     try {
-      const walk = await service.reviewWalk(db, walkActor(req), walkId, decision);
+      const walk = await service.reviewWalk(db, contextOf(req), walkId, decision);
       const what = `${walk.fieldName} · ${walk.ranchName}, ${(res.locals.fmt as Formatter).date(walk.walkedOn)}`;
       req.session.flash = decision.approve
         ? { kind: 'info', text: `Walk approved: ${what}. It now counts in registers.` }
@@ -101,7 +101,7 @@ export function walkReviewPages(ctx: AppContext): Router {
       res.redirect(303, '/walks');
     } catch (err) {
       if (!(err instanceof HttpError && err.code === 'conflict')) throw err;
-      const current = await service.getWalkFor(db, walkActor(req), walkId);
+      const current = await service.getWalkFor(db, contextOf(req), walkId);
       const by = current.reviewedBy ? ` by ${current.reviewedBy.name}` : '';
       const when = current.reviewedAt ? ` on ${(res.locals.fmt as Formatter).date(current.reviewedAt)}` : '';
       const state = current.status === 'draft' ? 'still a draft: the sampler has not submitted it' : `already ${current.status}${by}${when}`;
@@ -121,7 +121,7 @@ export function walkReviewPages(ctx: AppContext): Router {
   });
 
   async function queueView(req: Request, res: Response, q: ListQuery, tab: Tab) {
-    const orgId = req.user!.organisationId;
+    const orgId = contextOf(req).organisationId;
     const u = walkUnits(res.locals.fmt as Formatter);
     const [{ items, total }, ranches, users, counts] = await Promise.all([
       listWalks(db, orgId, { ...filterOf(q, tab), limit: PAGE, offset: (q.page - 1) * PAGE }),
@@ -131,9 +131,9 @@ export function walkReviewPages(ctx: AppContext): Router {
     ]);
     // Anyone who can make a walk: samplers first, then clerks and admins.
     const samplers = users
-      .filter((x) => x.role !== 'auditor')
-      .sort((a, b) => Number(a.role !== 'sampler') - Number(b.role !== 'sampler'))
-      .map((x) => ({ id: x.id, name: x.role === 'sampler' ? x.name : `${x.name} (${x.role})` }));
+      .filter((x) => allows(x.role, 'walks.create'))
+      .sort((a, b) => Number(!allows(a.role, 'walks.assignee')) - Number(!allows(b.role, 'walks.assignee')))
+      .map((x) => ({ id: x.id, name: allows(x.role, 'walks.assignee') ? x.name : `${x.name} (${x.role})` }));
     const link = (over: Partial<ListQuery> & { status?: Tab }) => {
       const p = new URLSearchParams();
       const status = over.status ?? tab;
@@ -167,8 +167,8 @@ export function walkReviewPages(ctx: AppContext): Router {
   }
 
   async function detailView(req: Request, res: Response, form: { errors?: Record<string, string>; values?: Record<string, string> } = {}) {
-    const orgId = req.user!.organisationId;
-    const walk = await service.getWalkFor(db, walkActor(req), String(req.params.id));
+    const orgId = contextOf(req).organisationId;
+    const walk = await service.getWalkFor(db, contextOf(req), String(req.params.id));
     const fmt = res.locals.fmt as Formatter;
     const u = walkUnits(fmt);
     const flags = walkFlags(walk);
@@ -204,7 +204,7 @@ export function walkReviewPages(ctx: AppContext): Router {
           units: fmt.units,
         })
       : '';
-    const canReview = (req.user!.role === 'clerk' || req.user!.role === 'admin') && walk.status === 'submitted';
+    const canReview = contextOf(req).can('walks.review') && walk.status === 'submitted';
     return {
       title: `Walk: ${walk.fieldName} · ${walk.ranchName}`,
       walk,
@@ -276,7 +276,8 @@ function walkRow(w: Walk, u: WalkUnits) {
 // ---- CSV for auditors: one row per plant, SI units as stored ----
 
 const CSV_HEADER = [
-  'walk_id', 'status', 'ranch', 'field', 'crop', 'variety', 'sampler', 'walked_on', 'stage',
+  // (one string: its sampler column names a person, not a role of the permissions map)
+  ...'walk_id status ranch field crop variety sampler walked_on stage'.split(' '),
   'stop', 'length_cm', 'lat', 'lon', 'photo',
   'n', 'mean_length_cm', 'biomass_kg_ha', 'interval_low_kg_ha', 'interval_high_kg_ha', 'level', 'threshold_kg_ha', 'meets_threshold', 'extrapolated',
   'calibration_id', 'calibration_version', 'flags', 'submitted_at', 'reviewed_by', 'reviewed_at', 'reject_reason',

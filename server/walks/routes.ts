@@ -5,7 +5,8 @@ import { Router, type Request, type RequestHandler, type Response } from 'expres
 import multer from 'multer';
 import { z } from 'zod';
 import type { AppContext } from '../platform/app-context';
-import { requireRole, requireSignIn } from '../platform/guards';
+import { contextOf } from '../platform/context';
+import { can } from '../platform/permissions';
 import { HttpError } from '../platform/errors';
 import { validateBody, validateQuery } from '../platform/validation';
 import * as service from './service';
@@ -21,7 +22,6 @@ const photoFieldsSchema = z.object({
   stop: z.coerce.number({ message: 'Give the stop the photo shows.' }).int('Give the stop as a whole number.').min(1).max(MAX_PLANTS),
 });
 
-export const walkActor = (req: Request): service.WalkActor => ({ id: req.user!.id, organisationId: req.user!.organisationId, role: req.user!.role });
 
 /** multer in memory, with its errors as the API's codes (413 too_large above the size limit). */
 const photoUpload: RequestHandler = (() => {
@@ -45,26 +45,26 @@ const photoUpload: RequestHandler = (() => {
  */
 export function walksApi(ctx: AppContext): Router {
   const router = Router();
-  const walkers = requireRole('sampler', 'clerk', 'admin');
-  const reviewers = requireRole('clerk', 'admin');
+  const walkers = can('walks.create');
+  const reviewers = can('walks.review');
 
   const list = async (req: Request, res: Response) => {
-    res.json(await service.listWalksFor(ctx.db, walkActor(req), res.locals.query as z.infer<typeof listSchema>));
+    res.json(await service.listWalksFor(ctx.db, contextOf(req), res.locals.query as z.infer<typeof listSchema>));
   };
 
   // 201 for a new walk, 200 with the stored one when the same walk is posted again.
   const create = async (req: Request, res: Response) => {
-    const { walk, created } = await service.createWalk(ctx.db, walkActor(req), req.body as WalkCreate);
+    const { walk, created } = await service.createWalk(ctx.db, contextOf(req), req.body as WalkCreate);
     res.status(created ? 201 : 200).json(walk);
   };
 
   const show = async (req: Request<{ id: string }>, res: Response) => {
-    res.json(await service.getWalkFor(ctx.db, walkActor(req), req.params.id));
+    res.json(await service.getWalkFor(ctx.db, contextOf(req), req.params.id));
   };
 
   // A walk of a crop without an assigned calibration has no estimate: 404, as nothing is there.
   const estimate = async (req: Request<{ id: string }>, res: Response) => {
-    const walk = await service.getWalkFor(ctx.db, walkActor(req), req.params.id);
+    const walk = await service.getWalkFor(ctx.db, contextOf(req), req.params.id);
     if (!walk.estimate) throw new HttpError('not_found', 'This walk has no estimate: no calibration was assigned for its crop when it was stored.');
     res.json(walk.estimate);
   };
@@ -72,7 +72,7 @@ export function walksApi(ctx: AppContext): Router {
   // Refuse before reading the upload; the unread body is let through so the client is not cut off.
   const mayUpload = async (req: Request<{ id: string }>, _res: Response, next: (err?: unknown) => void) => {
     try {
-      await service.checkPhotoUpload(ctx.db, walkActor(req), req.params.id);
+      await service.checkPhotoUpload(ctx.db, contextOf(req), req.params.id);
       next();
     } catch (err) {
       req.resume();
@@ -83,11 +83,11 @@ export function walksApi(ctx: AppContext): Router {
   const addPhoto = async (req: Request<{ id: string }>, res: Response) => {
     if (!req.file) throw new HttpError('invalid', 'Attach the photo in the field "photo".', { photo: 'Attach a photo.' });
     const { stop } = req.body as z.infer<typeof photoFieldsSchema>;
-    res.status(201).json(await service.savePhoto(ctx.db, ctx.config.UPLOADS_DIR, walkActor(req), req.params.id, stop, req.file.buffer));
+    res.status(201).json(await service.savePhoto(ctx.db, ctx.config.UPLOADS_DIR, contextOf(req), req.params.id, stop, req.file.buffer));
   };
 
   const servePhoto = async (req: Request<{ id: string; photoId: string }>, res: Response) => {
-    const file = await service.photoFile(ctx.db, ctx.config.UPLOADS_DIR, walkActor(req), req.params.id, req.params.photoId);
+    const file = await service.photoFile(ctx.db, ctx.config.UPLOADS_DIR, contextOf(req), req.params.id, req.params.photoId);
     const stat = await fs.stat(file.path).catch(() => null);
     if (!stat?.isFile()) throw new HttpError('not_found');
     res.set({ 'Content-Type': file.contentType, 'Content-Length': String(stat.size), 'Cache-Control': 'private, max-age=86400' });
@@ -98,21 +98,21 @@ export function walksApi(ctx: AppContext): Router {
   };
 
   const submit = async (req: Request<{ id: string }>, res: Response) => {
-    res.json(await service.submitWalk(ctx.db, walkActor(req), req.params.id));
+    res.json(await service.submitWalk(ctx.db, contextOf(req), req.params.id));
   };
   const approve = async (req: Request<{ id: string }>, res: Response) => {
-    res.json(await service.reviewWalk(ctx.db, walkActor(req), req.params.id, { approve: true }));
+    res.json(await service.reviewWalk(ctx.db, contextOf(req), req.params.id, { approve: true }));
   };
   const reject = async (req: Request<{ id: string }>, res: Response) => {
-    res.json(await service.reviewWalk(ctx.db, walkActor(req), req.params.id, { approve: false, reason: req.body.reason }));
+    res.json(await service.reviewWalk(ctx.db, contextOf(req), req.params.id, { approve: false, reason: req.body.reason }));
   };
 
-  router.get('/', requireSignIn, validateQuery(listSchema), list);
+  router.get('/', can('walks.read'), validateQuery(listSchema), list);
   router.post('/', walkers, validateBody(walkCreateSchema), create);
-  router.get('/:id', requireSignIn, show);
-  router.get('/:id/estimate', requireSignIn, estimate);
+  router.get('/:id', can('walks.read'), show);
+  router.get('/:id/estimate', can('walks.read'), estimate);
   router.post('/:id/photos', walkers, mayUpload, photoUpload, validateBody(photoFieldsSchema), addPhoto);
-  router.get('/:id/photos/:photoId', requireSignIn, servePhoto);
+  router.get('/:id/photos/:photoId', can('walks.read'), servePhoto);
   router.post('/:id/submit', walkers, submit);
   router.post('/:id/approve', reviewers, approve);
   router.post('/:id/reject', reviewers, validateBody(walkRejectSchema), reject);

@@ -2,7 +2,8 @@ import { createHash, randomBytes, randomUUID } from 'node:crypto';
 import fs from 'node:fs/promises';
 import path from 'node:path';
 import type { Knex } from 'knex';
-import type { Role } from '../platform/roles';
+import type { UserContext } from '../platform/context';
+import { allows } from '../platform/permissions';
 import { HttpError } from '../platform/errors';
 import { sniffImageType } from './image-type';
 import { daysBetween } from '../../shared/calc/dates';
@@ -20,14 +21,9 @@ import { estimateSnapshot } from './estimate';
  * its estimate snapshot, the status steps, one photo per stop on disk, assignments and the
  * sampler's "today" list.
  */
-export interface WalkActor {
-  id: string;
-  organisationId: string;
-  role: Role;
-}
+export type WalkActor = Pick<UserContext, 'id' | 'organisationId' | 'can'>;
 
 const invalid = (field: string, message: string) => new HttpError('invalid', message, { [field]: message });
-const isReviewer = (actor: WalkActor) => actor.role === 'clerk' || actor.role === 'admin';
 const blankToNull = (v: string | null | undefined) => (v == null || v === '' ? null : v);
 
 /** A unique-key violation on SQLite or PostgreSQL. */
@@ -51,7 +47,7 @@ export function walkContentHash(input: WalkCreate): string {
 // Reading -------------------------------------------------------------------------------------
 
 async function mayRead(db: Knex, actor: WalkActor, walk: walks.WalkRecord): Promise<boolean> {
-  if (actor.role !== 'sampler') return true;
+  if (actor.can('walks.readAll')) return true;
   return walk.samplerId === actor.id || walks.samplerMaySee(db, actor.organisationId, walk.id, actor.id);
 }
 
@@ -65,7 +61,7 @@ async function readable(db: Knex, actor: WalkActor, id: string): Promise<walks.W
 /** Its author, a clerk or an admin may change a walk (others who may read it: 403). */
 async function changeable(db: Knex, actor: WalkActor, id: string): Promise<walks.WalkRecord> {
   const walk = await readable(db, actor, id);
-  if (walk.samplerId !== actor.id && !isReviewer(actor)) throw new HttpError('forbidden', 'Only the sampler who made this walk, a clerk or an admin can change it.');
+  if (walk.samplerId !== actor.id && !actor.can('walks.review')) throw new HttpError('forbidden', 'Only the sampler who made this walk, a clerk or an admin can change it.');
   return walk;
 }
 
@@ -81,7 +77,7 @@ export async function listWalksFor(
   actor: WalkActor,
   query: { status?: WalkStatus; plantingId?: string; limit: number; offset: number },
 ): Promise<{ items: Walk[]; total: number }> {
-  return walks.listWalks(db, actor.organisationId, { ...query, visibleTo: actor.role === 'sampler' ? actor.id : undefined });
+  return walks.listWalks(db, actor.organisationId, { ...query, visibleTo: actor.can('walks.readAll') ? undefined : actor.id });
 }
 
 // Creating (idempotent) -----------------------------------------------------------------------
@@ -242,7 +238,7 @@ export async function assignWalk(db: Knex, actor: WalkActor, plantingId: string,
   const planting = await getPlanting(db, actor.organisationId, plantingId);
   if (!planting) throw new HttpError('not_found');
   const sampler = await getUser(db, actor.organisationId, input.samplerId);
-  if (!sampler || sampler.role !== 'sampler' || !sampler.active) throw invalid('samplerId', 'Choose an active sampler of your organisation.');
+  if (!sampler || !allows(sampler.role, 'walks.assignee') || !sampler.active) throw invalid('samplerId', 'Choose an active sampler of your organisation.');
   await walks.upsertWalkAssignment(db, actor.organisationId, { plantingId, samplerId: sampler.id, dueOn: input.dueOn ?? null, createdBy: actor.id });
   return (await walks.getWalkAssignment(db, actor.organisationId, plantingId, sampler.id))!;
 }

@@ -1,11 +1,11 @@
 import { Router, type Request, type Response } from 'express';
 import { z } from 'zod';
 import type { AppContext } from '../platform/app-context';
-import { requireRole } from '../platform/guards';
+import { contextOf } from '../platform/context';
+import { can } from '../platform/permissions';
 import { validateQuery } from '../platform/validation';
 import { todayList } from './service';
 import { listQuery, searchText } from '../registry/route-helpers';
-import { walkActor } from './routes';
 
 const todaySchema = listQuery(z.object({ q: searchText.optional() }));
 
@@ -17,8 +17,8 @@ const todaySchema = listQuery(z.object({ q: searchText.optional() }));
 export function todayApi(ctx: AppContext): Router {
   const router = Router();
   const list = async (req: Request, res: Response) => {
-    res.json(await todayList(ctx.db, walkActor(req), res.locals.query as z.infer<typeof todaySchema>));
+    res.json(await todayList(ctx.db, contextOf(req), res.locals.query as z.infer<typeof todaySchema>));
   };
-  router.get('/', requireRole('sampler', 'clerk', 'admin'), validateQuery(todaySchema), list);
+  router.get('/', can('walks.create'), validateQuery(todaySchema), list);
   return router;
 }

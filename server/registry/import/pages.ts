@@ -2,7 +2,8 @@ import { Router, type NextFunction, type Request, type RequestHandler, type Resp
 import multer from 'multer';
 import { z } from 'zod';
 import type { AppContext } from '../../platform/app-context';
-import { requireRole } from '../../platform/guards';
+import { contextOf } from '../../platform/context';
+import { can } from '../../platform/permissions';
 import { HttpError } from '../../platform/errors';
 import { parseForm } from '../../platform/validation';
 import { toCsv } from '../../platform/csv-safe';
@@ -50,8 +51,7 @@ const PAGE_WARNINGS = 200;
 const commitForm = z.object({ id: z.string().refine(isImportId, 'This import was not found. Upload the file again.') });
 
 const wantsJson = (req: Request) => req.accepts(['html', 'json']) === 'json';
-const actorOf = (req: Request): ImportActor => ({ id: req.user!.id, name: req.user!.name, organisationId: req.user!.organisationId });
-const unitsOf = (req: Request) => req.user!.units;
+const unitsOf = (req: Request) => contextOf(req).units;
 const idParam = (req: Request) => String(req.params.id);
 const previewUrl = (id: string, params?: Record<string, string>, extra: Record<string, string> = {}) => {
   const q = new URLSearchParams({ ...(params ?? {}), ...extra }).toString();
@@ -62,7 +62,7 @@ const resultUrl = (id: string) => `${BASE}/${id}/result`;
 export function registryImportPages(ctx: AppContext): Router {
   const imports = createRegistryImports(ctx.db, ctx.config.UPLOADS_DIR);
   const router = Router();
-  router.use(requireRole('clerk', 'admin'));
+  router.use(can('registry.write'));
 
   router.get('/', uploadPage);
   router.get('/template.csv', templateCsv);
@@ -129,7 +129,7 @@ export function registryImportPages(ctx: AppContext): Router {
     if (!req.file || !req.file.size) return uploadFailed(req, res, new HttpError('invalid', 'Choose a CSV file to upload.', { file: 'Choose a CSV file.' }));
     let meta: ImportMeta;
     try {
-      ({ meta } = await imports.upload(actorOf(req), req.file.originalname, req.file.buffer));
+      ({ meta } = await imports.upload(contextOf(req), req.file.originalname, req.file.buffer));
     } catch (err) {
       if (err instanceof ImportFileError) return uploadFailed(req, res, new HttpError('invalid', err.message, { file: err.message }));
       throw err;
@@ -140,7 +140,7 @@ export function registryImportPages(ctx: AppContext): Router {
   }
 
   async function previewPage(req: Request, res: Response) {
-    const meta = await imports.load(req.user!.organisationId, idParam(req));
+    const meta = await imports.load(contextOf(req).organisationId, idParam(req));
     if (meta.status === 'imported') return res.redirect(303, resultUrl(meta.id));
     const preview = await imports.preview(meta, req.query as Record<string, unknown>, unitsOf(req));
     renderPreview(res, preview, 200, req.query.failed === '1');
@@ -206,8 +206,8 @@ export function registryImportPages(ctx: AppContext): Router {
   async function commit(req: Request, res: Response) {
     const form = parseForm(commitForm, req.body);
     if (!form.ok) throw new HttpError('invalid', form.errors.id, form.errors);
-    const meta = await imports.load(req.user!.organisationId, form.value.id);
-    const start = await imports.commit(meta, req.body as Record<string, unknown>, actorOf(req), unitsOf(req));
+    const meta = await imports.load(contextOf(req).organisationId, form.value.id);
+    const start = await imports.commit(meta, req.body as Record<string, unknown>, contextOf(req), unitsOf(req));
     if (start.kind === 'imported') {
       if (wantsJson(req)) return res.json(statusBody(start.meta, undefined));
       return res.redirect(303, resultUrl(meta.id));
@@ -226,14 +226,14 @@ export function registryImportPages(ctx: AppContext): Router {
   }
 
   async function status(req: Request, res: Response) {
-    const meta = await imports.load(req.user!.organisationId, idParam(req));
+    const meta = await imports.load(contextOf(req).organisationId, idParam(req));
     const job = imports.jobs.get(meta.organisationId, meta.id);
     if (job?.phase === 'error' && job.error) ctx.logger.error({ err: job.error, importId: meta.id }, 'registry import failed');
     res.set('Cache-Control', 'no-store').json(statusBody(meta, job));
   }
 
   async function resultPage(req: Request, res: Response) {
-    const meta = await imports.load(req.user!.organisationId, idParam(req));
+    const meta = await imports.load(contextOf(req).organisationId, idParam(req));
     const job = imports.jobs.get(meta.organisationId, meta.id);
     const result = meta.result ?? (job?.phase === 'imported' ? job.result : undefined);
     if (!result) return res.redirect(303, previewUrl(meta.id, meta.mapping && mappingToParams(meta.mapping)));
@@ -241,7 +241,7 @@ export function registryImportPages(ctx: AppContext): Router {
   }
 
   async function errorsCsv(req: Request, res: Response) {
-    const meta = await imports.load(req.user!.organisationId, idParam(req));
+    const meta = await imports.load(contextOf(req).organisationId, idParam(req));
     const { check, parsed, mapping } = await imports.preview(meta, req.query as Record<string, unknown>, unitsOf(req));
     const fileColumn = (k: keyof typeof COLUMN_BY_KEY | null) => {
       if (!k) return '';

@@ -11,6 +11,7 @@ import { walkEstimateSchema, walkPhotoSchema, walkSchema, type Walk } from '../.
 import { insertCalibration, insertDataset, markPublished, setAssignment } from '../../../server/calibrations/db';
 import { duePlantings } from '../../../server/walks/db';
 import { createWalk as createWalkInService } from '../../../server/walks/service';
+import { contextFor } from '../../../server/platform/context';
 import { seasonRows } from '../../../server/registry/season-view';
 import { DEMO_WALK_IDS } from '../../../seeds/04_demo_walks';
 import { DEMO_ORGANISATIONS, DEMO_USERS } from '../../../seeds/demo-people';
@@ -202,7 +203,7 @@ describe('POST /api/walks', () => {
     // Called on the service directly, all 20 pass the "already stored?" read before any inserts,
     // so 19 of them hit the primary key and must find the stored walk (or a conflict) instead.
     const planting = await duePlanting(ORG1, 'cereal_rye');
-    const actor = { id: userId('sampler@crowntip.test'), organisationId: ORG1, role: 'sampler' as const };
+    const actor = contextFor({ id: userId('sampler@crowntip.test'), name: 'Sampler', organisationId: ORG1, role: 'sampler', units: 'metric' });
     const body = walkBody(planting.plantingId);
     const same = await Promise.all(Array.from({ length: 20 }, () => createWalkInService(t.db, actor, body)));
     expect(same.filter((r) => r.created)).toHaveLength(1);
