@@ -15,6 +15,9 @@ import {
   rotate,
   segmentInBuffer,
   shrinkConvex,
+  simplifyRing,
+  distanceToEdges,
+  insideField,
   toLngLat,
   toXY,
   unrotate,
@@ -35,6 +38,8 @@ export const MIN_BUFFERED_SHARE = 0.25;
 const SAFETY_M = 0.05;
 /** Sweep lines used to cut a concave or multi-part field into parts. */
 const SWEEP_LEVELS = 160;
+/** Outlines are simplified to within this share of the margin (at most 1 m) before planning, and the margin grown to match. */
+const SIMPLIFY_SHARE = 0.1;
 /** Parts under this share of the walkable area are left out (slivers at rounded corners). */
 const SLIVER_SHARE = 0.02;
 
@@ -500,28 +505,40 @@ export function walkPlan(boundary: Boundaryish | null, options: WalkPlanOptions 
     for (const part of field) if (ringArea(part[0]) < 0) part[0].reverse();
     edges = edgesOf(field);
     areaM2 = field.reduce((s, part) => s + Math.abs(ringArea(part[0])) - part.slice(1).reduce((t, r) => t + Math.abs(ringArea(r)), 0), 0);
-    let across = 0;
-    for (const part of field) for (const p of part[0]) for (const q of part[0]) across = Math.max(across, dist(p, q));
+    const across = dist(toXY(f, [minLon, minLat]), toXY(f, [maxLon, maxLat]));
     if (!(across >= 1)) throw new CalcError('boundary_too_small', 'The field boundary is too small to walk (under 1 m across).', 'boundary');
 
     const holes = field.reduce((s, part) => s + part.length - 1, 0);
+    const plan = (tol: number) => {
+      // A traced outline can have thousands of corners: plan on a simplified one and keep its
+      // largest departure from the true outline further in, so the true edges are as far away.
+      let error = 0;
+      const simple: PlaneField = field.map((part) =>
+        part.map((ring) => {
+          const r = simplifyRing(ring, tol);
+          error = Math.max(error, r.error);
+          return r.ring;
+        }),
+      );
+      const simpleEdges = edgesOf(simple);
+      const convex = simple.length === 1 && holes === 0 && isConvexRing(simple[0][0]);
+      for (const m of marginSteps(asked)) {
+        const inner = m + error + (m > 0 ? SAFETY_M : 0);
+        const l = convex ? convexLayout(simple[0][0], inner) : bestSweep(simple, simpleEdges, inner, m + error);
+        if (l && l.legs.length > 0 && (l.walkableArea >= MIN_BUFFERED_SHARE * areaM2 || m === 0)) return { layout: l, used: m, convex, simple };
+      }
+      return null;
+    };
+    const tol = Math.min(1, SIMPLIFY_SHARE * asked);
+    let found = plan(tol);
+    // Simplifying can in rare outlines cut a corner the wrong way: then plan on the full outline.
+    const keepsMargin = (f: NonNullable<typeof found>) =>
+      f.layout.legs.every((g) => [g.a, g.b].every((p) => insideField(edges, p) && distanceToEdges(edges, p) >= f.used));
+    if (tol > 0 && (!found || !keepsMargin(found))) found = plan(0);
+    if (!found) bad('No walking line fits inside this boundary; check that it is a simple (non-crossing) outline.');
+    const { layout, convex } = found;
+    used = found.used;
     const reflex = field.reduce((s, part) => s + reflexCorners(part[0]), 0);
-    const convex = field.length === 1 && holes === 0 && isConvexRing(field[0][0]);
-    let layout: Layout | null = null;
-    for (const m of marginSteps(asked)) {
-      const inner = m > 0 ? m + SAFETY_M : 0;
-      const l = convex ? convexLayout(field[0][0], inner) : bestSweep(field, edges, inner, m);
-      if (l && l.legs.length > 0 && l.walkableArea >= MIN_BUFFERED_SHARE * areaM2) {
-        layout = l;
-        used = m;
-        break;
-      }
-      if (m === 0 && l && l.legs.length > 0) {
-        layout = l;
-        used = 0;
-      }
-    }
-    if (!layout) bad('No walking line fits inside this boundary; check that it is a simple (non-crossing) outline.');
     legs = layout.legs;
     walkableM2 = layout.walkableArea;
     pattern = convex ? 'diagonal' : 'legs';

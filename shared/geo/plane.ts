@@ -278,3 +278,42 @@ export function reflexCorners(ring: XY[]): number {
   }
   return n;
 }
+
+/**
+ * Douglas–Peucker on a ring (not closed): keeps corners so that every dropped corner lies within
+ * `tol` of the kept outline. `error` is the largest such distance (0 when nothing was dropped):
+ * distances to the kept outline are within `error` of the distances to the true one.
+ */
+export function simplifyRing(ring: XY[], tol: number): { ring: XY[]; error: number } {
+  const k = ring.length;
+  if (k <= 4 || tol <= 0) return { ring, error: 0 };
+  let far = 0;
+  for (let i = 1; i < k; i++) if (dist(ring[0], ring[i]) > dist(ring[0], ring[far])) far = i;
+  const keep = new Uint8Array(k);
+  keep[0] = 1;
+  keep[far] = 1;
+  let error = 0;
+  const stack: Array<[number, number]> = [[0, far], [far, k]];
+  while (stack.length) {
+    const [i, j] = stack.pop()!;
+    const b = ring[j % k];
+    let worst = -1;
+    let worstD = -1;
+    for (let m = i + 1; m < j; m++) {
+      const d = pointSegmentDistance(ring[m], ring[i], b);
+      if (d > worstD) {
+        worstD = d;
+        worst = m;
+      }
+    }
+    if (worst < 0) continue;
+    if (worstD > tol) {
+      keep[worst] = 1;
+      stack.push([i, worst], [worst, j]);
+    } else {
+      error = Math.max(error, worstD);
+    }
+  }
+  const out = ring.filter((_, i) => keep[i]);
+  return out.length >= 3 ? { ring: out, error } : { ring, error: 0 };
+}

@@ -83,6 +83,30 @@ describe('every stop and leg keeps the margin from every edge (JSTS on azimuthal
     }
   });
 
+  it('outlines of 5,000 corners (a six-petal flower and a wobbly circle, made here) keep the margin too', () => {
+    // Planned on a simplified outline; the check is on every one of the 5,000 corners.
+    const n = 5000;
+    const outline = (radius: (k: number) => number): Polygon => {
+      const ring = Array.from({ length: n }, (_, k) => {
+        const a = (2 * Math.PI * k) / n;
+        return [-125 + 0.003 * radius(k) * Math.cos(a), 36 + 0.003 * radius(k) * Math.sin(a)];
+      });
+      return { type: 'Polygon', coordinates: [[...ring, ring[0]]] };
+    };
+    for (const field of [outline((k) => 1 + 0.3 * Math.sin((12 * Math.PI * k) / n)), outline((k) => 1 + 0.01 * Math.sin(k * 12.9898))]) {
+      const project = projector(field);
+      const shape = jsts(field, project);
+      const plan = walkPlan(field, { seed: 'petal', stops: 20 });
+      expect(plan.edgeMarginM).toBe(10);
+      for (const s of plan.stops) {
+        const pt = jsts({ type: 'Point', coordinates: [s.lng!, s.lat!] }, project);
+        expect(shape.contains(pt)).toBe(true);
+        expect(shape.getBoundary().distance(pt)).toBeGreaterThanOrEqual(10);
+      }
+      for (const leg of plan.legs) expect(shape.getBoundary().distance(jsts({ type: 'LineString', coordinates: [leg.start!, leg.end!] }, project))).toBeGreaterThanOrEqual(10);
+    }
+  });
+
   it('a 30 x 30 m field: 10 m would leave 10 x 10 m (11 %, under a quarter), so 5 m (20 x 20 m, 44 %), said in the note', () => {
     const { field } = fixture('small');
     const project = projector(field);
