@@ -30,6 +30,7 @@ export const screensEn = {
     locating: 'Finding you…',
     here: 'You are here',
     toNext: 'Stop {{n}} is {{dist}} away ({{paces}} paces)',
+    far: 'You are about {{dist}} from this field',
     accuracy: 'GPS within about {{dist}}',
     locationDenied: 'Location is off for this site. Walk the plan by paces.',
     locationUnavailable: 'No location fix yet. Walk the plan by paces.',

@@ -29,6 +29,7 @@ export const screensEs: ScreenResources = {
     locating: 'Buscando tu ubicación…',
     here: 'Estás aquí',
     toNext: 'La parada {{n}} está a {{dist}} ({{paces}} pasos)',
+    far: 'Estás a unos {{dist}} de este campo',
     accuracy: 'GPS con margen de unos {{dist}}',
     locationDenied: 'La ubicación está apagada para este sitio. Sigue el plan contando pasos.',
     locationUnavailable: 'Todavía no hay ubicación. Sigue el plan contando pasos.',

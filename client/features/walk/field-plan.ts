@@ -1,4 +1,6 @@
 import { area } from '@turf/area';
+import { booleanPointInPolygon } from '@turf/boolean-point-in-polygon';
+import { distance } from '@turf/distance';
 import type { Polygon } from 'geojson';
 import type { Boundary } from '../../../shared/registry/boundary';
 import { walkPlan, type WalkPlan } from '../../../shared/calc/walk-plan';
@@ -40,12 +42,26 @@ export function planField(boundary: Boundary | null, areaHa: number, stops: numb
   return { plan: walkPlan(null, { stops, areaHa }), polygon: null, boundaryProblem: polygon !== null };
 }
 
-/** Great-circle distance in metres (haversine; plenty at field scale). */
+/** Great-circle distance in metres between two positions (turf: haversine on the mean Earth radius). */
 export function distanceM(lat1: number, lon1: number, lat2: number, lon2: number): number {
-  const R = 6_371_008.8; // mean Earth radius (IUGG)
-  const rad = Math.PI / 180;
-  const dLat = (lat2 - lat1) * rad;
-  const dLon = (lon2 - lon1) * rad;
-  const a = Math.sin(dLat / 2) ** 2 + Math.cos(lat1 * rad) * Math.cos(lat2 * rad) * Math.sin(dLon / 2) ** 2;
-  return 2 * R * Math.asin(Math.min(1, Math.sqrt(a)));
+  return distance([lon1, lat1], [lon2, lat2], { units: 'meters' });
+}
+
+/** Beyond this the sampler is not at the field yet: a map dot and stop distances would only mislead. */
+export const FAR_FROM_FIELD_M = 400;
+
+/**
+ * How far the sampler is from the field: 0 inside its outline, else the distance to the nearest
+ * corner of the outline or planned stop (close enough to the edge at these distances). Null when
+ * the field has no position (planned from its area only).
+ */
+export function distanceToFieldM(result: PlanResult, here: { lat: number; lon: number }): number | null {
+  const points: Array<[number, number]> = [];
+  if (result.polygon) {
+    if (booleanPointInPolygon([here.lon, here.lat], result.polygon)) return 0;
+    for (const [lon, lat] of result.polygon.coordinates[0]) points.push([lon, lat]);
+  }
+  for (const s of result.plan.stops) if (s.lat !== null && s.lng !== null) points.push([s.lng, s.lat]);
+  if (points.length === 0) return null;
+  return Math.min(...points.map(([lon, lat]) => distanceM(here.lat, here.lon, lat, lon)));
 }

@@ -1,7 +1,7 @@
 import { useTranslation } from 'react-i18next';
 import type { Boundary } from '../../../../shared/registry/boundary';
 import { boundaryOutline } from '../../../../shared/registry/outline';
-import type { PlanResult } from '../plan';
+import type { PlanResult } from '../field-plan';
 
 const W = 340;
 const H = 300;
@@ -51,10 +51,11 @@ export function FieldMap(props: {
   for (let k = 1; k < points.length; k++) gap = Math.min(gap, Math.hypot(points[k][0] - points[k - 1][0], points[k][1] - points[k - 1][1]));
   const r = Math.max(7, Math.min(13, gap / 2 - 0.5));
 
+  // Drawn only where it really is on this drawing: off the drawing, no dot (never pinned to an edge).
   let here: [number, number] | null = null;
   if (props.here && polygon) {
     const [x, y] = project(props.here.lon, props.here.lat);
-    here = [Math.min(W - 8, Math.max(8, x)), Math.min(H - 8, Math.max(8, y))];
+    if (x >= 8 && x <= W - 8 && y >= 8 && y <= H - 8) here = [x, y];
   }
 
   return (

@@ -11,7 +11,7 @@ import { todayQuery } from '../../today/api';
 import { newDraft, saveDraft, DEFAULT_STOPS } from '../../entry/drafts';
 import { listDrafts } from '../../entry/draft-list';
 import { FieldMap } from '../components/field-map';
-import { distanceM, planField } from '../plan';
+import { distanceM, distanceToFieldM, FAR_FROM_FIELD_M, planField } from '../field-plan';
 import { usePosition } from '../use-position';
 
 const PACE_M = 0.76; // as the walk plan (shared/calc/walk-plan.ts, PACE_LENGTH_M)
@@ -58,8 +58,10 @@ function Plan({ item, draftId, draftStops, draftValues }: { item: TodayItem; dra
 
   const nextStop = plan.stops.find((s) => !(draftValues[s.index] ?? '').trim()) ?? null;
   const fix = position.state.kind === 'fix' ? position.state : null;
+  const toField = fix ? distanceToFieldM(result, fix) : null;
+  const far = toField !== null && toField > FAR_FROM_FIELD_M;
   const toNext =
-    fix && nextStop && nextStop.lat !== null && nextStop.lng !== null ? distanceM(fix.lat, fix.lon, nextStop.lat, nextStop.lng) : null;
+    fix && !far && nextStop && nextStop.lat !== null && nextStop.lng !== null ? distanceM(fix.lat, fix.lon, nextStop.lat, nextStop.lng) : null;
 
   async function start() {
     if (draftId) {
@@ -99,7 +101,7 @@ function Plan({ item, draftId, draftStops, draftValues }: { item: TodayItem; dra
       <h2 className="sr-only">{t('plan.title')}</h2>
 
       <div className="mt-3">
-        <FieldMap boundary={item.boundary} result={result} nextStop={nextStop?.index ?? null} here={fix} />
+        <FieldMap boundary={item.boundary} result={result} nextStop={nextStop?.index ?? null} here={far ? null : fix} />
       </div>
 
       <div className="mt-3 space-y-1 text-lg">
@@ -116,7 +118,11 @@ function Plan({ item, draftId, draftStops, draftValues }: { item: TodayItem; dra
       <div className="mt-3 rounded-xl border-2 border-sky-200 bg-sky-50 p-3 text-sky-900">
         {fix ? (
           <>
-            {toNext !== null && nextStop ? (
+            {far && toField !== null ? (
+              <p className="text-xl font-bold" data-testid="far-from-field">
+                {t('plan.far', { dist: farDistance(toField, f.us, f.num) })}
+              </p>
+            ) : toNext !== null && nextStop ? (
               <p className="text-xl font-bold">
                 {t('plan.toNext', { n: nextStop.index, dist: f.distance(toNext), paces: f.num(toNext / PACE_M) })}
               </p>
@@ -186,4 +192,12 @@ function Plan({ item, draftId, draftStops, draftValues }: { item: TodayItem; dra
       <p className="mt-2 text-loam-600">{t('plan.pace', { dist: f.us ? `${f.num(PACE_M / 0.3048, 1)} ${t('units.ft')}` : `${f.num(PACE_M, 2)} ${t('units.m')}` })}</p>
     </div>
   );
+}
+
+/** "42 mi (68 km)" in US units, "68 km" in metric: whole numbers from 10 on, one decimal below. */
+function farDistance(m: number, us: boolean, num: (x: number, digits?: number) => string): string {
+  const km = m / 1000;
+  const mi = m / 1609.344; // the international mile
+  const show = (x: number) => num(x, x < 10 ? 1 : 0);
+  return us ? `${show(mi)} mi (${show(km)} km)` : `${show(km)} km`;
 }
