@@ -37,7 +37,7 @@ export interface BiomassEstimate {
   extrapolated: boolean;
   /** When the sampling range straddles the threshold: how many more plants would likely settle it
    *  (assuming the observed mean and spread hold). 0 when already settled; null when it cannot be said
-   *  (one plant, or the mean sits on the threshold). */
+   *  (one plant, all lengths equal, or the mean sits on the threshold). */
   morePlantsSuggested: number | null;
   /** Mean length at which this calibration reaches the threshold (extrapolating if need be), or null. */
   lengthForThresholdCm: number | null;
@@ -123,7 +123,9 @@ export function estimateBiomass(fit: Fit, lengthsCm: number[], options: Estimate
       samplingRange = [Math.max(0, r[0]), Math.max(0, r[1])];
     }
     const straddles = samplingRange[0] < threshold && threshold < samplingRange[1];
-    if (!straddles) more = 0;
+    // Equal lengths leave the spread unknown, not zero: never call that settled.
+    if (sd === 0) more = null;
+    else if (!straddles) more = 0;
     else if (lengthForThresholdCm !== null) {
       const m = plantsNeeded(n, sd, Math.abs(mean - lengthForThresholdCm), level);
       more = m === null ? null : Math.max(1, m - n);
@@ -147,6 +149,8 @@ export function estimateBiomass(fit: Fit, lengthsCm: number[], options: Estimate
   }
   if (samplingRange === null) {
     parts.push('With one plant there is no sampling range yet; it appears from the second plant on.');
+  } else if (sd === 0) {
+    parts.push('All lengths are the same, so the spread between plants is unknown and the sampling range cannot be judged; check the entries and measure more plants.');
   } else if (more === 0) {
     const side = samplingRange[0] >= threshold ? 'above' : 'below';
     parts.push(

@@ -117,6 +117,13 @@ describe('estimateBiomass', () => {
     expect(USUAL_SAMPLE_SIZE).toBe(10);
   });
 
+  it('two identical lengths: the spread is unknown, never "settled"', () => {
+    const e = estimateBiomass(rye, [82, 82], { thresholdKgHa: T });
+    expect(e.morePlantsSuggested).toBeNull();
+    expect(e.note).toMatch(/spread between plants is unknown/);
+    expect(e.note).not.toMatch(/would likely not change/);
+  });
+
   it('flags extrapolation outside the calibrated lengths', () => {
     const e = estimateBiomass(rye, [150, 160, 155], { thresholdKgHa: T });
     expect(e.extrapolated).toBe(true);
