@@ -49,24 +49,28 @@ describe('combined interval: hand-worked, linear model', () => {
 });
 
 describe('combined interval: hand-worked, power model on the log scale', () => {
-  // Exact power data y = 2·x^1.5 times e^(±0.1) alternately at x = 1, 2, 4, 8 (invented).
-  // On the log scale: ln y = ln 2 + 1.5·ln x ± 0.1. With t = ln x = 0, ln2, 2ln2, 3ln2 (equally spaced)
-  // and residual pattern +,−,+,− the fit is not exact; we take the fit's own s, q and η̂ (checked in
-  // fit.test.ts against an independent library) and verify the propagation by hand:
-  //   slope on the log scale at x̄ = b/x̄;  u_smp = (b/x̄)·sd/√n;  interval = exp(η̂ ± k·u_c), no smearing.
+  // The power calibration worked by hand in tests/shared/estimate.test.ts: y = 2·x^1.5·e^(±0.1) at
+  // x = 1, 2, 4, 8 gives, with L = ln 2 and k = log₂ x, η(k) = ln 2 + 1.5·L·k − 0.04·(k − 1.5),
+  // b = 1.5 − 0.04/L, s² = 0.016 (df 2), leverage q(k) = 1/4 + (k − 1.5)²/5.
+  // Walk: 3, 4, 5 cm → n = 3, x̄ = 4 (k = 2), sd = 1.
+  //   η̂ = ln 16 − 0.02;  q = 0.25 + 0.05 = 0.3;  u_cal² = 0.016·1.3 = 0.0208
+  //   slope on the log scale b/x̄ = (1.5 − 0.04/L)/4;  u_smp² = (b/4)²·1²/3
+  //   u_c² = u_cal² + u_smp²;  ν_eff = u_c⁴/(u_cal⁴/2 + u_smp⁴/2)
+  //   interval exp(η̂ ± t(0.95, ν_eff)·u_c): quantiles of the field's biomass, so no smearing factor.
   const pts = [1, 2, 4, 8].map((x, i) => ({ x, y: 2 * x ** 1.5 * Math.exp(i % 2 ? -0.1 : 0.1) }));
   const f = fitCalibration(pts, 'power');
   it('propagation on ln(biomass) with the slope b/x̄', () => {
-    const lengths = [3, 4, 5, 4]; // n = 4, mean 4, sd = √((1 + 0 + 1 + 0)/3) = √(2/3)
-    const c = combinedInterval(f, sampleStats(lengths), { level: 0.9 });
-    const b = f.coefficients[1];
-    const uSmp = ((b / 4) * Math.sqrt(2 / 3)) / 2;
-    const uCal = f.residualStdError * Math.sqrt(1 + leverageAt(f, 4));
-    const uc = Math.hypot(uCal, uSmp);
-    const nu = uc ** 4 / (uCal ** 4 / f.df + uSmp ** 4 / 3);
-    const eta = linearPredictor(f, 4);
+    const c = combinedInterval(f, sampleStats([3, 4, 5]), { level: 0.9 });
+    const b = 1.5 - 0.04 / Math.LN2;
+    const uCal2 = 0.016 * 1.3;
+    const uSmp2 = (b / 4) ** 2 / 3;
+    const uc = Math.sqrt(uCal2 + uSmp2);
+    const nu = (uCal2 + uSmp2) ** 2 / (uCal2 ** 2 / 2 + uSmp2 ** 2 / 2);
+    const eta = Math.log(16) - 0.02;
     expect(c.scale).toBe('log');
-    expect(rel(c.uSampling as number, uSmp)).toBeLessThan(1e-12);
+    expect(rel(c.uCalibration ** 2, uCal2)).toBeLessThan(1e-12);
+    expect(rel((c.uSampling as number) ** 2, uSmp2)).toBeLessThan(1e-12);
+    expect(rel(c.dfEffective as number, nu)).toBeLessThan(1e-10);
     expect(rel((c.interval as number[])[0], Math.exp(eta - tQuantile(0.95, nu) * uc))).toBeLessThan(1e-12);
     expect(rel((c.interval as number[])[1], Math.exp(eta + tQuantile(0.95, nu) * uc))).toBeLessThan(1e-12);
     expect(rel(c.lowerBound as number, Math.exp(eta - tQuantile(0.9, nu) * uc))).toBeLessThan(1e-12);
