@@ -236,3 +236,34 @@ function advise(
   }
   return { kind: 'measure_more', more: total - s.n, total, power, alpha, sided };
 }
+
+/** What a walk's stored estimate keeps of its verdict: plain JSON, SI, codes and numbers (no words). */
+export interface VerdictSnapshot {
+  verdict: Verdict;
+  decisionBasis: DecisionBasis;
+  confidence: number;
+  minPlants: number;
+  thresholdKgHa: number;
+  /** Two-sided combined interval, kg/ha; null when the spread was unknown. */
+  combinedInterval: [number, number] | null;
+  /** One-sided lower bound at `confidence`, kg/ha; null when the spread was unknown. */
+  lowerBoundKgHa: number | null;
+  reasons: VerdictReason[];
+  cautions: VerdictReason[];
+  morePlants: MorePlantsAdvice | null;
+}
+
+export function verdictSnapshot(v: VerdictResult): VerdictSnapshot {
+  return {
+    verdict: v.verdict,
+    decisionBasis: v.decisionBasis,
+    confidence: v.confidence,
+    minPlants: v.minPlants,
+    thresholdKgHa: v.thresholdKgHa,
+    combinedInterval: v.combined.interval,
+    lowerBoundKgHa: v.combined.lowerBound,
+    reasons: v.reasons,
+    cautions: v.cautions,
+    morePlants: v.morePlants,
+  };
+}

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import {
-  DEMO_RULE, DEMO_VERDICT_RULE, decideVerdict, fitCalibration, lengthForBiomass, sampleSizeForMean, tCritical,
+  DEMO_RULE, DEMO_VERDICT_RULE, decideVerdict, fitCalibration, lengthForBiomass, sampleSizeForMean, tCritical, verdictSnapshot,
   type DecisionBasis, type VerdictRule,
 } from '../../shared/calc';
 import { readDemo } from './demo-data';
@@ -194,6 +194,18 @@ describe('"measure more plants" with stated power (NIST/SEMATECH e-Handbook 7.2.
     const v = decideVerdict(tight, ten(tightLT + 5, 9), { thresholdKgHa: 3000, decisionBasis: 'point_with_borderline', confidence: 0.9, minPlants: 10 });
     expect(v.verdict).toBe('borderline');
     expect(v.morePlants).toMatchObject({ kind: 'walk_again', maxPlants: 40, power: 0.8 });
+  });
+});
+
+describe('the stored snapshot', () => {
+  it('keeps codes and SI numbers, survives JSON, and words come back the same', () => {
+    const v = decideVerdict(rye, ten(LT + 3, 6), rule('point_with_borderline'));
+    const snap = verdictSnapshot(v);
+    expect(JSON.parse(JSON.stringify(snap))).toEqual(snap);
+    expect(snap).toMatchObject({ verdict: 'borderline', decisionBasis: 'point_with_borderline', confidence: 0.9, minPlants: 10, thresholdKgHa: T });
+    expect(snap.combinedInterval).toEqual(v.combined.interval);
+    expect(snap.lowerBoundKgHa).toBe(v.combined.lowerBound);
+    expect(JSON.stringify(snap)).not.toMatch(/lb\/ac|kg\/ha/); // no pre-rendered words
   });
 });
 
