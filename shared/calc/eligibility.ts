@@ -27,9 +27,27 @@ export type EligibilityReasonCode =
   | 'sample_after_termination'
   | 'sample_too_early';
 
+/** The numbers and dates behind a reason (SI, ISO dates), so any screen can word it in its reader's units. */
+export interface EligibilityReasonData {
+  crop?: string;
+  eligibleCrops?: string[];
+  days?: number;
+  minDays?: number;
+  /** Counted up to the rule's `today` rather than a termination date. */
+  projected?: boolean;
+  endOn?: string;
+  walkedOn?: string;
+  biomassKgHa?: number;
+  thresholdKgHa?: number;
+  gapDays?: number;
+  maxGapDays?: number;
+}
+
 export interface EligibilityReason {
   code: EligibilityReasonCode;
+  /** English, SI units: kept for existing callers; shared/format's eligibilityReasonText words it for a reader. */
   message: string;
+  data?: EligibilityReasonData;
 }
 
 export interface EligibilityResult {
@@ -86,6 +104,7 @@ export function creditEligibility(
     reasons.push({
       code: 'crop_not_eligible',
       message: `The crop class "${planting.crop}" is not eligible under this rule (eligible: ${rule.eligibleCrops.join(', ') || 'none'}).`,
+      data: { crop: planting.crop, eligibleCrops: [...rule.eligibleCrops] },
     });
   }
 
@@ -100,6 +119,7 @@ export function creditEligibility(
         message: projected
           ? `As of ${endOn} the crop has grown ${days} days inside the rainy window; the rule needs ${minDays}.`
           : `The crop grew ${days} days inside the rainy window; the rule needs ${minDays}.`,
+        data: { days, minDays, projected, endOn: endOn as string },
       });
     }
   }
@@ -116,6 +136,7 @@ export function creditEligibility(
       reasons.push({
         code: 'below_threshold',
         message: `The estimated biomass, ${fmt(biomass)} kg/ha, is below the ${fmt(threshold)} kg/ha threshold.`,
+        data: { biomassKgHa: biomass, thresholdKgHa: threshold },
       });
     }
     if (end) {
@@ -126,11 +147,13 @@ export function creditEligibility(
           message: projected
             ? `The walk date ${walkEstimate.walkedOn} is after the projection date ${endOn}.`
             : `The sample was taken on ${walkEstimate.walkedOn}, after termination on ${endOn}.`,
+          data: { walkedOn: walkEstimate.walkedOn, endOn: endOn as string, projected },
         });
       } else if (gap > maxGap) {
         reasons.push({
           code: 'sample_too_early',
           message: `The sample was taken ${gap} days before ${projected ? 'the projection date' : 'termination'}; the rule allows at most ${maxGap}.`,
+          data: { gapDays: gap, maxGapDays: maxGap, projected, endOn: endOn as string },
         });
       }
     }

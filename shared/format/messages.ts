@@ -1,6 +1,7 @@
+import type { EligibilityReason } from '../calc/eligibility';
 import type { DecisionBasis } from '../calc/rules';
 import type { MorePlantsAdvice, Verdict, VerdictReason, VerdictResult } from '../calc/verdict';
-import { biomass, biomassAgainstThreshold, length, percent, type Lang, type UnitSystem } from './figures';
+import { biomass, biomassAgainstThreshold, date, length, percent, type Lang, type UnitSystem } from './figures';
 
 /*
  * Words for a verdict, built from its reason codes and SI numbers in the reader's language and
@@ -140,4 +141,54 @@ export function verdictSentence(v: VerdictResult, reader: Reader): string {
   if (v.morePlants) parts.push(adviceText(v.morePlants, reader));
   for (const c of v.cautions) if (c.code === 'extrapolated' || c.code === 'unknown_spread') parts.push(reasonText(c, reader));
   return parts.join(' ');
+}
+
+/**
+ * A credit-eligibility reason in the reader's language and units, from its code and data. Reasons
+ * stored without data (before it existed) fall back to their stored English message.
+ * `cropName` turns a crop class code into the reader's word for it.
+ */
+export function eligibilityReasonText(r: EligibilityReason, reader: Reader, cropName: (code: string) => string = (c) => c): string {
+  const d = r.data;
+  if (!d) return r.message;
+  const { lang, units } = reader;
+  const es = lang === 'es';
+  switch (r.code) {
+    case 'crop_not_eligible': {
+      const list = (d.eligibleCrops ?? []).map(cropName).join(', ') || (es ? 'ninguno' : 'none');
+      return es
+        ? `El cultivo «${cropName(d.crop ?? '')}» no es elegible con esta regla (elegibles: ${list}).`
+        : `The crop "${cropName(d.crop ?? '')}" is not eligible under this rule (eligible: ${list}).`;
+    }
+    case 'too_few_days_in_window':
+      if (d.projected) {
+        return es
+          ? `Al ${date(d.endOn as string, lang)} el cultivo lleva ${d.days} días dentro del periodo de lluvias; la regla pide ${d.minDays}.`
+          : `As of ${date(d.endOn as string, lang)} the crop has grown ${d.days} days inside the rainy window; the rule needs ${d.minDays}.`;
+      }
+      return es
+        ? `El cultivo creció ${d.days} días dentro del periodo de lluvias; la regla pide ${d.minDays}.`
+        : `The crop grew ${d.days} days inside the rainy window; the rule needs ${d.minDays}.`;
+    case 'below_threshold': {
+      const c = biomassAgainstThreshold(d.biomassKgHa as number, d.thresholdKgHa as number, units, lang);
+      const just = c.nearness ? (es ? 'apenas ' : 'just ') : '';
+      return es
+        ? `La biomasa estimada, ${c.value.full}, está ${just}por debajo del umbral de ${c.threshold.full}.`
+        : `The estimated biomass, ${c.value.full}, is ${just}below the ${c.threshold.full} threshold.`;
+    }
+    case 'sample_after_termination':
+      return es
+        ? `La muestra se tomó el ${date(d.walkedOn as string, lang)}, después de ${d.projected ? 'la fecha de proyección' : 'la terminación'} (${date(d.endOn as string, lang)}).`
+        : `The sample was taken on ${date(d.walkedOn as string, lang)}, after ${d.projected ? 'the projection date' : 'termination'} (${date(d.endOn as string, lang)}).`;
+    case 'sample_too_early':
+      return es
+        ? `La muestra se tomó ${d.gapDays} días antes de ${d.projected ? 'la fecha de proyección' : 'la terminación'}; la regla permite como máximo ${d.maxGapDays}.`
+        : `The sample was taken ${d.gapDays} days before ${d.projected ? 'the projection date' : 'termination'}; the rule allows at most ${d.maxGapDays}.`;
+    default:
+      return es && r.code === 'no_end_date'
+        ? 'Aún no hay fecha de terminación, así que no se pueden contar los días dentro del periodo de lluvias.'
+        : es && r.code === 'no_estimate'
+          ? 'Aún no hay estimación de biomasa: hace falta recorrer el campo.'
+          : r.message;
+  }
 }

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
-import { DEMO_RULE, decideVerdict, fitCalibration, lbPerAcToKgPerHa, type VerdictReason } from '../../shared/calc';
+import { DEMO_RULE, creditEligibility, decideVerdict, fitCalibration, lbPerAcToKgPerHa, type VerdictReason } from '../../shared/calc';
 import {
-  DECISION_BASIS_WORDS, VERDICT_WORDS, adviceText, area, biomass, biomassAgainstThreshold, credit, date, formatNumber, length,
+  DECISION_BASIS_WORDS, VERDICT_WORDS, adviceText, area, biomass, biomassAgainstThreshold, credit, date, eligibilityReasonText, formatNumber, length,
   nitrogenRate, percent, reasonText, verdictSentence,
 } from '../../shared/format';
 import { readDemo } from './demo-data';
@@ -138,5 +138,30 @@ describe('verdict sentences in the reader’s language and units', () => {
     }
     expect(Object.keys(VERDICT_WORDS.es)).toEqual(['meets', 'below', 'borderline']);
     expect(Object.keys(DECISION_BASIS_WORDS.es).sort()).toEqual(['lower_bound', 'point', 'point_with_borderline']);
+  });
+});
+
+describe('eligibility reasons in the reader’s units', () => {
+  const planting = { crop: 'cereal_rye', seededOn: '2026-10-01', terminatedOn: '2027-03-20', areaHa: 10 };
+  const threshold = lbPerAcToKgPerHa(4500);
+  const rule = { ...DEMO_RULE, eligibleCrops: ['cereal_rye'], window: { start: '10-01', end: '03-31' } };
+
+  it('below threshold: lb/ac for a US reader (the stored message stays SI English)', () => {
+    const r = creditEligibility(planting, { biomassKgHa: lbPerAcToKgPerHa(4495.8), walkedOn: '2027-03-10' }, rule);
+    const reason = r.reasons.find((x) => x.code === 'below_threshold')!;
+    expect(reason.message).toContain('kg/ha');
+    expect(eligibilityReasonText(reason, { lang: 'en', units: 'us' })).toBe('The estimated biomass, 4,496 lb/ac, is below the 4,500 lb/ac threshold.');
+    expect(eligibilityReasonText(reason, { lang: 'es', units: 'metric' })).toBe('La biomasa estimada, 5,039 kg/ha, está por debajo del umbral de 5,044 kg/ha.');
+    expect(threshold).toBeCloseTo(5043.83, 2);
+  });
+
+  it('days and dates in the reader’s language; old reasons without data keep their message', () => {
+    const r = creditEligibility({ ...planting, terminatedOn: '2026-11-15' }, { biomassKgHa: 9000, walkedOn: '2026-11-10' }, rule);
+    const days = r.reasons.find((x) => x.code === 'too_few_days_in_window')!;
+    expect(eligibilityReasonText(days, { lang: 'es', units: 'us' })).toBe('El cultivo creció 45 días dentro del periodo de lluvias; la regla pide 90.');
+    expect(eligibilityReasonText({ code: 'below_threshold', message: 'stored words' }, { lang: 'es', units: 'us' })).toBe('stored words');
+    const crop = creditEligibility({ ...planting, crop: 'legume' }, null, rule).reasons.find((x) => x.code === 'crop_not_eligible')!;
+    expect(eligibilityReasonText(crop, { lang: 'en', units: 'us' }, (c) => ({ legume: 'Legume', cereal_rye: 'Cereal rye' })[c] ?? c))
+      .toBe('The crop "Legume" is not eligible under this rule (eligible: Cereal rye).');
   });
 });
