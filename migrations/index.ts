@@ -10,6 +10,7 @@ import * as m20261201130000 from './20261201130000_create_credit_rules';
 import * as m20261201120000 from './20261201120000_create_field_walks';
 import * as m20261201140000 from './20261201140000_create_registers';
 import * as m20261201150000 from './20261201150000_create_job_runs';
+import * as m20261202030000 from './20261202030000_organisation_scoped_links';
 
 interface Migration {
   up: (knex: Knex) => Promise<void>;
@@ -30,6 +31,7 @@ const migrations: Record<string, Migration> = {
   '20261201120000_create_field_walks': m20261201120000,
   '20261201140000_create_registers': m20261201140000,
   '20261201150000_create_job_runs': m20261201150000,
+  '20261202030000_organisation_scoped_links': m20261202030000,
 };
 
 export const migrationSource: Knex.MigrationSource<string> = {
