@@ -186,10 +186,19 @@ export function fitCalibration(points: CalibrationPoint[], model: ModelKind): Fi
   // Leave-one-out by the closed form: on the fitted scale the deleted residual is e_i/(1 − h_ii),
   // exactly what refitting without point i gives. For the log models the smearing factor is
   // refitted too: without point i the other residuals become e_j + h_ji·e_i/(1 − h_ii) (the
-  // rank-one downdate of the fit), and the factor is their mean exp. O(n²), exact as a refit.
+  // rank-one downdate of the fit), and the factor is their mean exp. The log models are straight
+  // lines in the centred u (Σu = 0, Σu² = n − 1), so h_ji = 1/n + u_i·u_j/(n − 1) and the sum over j
+  // is F(c) = Σ_j exp(e_j)·exp(c·u_j) at c = shift·u_i/(n − 1): a power series in c whose moments are
+  // computed once (O(n) instead of O(n²)); a large |c| falls back to the direct sum.
   let looSS = 0;
   let looOk = true;
-  const Qa: number[][] = Array.from({ length: n }, (_, i) => Array.from({ length: p }, (_, j) => Q.get(i, j)));
+  const u = new Float64Array(n);
+  const w = new Float64Array(n);
+  for (let i = 0; i < n; i++) {
+    u[i] = (t[i] - centre) / scale;
+    w[i] = Math.exp(e[i]);
+  }
+  const smearSum = log ? looSmearingSums(u, w) : undefined;
   for (let i = 0; i < n; i++) {
     const denom = 1 - h[i];
     if (denom < 1e-10) {
@@ -199,15 +208,10 @@ export function fitCalibration(points: CalibrationPoint[], model: ModelKind): Fi
     const shift = e[i] / denom;
     const rLoo = r[i] - shift;
     let yLoo = rLoo;
-    if (log) {
-      let acc = 0;
-      for (let j = 0; j < n; j++) {
-        if (j === i) continue;
-        let hji = 0;
-        for (let k = 0; k < p; k++) hji += Qa[j][k] * Qa[i][k];
-        acc += Math.exp(e[j] + hji * shift);
-      }
-      yLoo = Math.exp(rLoo) * (acc / (n - 1));
+    if (smearSum) {
+      const c = (shift * u[i]) / (n - 1);
+      const others = Math.exp(shift / n) * (smearSum(c) - w[i] * Math.exp(c * u[i]));
+      yLoo = Math.exp(rLoo) * (others / (n - 1));
     }
     looSS += (pts[i].y - yLoo) ** 2;
   }
@@ -236,5 +240,33 @@ export function fitCalibration(points: CalibrationPoint[], model: ModelKind): Fi
     centredCoefficients: gamma,
     covUnscaled: C,
     equation: equationOf(model, coefficients, cf),
+  };
+}
+
+/**
+ * F(c) = Σ_j w_j·exp(c·u_j) for many c: by its Taylor series Σ_k c^k/k!·Σ_j w_j·u_j^k when |c|·max|u|
+ * ≤ 1 (30 terms leave under 1e-30 of F and no cancellation beyond e² of rounding), else directly.
+ */
+function looSmearingSums(u: Float64Array, w: Float64Array): (c: number) => number {
+  const K = 30;
+  const moments = new Float64Array(K + 1);
+  let uMax = 0;
+  for (let j = 0; j < u.length; j++) {
+    let term = w[j];
+    for (let k = 0; k <= K; k++) {
+      moments[k] += term;
+      term *= u[j];
+    }
+    uMax = Math.max(uMax, Math.abs(u[j]));
+  }
+  return (c) => {
+    if (Math.abs(c) * uMax > 1) {
+      let acc = 0;
+      for (let j = 0; j < u.length; j++) acc += w[j] * Math.exp(c * u[j]);
+      return acc;
+    }
+    let acc = 0;
+    for (let k = K; k >= 0; k--) acc = acc * (c / (k + 1)) + moments[k];
+    return acc;
   };
 }

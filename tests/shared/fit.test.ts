@@ -138,6 +138,19 @@ describe('leave-one-out RMSE (closed form) equals refitting without each point',
     expect(rel(f.looRmse as number, Math.sqrt(ssq / pts.length))).toBeLessThan(1e-9);
   });
 
+  it('also at n = 600 (the series path of the smearing sums), for both log models', () => {
+    const many = powerPoints(600, 7);
+    for (const model of ['power', 'exponential'] as const) {
+      const f = fitCalibration(many, model);
+      let ssq = 0;
+      for (let i = 0; i < many.length; i++) {
+        const g = fitCalibration(many.filter((_, j) => j !== i), model);
+        ssq += (many[i].y - predict(g, many[i].x)) ** 2;
+      }
+      expect(rel(f.looRmse as number, Math.sqrt(ssq / many.length))).toBeLessThan(1e-9);
+    }
+  });
+
   it('also at small n, where reusing the full-fit factor was off by several per cent', () => {
     const few = powerPoints(6, 21, 3.4, 1.65, 0.45);
     const f = fitCalibration(few, 'power');
