@@ -129,6 +129,9 @@ export const screensEn = {
     plotLabel: 'Each plant’s length as a dot; the line is the mean length needed for the threshold.',
     plotNeeded: 'needed',
     screening: 'Screening estimate',
+    summary: { meets: 'Meets the threshold', below: 'Below the threshold', borderline: 'Borderline' },
+    summaryNone_one: '{{count}} plant so far: no estimate yet',
+    summaryNone_other: '{{count}} plants so far: no estimate yet',
   },
   finish: {
     title: 'Check and send',

@@ -128,6 +128,9 @@ export const screensEs: ScreenResources = {
     plotLabel: 'El largo de cada planta es un punto; la línea es el largo promedio necesario para el umbral.',
     plotNeeded: 'necesario',
     screening: 'Estimación orientativa',
+    summary: { meets: 'Cumple el umbral', below: 'Por debajo del umbral', borderline: 'Al límite' },
+    summaryNone_one: '{{count}} planta por ahora: todavía sin estimación',
+    summaryNone_other: '{{count}} plantas por ahora: todavía sin estimación',
   },
   finish: {
     title: 'Revisar y enviar',

@@ -78,4 +78,52 @@ describe('/capture entry screen', () => {
     expect(errors).toEqual([]);
     await page.close();
   });
+
+  it('keeps the verdict and biomass in sight while typing, on one line; the unit once; stop chips fill their row', async () => {
+    const page = await suite.browser.context.newPage();
+    await page.goto(`${suite.server.url}/capture`); // still signed in from the test above
+    await page.getByRole('link', { name: /Open the walk plan for Bench 3/ }).first().click();
+    await page.getByRole('button', { name: /Start the walk|Continue the walk/ }).click();
+    await page.getByRole('heading', { name: 'Stop 1 of 10' }).waitFor();
+    const input = page.getByLabel(/Main shoot length/);
+    for (const v of ['30', '31', '29', '32', '30']) {
+      await input.fill(v);
+      await page.getByRole('button', { name: /Next/ }).click();
+    }
+    await page.getByRole('heading', { name: 'Stop 6 of 10' }).waitFor();
+    await input.fill('3');
+
+    // Scrolled as far down as the page goes (as when the keyboard pushes it up), the summary is
+    // still fully inside the 844 px screen.
+    await page.evaluate(() => window.scrollTo(0, document.body.scrollHeight));
+    const summary = page.getByTestId('estimate-summary');
+    await expect.poll(async () => (await summary.getAttribute('data-verdict')) ?? '').toMatch(/^(meets|below)$/);
+    const box = (await summary.boundingBox())!;
+    expect(box.y).toBeGreaterThanOrEqual(0);
+    expect(box.y + box.height).toBeLessThanOrEqual(844);
+    expect(await page.getByTestId('summary-biomass').textContent()).toMatch(/^[\d,]+ lb\/ac$/);
+    await screenshot(page, 'capture-entry-sticky-en');
+
+    // Biomass on one line, in the summary and in the full panel ("5,750 lb/ac" must not wrap).
+    const lines = (testId: string) =>
+      page.getByTestId(testId).evaluate((el) => {
+        const r = document.createRange();
+        r.selectNodeContents(el);
+        return new Set([...r.getClientRects()].map((rect) => Math.round(rect.top))).size;
+      });
+    expect(await lines('summary-biomass')).toBe(1);
+    expect(await lines('biomass')).toBe(1);
+
+    // The unit shows once: beside the number, not also in the label.
+    expect((await page.locator('label[for="length"]').innerText()).trim()).toBe('Main shoot length');
+    expect(await page.locator('#length-unit').innerText()).toBe('in');
+
+    // The stop chips fill their row: chip 1 starts at the row's left edge, chip 5 ends at its right.
+    const row = (await page.getByRole('navigation', { name: 'Stops' }).locator('ol').boundingBox())!;
+    const first = (await page.getByRole('button', { name: /^Stop 1: / }).boundingBox())!;
+    const fifth = (await page.getByRole('button', { name: /^Stop 5: / }).boundingBox())!;
+    expect(Math.abs(first.x - row.x)).toBeLessThan(1);
+    expect(Math.abs(fifth.x + fifth.width - (row.x + row.width))).toBeLessThan(1);
+    await page.close();
+  });
 });

@@ -6,6 +6,7 @@ import { MAX_LENGTH_CM, MAX_PLANTS } from '../../../../shared/schemas/walks';
 import { useFormat } from '../../session/api';
 import { usePosition } from '../../walk/use-position';
 import { EstimatePanel } from '../../estimate/components/estimate-panel';
+import { EstimateSummary } from '../../estimate/components/estimate-summary';
 import type { WalkDraft } from '../drafts';
 import { acceptedLengthsCm, isSkipped, stopStates } from '../draft-review';
 import { WithDraft, type UpdateDraft } from '../components/with-draft';
@@ -115,6 +116,10 @@ function Entry({ draft, update }: { draft: WalkDraft; update: UpdateDraft }) {
         {draft.planting.fieldName} · {draft.planting.ranchName}
       </p>
       <h1 className="text-3xl font-bold">{t('entry.stopOf', { n: stop, total: draft.stopCount })}</h1>
+      {/* The verdict and biomass stay in sight while typing (the full panel is further down). */}
+      <div className="sticky top-0 z-10 -mx-4 mt-2 bg-mist px-4 py-1">
+        <EstimateSummary live={live} plants={lengths.length} f={f} />
+      </div>
 
       <form
         className="mt-3"
@@ -125,7 +130,7 @@ function Entry({ draft, update }: { draft: WalkDraft; update: UpdateDraft }) {
         }}
       >
         <label htmlFor="length" className="block text-xl font-bold">
-          {t('entry.length')} ({unitLabel})
+          {t('entry.length')}
         </label>
         <div className="mt-1 flex items-center gap-3">
           <input
@@ -136,7 +141,7 @@ function Entry({ draft, update }: { draft: WalkDraft; update: UpdateDraft }) {
             enterKeyHint={last ? 'done' : 'next'}
             autoComplete="off"
             value={text}
-            aria-describedby="length-help length-check"
+            aria-describedby="length-unit length-help length-check"
             aria-invalid={attempted && state.check.kind === 'refused'}
             onChange={(e) => {
               const v = e.target.value;
@@ -145,7 +150,8 @@ function Entry({ draft, update }: { draft: WalkDraft; update: UpdateDraft }) {
             }}
             className="min-h-20 w-full min-w-0 rounded-xl border-4 border-loam-400 bg-white px-4 text-5xl font-bold tabular-nums focus:border-shoot"
           />
-          <span className="shrink-0 text-3xl font-bold" aria-hidden="true">
+          {/* The unit once, beside the number (read out with the field through aria-describedby). */}
+          <span id="length-unit" className="shrink-0 text-3xl font-bold">
             {unitLabel}
           </span>
         </div>
@@ -217,7 +223,7 @@ function Entry({ draft, update }: { draft: WalkDraft; update: UpdateDraft }) {
       </div>
 
       <nav aria-label={t('entry.stops')} className="mt-4">
-        <ol className="flex flex-wrap gap-2">
+        <ol className="grid grid-cols-5 gap-2">
           {states.map((s) => {
             const filled = s.check.kind !== 'empty';
             const skipped = !filled && isSkipped(draft, s.stop);
@@ -237,7 +243,7 @@ function Entry({ draft, update }: { draft: WalkDraft; update: UpdateDraft }) {
                         ? t('entry.stopChipSkipped', { n: s.stop })
                         : t('entry.stopChip', { n: s.stop })
                   }
-                  className={`flex size-12 items-center justify-center rounded-lg border-2 text-lg font-bold ${
+                  className={`flex h-12 w-full items-center justify-center rounded-lg border-2 text-lg font-bold ${
                     current ? 'border-loam ring-4 ring-straw' : 'border-loam-300'
                   } ${flagged ? 'bg-clay text-white' : filled ? 'bg-shoot text-white' : skipped ? 'border-dashed bg-loam-100 text-loam-600 line-through' : 'bg-white'}`}
                 >

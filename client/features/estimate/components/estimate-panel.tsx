@@ -34,13 +34,13 @@ export function EstimateFigures({ e, lengthsCm, f }: { e: EstimateView; lengthsC
       <dl className="grid grid-cols-2 gap-3">
         <div>
           <dt className="font-bold text-loam-600">{t('estimate.mean')}</dt>
-          <dd className="text-3xl font-bold" data-testid="mean-length">
+          <dd className="text-2xl font-bold whitespace-nowrap sm:text-3xl" data-testid="mean-length">
             {f.length(e.meanLengthCm)}
           </dd>
         </div>
         <div>
           <dt className="font-bold text-loam-600">{t('estimate.biomass')}</dt>
-          <dd className="text-3xl font-bold" data-testid="biomass">
+          <dd className="text-2xl font-bold whitespace-nowrap sm:text-3xl" data-testid="biomass">
             {f.mass(e.biomassKgHa)}
           </dd>
           <dd className="text-loam-700">
