@@ -7,7 +7,6 @@ import { PAGE_LOADED_AT, reconcilePreferences, sessionKeys, useSession } from '.
 import { SignOutButton } from '../features/session/components/sign-out-button';
 import { QueueBanner } from '../features/offline/components/queue-banner';
 import { loadOutbox, useQueueJobs } from '../features/offline';
-import { watchForSignal } from '../features/offline/resend';
 import { todayKeys } from '../features/today/api';
 import { walkKeys } from '../features/submit/api';
 import { Mark } from './mark';
@@ -62,14 +61,21 @@ export function Shell() {
   // session not yet confirmed on this page load is asked for first: it decides whose walks go.
   const freshRef = useRef(fresh);
   freshRef.current = fresh;
-  useEffect(
-    () =>
-      watchForSignal((why) => {
+  useEffect(() => {
+    let stop: (() => void) | null = null;
+    let live = true;
+    void import('../features/offline/resend').then(({ watchForSignal }) => {
+      if (!live) return;
+      stop = watchForSignal((why) => {
         if (!freshRef.current) void qc.refetchQueries({ queryKey: sessionKeys.current() });
         void loadOutbox().then((outbox) => (why === 'timer' ? outbox.run() : outbox.retryNow()));
-      }),
-    [qc],
-  );
+      });
+    });
+    return () => {
+      live = false;
+      stop?.();
+    };
+  }, [qc]);
 
   if (restoring) return <Loading />;
   if (!data) {

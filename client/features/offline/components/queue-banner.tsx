@@ -1,8 +1,11 @@
-import { useEffect, useRef, useState } from 'react';
+import { lazy, Suspense, useEffect, useRef, useState } from 'react';
 import { useTranslation } from 'react-i18next';
-import { useFormat } from '../../session/api';
 import { loadOutbox, useOnline, useQueueJobs, useSendingId } from '../index';
 import { summarise, type QueueJob } from '../jobs';
+
+// Shown only on a tap on Details: loaded then (precached for offline use), not with the first screen.
+const JobList = lazy(() => import('./job-list'));
+const SentNote = lazy(() => import('./sent-note'));
 
 /**
  * The outbox's state on every screen: "No signal: 3 walks waiting to send", a walk being sent,
@@ -30,20 +33,9 @@ export function QueueBanner() {
   }, [jobs]);
   const sentNote =
     arrived.length > 0 ? (
-      <div role="status" className="bg-shoot-50 text-shoot-800" data-testid="sent-banner">
-        <div className="mx-auto flex max-w-2xl items-center justify-between gap-3 px-4 py-2">
-          <p className="font-bold">
-            {t('queue.sentNow', { count: arrived.length, fields: arrived.map((j) => j.label.fieldName).join(', ') })}
-          </p>
-          <button
-            type="button"
-            onClick={() => setArrived([])}
-            className="min-h-touch shrink-0 rounded-lg border-2 border-current px-3 font-bold"
-          >
-            {t('queue.sentOk')}
-          </button>
-        </div>
-      </div>
+      <Suspense fallback={null}>
+        <SentNote fields={arrived.map((j) => j.label.fieldName)} onClose={() => setArrived([])} />
+      </Suspense>
     ) : null;
 
   if (pending.length === 0) {
@@ -100,36 +92,12 @@ export function QueueBanner() {
           </button>
         </div>
         {open && (
-          <ul className="mt-3 space-y-2">
-            {pending.map((job) => (
-              <JobLine key={job.id} job={job} />
-            ))}
-          </ul>
+          <Suspense fallback={null}>
+            <JobList jobs={pending} />
+          </Suspense>
         )}
       </div>
     </div>
     </>
-  );
-}
-
-function JobLine({ job }: { job: QueueJob }) {
-  const { t } = useTranslation();
-  const f = useFormat();
-  return (
-    <li className="rounded-lg bg-white p-3 text-loam">
-      <p className="font-bold">
-        {job.label.fieldName} · {job.label.ranchName}
-      </p>
-      <p>
-        {f.date(job.body.walkedOn)} · {t('queue.plants', { count: job.body.plants.length })}
-      </p>
-      {job.attention === 'conflict' && <p className="mt-1 font-bold text-clay-700">{t('queue.conflict')}</p>}
-      {job.attention === 'refused' && (
-        <p className="mt-1 font-bold text-clay-700">{t('queue.refused', { message: job.lastError?.message ?? '' })}</p>
-      )}
-      {job.state === 'waiting' && job.lastError && (
-        <p className="mt-1 text-loam-600">{t('queue.lastError', { message: job.lastError.message })}</p>
-      )}
-    </li>
   );
 }

@@ -1,16 +1,19 @@
-import { useDeferredValue, useState } from 'react';
+import { lazy, Suspense, useDeferredValue, useState } from 'react';
 import { Link } from 'react-router-dom';
 import { useQuery } from '@tanstack/react-query';
 import { useTranslation } from 'react-i18next';
 import type { TodayItem } from '../../../../shared/schemas/walks';
 import { useFormat, useUser } from '../../session/api';
-import { LanguageToggle, PreferencesPanel } from '../../session/components/preferences';
-import { calibrationsQuery, rulesQuery } from '../../walk/api';
+import { LanguageToggle } from '../../session/components/preferences';
 import { listDrafts } from '../../entry/draft-list';
+import { calibrationsQuery, rulesQuery } from '../../walk/api';
 import { useQueueJobs } from '../../offline';
 import { todayQuery } from '../api';
 import { groupToday } from '../groups';
 import { PlantingCard } from '../components/planting-card';
+
+// Below the list, so it loads after the first screen has drawn (precached for offline use).
+const PreferencesPanel = lazy(() => import('../../session/components/preferences-panel'));
 
 /** Today's walks: the sampler's plantings, walks in progress, search, language and units. */
 export function TodayRoute() {
@@ -142,7 +145,9 @@ export function TodayRoute() {
       )}
       {today.data && today.isError && <p className="mt-3 text-loam-600">{t('today.cached')}</p>}
 
-      <PreferencesPanel />
+      <Suspense fallback={null}>
+        <PreferencesPanel />
+      </Suspense>
       <p className="mt-3 text-loam-600">{t('today.units', { units: f.us ? t('prefs.unitsUs') : t('prefs.unitsMetric') })}</p>
       <p className="mt-5 border-l-4 border-straw bg-straw-50 px-4 py-3">{t('today.caution')}</p>
     </section>

@@ -1,0 +1,36 @@
+import { useTranslation } from 'react-i18next';
+import { useFormat } from '../../session/api';
+import type { QueueJob } from '../jobs';
+
+/** The outbox's walks one by one, under the banner's Details (features/offline/components/queue-banner.tsx). */
+export default function JobList({ jobs }: { jobs: QueueJob[] }) {
+  return (
+    <ul className="mt-3 space-y-2">
+      {jobs.map((job) => (
+        <JobLine key={job.id} job={job} />
+      ))}
+    </ul>
+  );
+}
+
+function JobLine({ job }: { job: QueueJob }) {
+  const { t } = useTranslation();
+  const f = useFormat();
+  return (
+    <li className="rounded-lg bg-white p-3 text-loam">
+      <p className="font-bold">
+        {job.label.fieldName} · {job.label.ranchName}
+      </p>
+      <p>
+        {f.date(job.body.walkedOn)} · {t('queue.plants', { count: job.body.plants.length })}
+      </p>
+      {job.attention === 'conflict' && <p className="mt-1 font-bold text-clay-700">{t('queue.conflict')}</p>}
+      {job.attention === 'refused' && (
+        <p className="mt-1 font-bold text-clay-700">{t('queue.refused', { message: job.lastError?.message ?? '' })}</p>
+      )}
+      {job.state === 'waiting' && job.lastError && (
+        <p className="mt-1 text-loam-600">{t('queue.lastError', { message: job.lastError.message })}</p>
+      )}
+    </li>
+  );
+}

@@ -1,0 +1,16 @@
+import { useTranslation } from 'react-i18next';
+
+/** "The signal is back: the walk of … reached the office", until closed (features/offline/components/queue-banner.tsx). */
+export default function SentNote({ fields, onClose }: { fields: string[]; onClose: () => void }) {
+  const { t } = useTranslation();
+  return (
+    <div role="status" className="bg-shoot-50 text-shoot-800" data-testid="sent-banner">
+      <div className="mx-auto flex max-w-2xl items-center justify-between gap-3 px-4 py-2">
+        <p className="font-bold">{t('queue.sentNow', { count: fields.length, fields: fields.join(', ') })}</p>
+        <button type="button" onClick={onClose} className="min-h-touch shrink-0 rounded-lg border-2 border-current px-3 font-bold">
+          {t('queue.sentOk')}
+        </button>
+      </div>
+    </div>
+  );
+}
