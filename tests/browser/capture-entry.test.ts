@@ -126,4 +126,28 @@ describe('/capture entry screen', () => {
     expect(Math.abs(fifth.x + fifth.width - (row.x + row.width))).toBeLessThan(1);
     await page.close();
   });
+
+  it('en español: the summary, the skip question and the skipped stop on check and send', async () => {
+    const page = await suite.browser.context.newPage();
+    await page.goto(`${suite.server.url}/capture`);
+    await page.getByRole('button', { name: 'Language: Español' }).click();
+    await page.getByRole('heading', { name: 'Asignados a ti', level: 2 }).or(page.getByRole('heading', { name: 'Otras siembras abiertas', level: 2 })).first().waitFor();
+    await page.getByRole('link', { name: 'Seguir: Bench 3' }).click();
+    await page.getByRole('heading', { name: 'Parada 6 de 10' }).waitFor();
+    await page.getByLabel(/Largo del tallo principal/).fill('');
+    await page.getByTestId('estimate-summary').getByText(/Cumple el umbral|Por debajo del umbral/).waitFor();
+    await page.getByRole('button', { name: /Siguiente/ }).click();
+    await page.getByText('¿Saltar la parada 6?').waitFor();
+    await screenshot(page, 'capture-entry-skip-es');
+    await page.getByRole('button', { name: 'Sí, saltar la parada 6' }).click();
+    await page.getByRole('heading', { name: 'Parada 7 de 10' }).waitFor();
+    await page.getByRole('button', { name: 'Parada 6: saltada' }).waitFor();
+    await page.goto(page.url() + '/finish');
+    await page.getByText('La parada 6 se saltó.').waitFor();
+    await screenshot(page, 'capture-finish-skipped-es');
+    await page.goto(`${suite.server.url}/capture`);
+    await page.getByRole('button', { name: 'Idioma: English' }).click();
+    await page.getByRole('heading', { name: "Today's walks" }).waitFor();
+    await page.close();
+  });
 });
