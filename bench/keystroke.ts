@@ -7,7 +7,7 @@ import { fitCalibration, DEMO_RULE, type Fit } from '../shared/calc';
 import { newDraft, type WalkDraft } from '../client/features/entry/drafts';
 import { acceptedLengthsCm, stopStates } from '../client/features/entry/draft-review';
 import { liveEstimate } from '../client/features/estimate/live';
-import type { CalibrationItem } from '../client/features/walk/api';
+import type { CalibrationItem } from '../client/lib/estimate-inputs';
 
 export function makeKeystroke(): () => unknown {
   // A power curve like the demo rye calibration (y = 3.4·x^1.65, ~20 % scatter), JSON round-tripped.

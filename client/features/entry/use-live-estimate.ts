@@ -1,7 +1,7 @@
 import { useMemo } from 'react';
 import { useQuery } from '@tanstack/react-query';
 import { useUnits } from '../session/api';
-import { calibrationsQuery, rulesQuery } from '../walk/api';
+import { calibrationsQuery, rulesQuery } from '../../lib/estimate-inputs';
 import { liveEstimate } from '../estimate/live';
 import type { WalkDraft } from './drafts';
 

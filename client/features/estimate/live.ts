@@ -1,6 +1,6 @@
 import { estimateBiomass, type BiomassEstimate } from '../../../shared/calc/estimate';
 import type { Fit } from '../../../shared/calc/fit-types';
-import type { CalibrationItem } from '../walk/api';
+import type { CalibrationItem } from '../../lib/estimate-inputs';
 
 /**
  * The live estimate on the phone: the estimation core's estimateBiomass (the same code the server

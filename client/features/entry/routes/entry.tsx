@@ -4,7 +4,7 @@ import { Link, useNavigate, useParams } from 'react-router-dom';
 import { useTranslation } from 'react-i18next';
 import { MAX_LENGTH_CM, MAX_PLANTS } from '../../../../shared/schemas/walks';
 import { useFormat } from '../../session/api';
-import { usePosition } from '../../walk/use-position';
+import { usePosition } from '../../../lib/use-position';
 import { EstimatePanel } from '../../estimate/components/estimate-panel';
 import { EstimateSummary } from '../../estimate/components/estimate-summary';
 import type { WalkDraft } from '../drafts';

@@ -6,7 +6,7 @@ import type { TodayItem } from '../../../../shared/schemas/walks';
 import { useFormat, useUser } from '../../session/api';
 import { LanguageToggle } from '../../session/components/preferences';
 import { listDrafts } from '../../entry/draft-list';
-import { calibrationsQuery, rulesQuery } from '../../walk/api';
+import { calibrationsQuery, rulesQuery } from '../../../lib/estimate-inputs';
 import { useQueueJobs } from '../../offline';
 import { todayQuery } from '../api';
 import { groupToday } from '../groups';

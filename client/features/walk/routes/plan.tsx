@@ -12,7 +12,7 @@ import { newDraft, saveDraft, DEFAULT_STOPS } from '../../entry/drafts';
 import { listDrafts } from '../../entry/draft-list';
 import { FieldMap } from '../components/field-map';
 import { distanceM, distanceToFieldM, FAR_FROM_FIELD_M, planField } from '../field-plan';
-import { usePosition } from '../use-position';
+import { usePosition } from '../../../lib/use-position';
 
 const PACE_M = 0.76; // as the walk plan (shared/calc/walk-plan.ts, PACE_LENGTH_M)
 

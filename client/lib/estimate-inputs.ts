@@ -1,6 +1,6 @@
 import { queryOptions } from '@tanstack/react-query';
 import { z } from 'zod';
-import { api } from '../../lib/api';
+import { api } from './api';
 
 /**
  * Published calibrations and the current credit rule, fetched while there is signal and kept on
