@@ -99,7 +99,7 @@ export function createApp(deps: AppDeps): Express {
       secret: deps.sessionSecret,
       store: new people.SessionStore(db, 60_000, config.isTest ? 0 : 10 * 60_000, deps.fastReads),
       resave: false,
-      saveUninitialized: false, // no session row for anonymous page views (STACK.md, gotcha 2)
+      saveUninitialized: false, // no session row for anonymous page views (docs/server-notes.md, 2)
       cookie: {
         httpOnly: true,
         sameSite: 'lax',
@@ -112,7 +112,7 @@ export function createApp(deps: AppDeps): Express {
   app.use(passport.session());
   app.use(requestContext);
 
-  // Sign-in limits run before the CSRF check, so a flood of bad tokens still counts (gotcha 3).
+  // Sign-in limits run before the CSRF check, so a flood of bad tokens still counts (docs/server-notes.md, 3).
   const limits = people.signInLimits(config.SIGNIN_LIMIT_PER_ACCOUNT, config.SIGNIN_LIMIT_PER_ADDRESS);
   app.post('/login', ...limits);
   app.post('/api/session', ...limits);
@@ -141,7 +141,7 @@ export function createApp(deps: AppDeps): Express {
     next();
   });
 
-  // The route table: every JSON path and the one router that answers it (API.md lists the paths).
+  // The route table: every JSON path and the one router that answers it (the README's API section lists the paths).
   const api: [string, Router][] = [
     ['/api/session', people.sessionApi(ctx, passport)],
     ['/api/ranches', registry.ranchesApi(ctx)],

@@ -10,10 +10,10 @@ import { parseForm } from '../platform/validation';
 import { decodeUtf8, CsvReadError } from '../platform/csv-read';
 import { toCsv } from '../platform/csv-safe';
 import type { Formatter } from '../platform/format';
-import * as cal from './db';
-import { BIOMASS_UNITS, LENGTH_UNITS } from './db';
-import { listCrops } from '../registry/plantings-db';
-import { currentCreditRule } from '../rules/service';
+import { cal } from './service';
+import { BIOMASS_UNITS, LENGTH_UNITS } from './service';
+import { listCrops } from '../registry/public';
+import { currentCreditRule } from '../rules/public';
 import * as calibrations from './service';
 import {
   BIOMASS_UNIT_LABELS,
@@ -34,7 +34,7 @@ import { sig } from '../../shared/calc/format';
 
 /**
  * The upload form's file is parsed before the CSRF check, which can only read the token from a
- * parsed body (../shared/STACK.md, gotcha 3): app.ts runs this ahead of lusca for the upload path.
+ * parsed body (docs/server-notes.md, 3): app.ts runs this ahead of lusca for the upload path.
  * Memory only and size-limited; a file over the limit is reported on the form, not as a bare 413
  * (the form puts _csrf before the file, so the token is read even then). Signed-out posts are not
  * parsed at all.

@@ -5,9 +5,9 @@ import { contextOf } from '../platform/context';
 import { can } from '../platform/permissions';
 import { HttpError } from '../platform/errors';
 import { validateBody, validateQuery } from '../platform/validation';
-import * as cal from './db';
+import { cal } from './service';
 import { compareModels, fitCalibration } from '../../shared/calc';
-import { currentCreditRule } from '../rules/service';
+import { currentCreditRule } from '../rules/public';
 import * as calibrations from './service';
 import { assignmentJson, calcErrorToHttp, calibrationJson, IMMUTABLE_MESSAGE } from './service';
 import {
@@ -24,7 +24,7 @@ import {
 import { lookupView, MAX_LOOKUP_PAGE_ROWS } from './view';
 
 /**
- * /api/calibrations (../shared/API.md, Calibrations; additions in the README): everyone in the
+ * /api/calibrations (README, "API"): everyone in the
  * organisation reads published versions; administrators make, publish, retire and assign them;
  * admin and clerk may try fits without saving. A published version never changes: any change
  * answers 409 `conflict`.

@@ -30,7 +30,7 @@ export function calcErrorToHttp(e: unknown, field = 'points'): never {
 }
 
 async function requireCrop(db: Knex, crop: string): Promise<void> {
-  if (!(await db('crops').where('code', crop).first('code'))) throw invalid('crop', 'Choose a crop from the crop list.');
+  if (!(await cal.cropExists(db, crop))) throw invalid('crop', 'Choose a crop from the crop list.');
 }
 
 const xRangeOf = (points: { x: number }[]): [number, number] =>
@@ -198,7 +198,7 @@ export async function unassign(db: Knex, actor: Actor, crop: string, variety: st
   if (!(await cal.removeAssignment(db, actor.organisationId, crop, variety?.trim() || null))) throw new HttpError('not_found');
 }
 
-/** A calibration as the JSON API answers it (../shared/API.md plus the fit, for offline estimates). */
+/** A calibration as the JSON API answers it (README, "API", plus the fit, for offline estimates). */
 export function calibrationJson(c: Calibration) {
   return {
     id: c.id,
@@ -233,3 +233,6 @@ export function calibrationJson(c: Calibration) {
 export function assignmentJson(a: cal.Assignment) {
   return { crop: a.crop, variety: a.variety, calibrationId: a.calibrationId, version: a.version, label: a.label, assignedAt: a.assignedAt, assignedBy: a.assignedByName };
 }
+// Single-query reads and writes the routes and pages use as they are (SQL stays in the db modules).
+export * as cal from './db';
+export { BIOMASS_UNITS, LENGTH_UNITS } from './db';

@@ -4,7 +4,7 @@ import type { AppContext } from '../platform/app-context';
 import { contextOf } from '../platform/context';
 import { can } from '../platform/permissions';
 import { HttpError } from '../platform/errors';
-import { getOutboxMessage, listOutbox } from './db';
+import { getOutboxMessage, listOutbox } from './service';
 
 const PAGE = 50;
 const pageQuery = z.object({ page: z.coerce.number().int().min(1).default(1).catch(1) });

@@ -5,7 +5,7 @@ import { contextOf } from '../platform/context';
 import { signedIn } from '../platform/permissions';
 import { hashPassword, passwordSchema, verifyPassword } from './passwords';
 import { parseForm } from '../platform/validation';
-import { findUserForSignIn, setUserPassword, setUserPreferences } from './db';
+import { findUserForSignIn, setUserPassword, setUserPreferences } from './service';
 
 const passwordForm = z
   .object({ current: z.string().min(1, 'Enter your current password.'), password: passwordSchema, confirm: z.string() })

@@ -6,8 +6,8 @@ import { homeFor } from '../platform/permissions';
 import { SIGN_IN_FAILED } from './passport';
 import { hashPassword, passwordSchema } from './passwords';
 import { parseForm } from '../platform/validation';
-import { findUserById, findUserForSignIn, recordSignIn, setUserPassword } from './db';
-import { checkUserToken, spendUserToken, type TokenPurpose } from './tokens-db';
+import { findUserById, findUserForSignIn, recordSignIn, setUserPassword } from './service';
+import { checkUserToken, spendUserToken, type TokenPurpose } from './service';
 import { sendPasswordResetLink } from './account-links';
 
 /** Only paths on this site are followed after sign-in, never another host. */

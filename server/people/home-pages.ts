@@ -3,7 +3,7 @@ import type { AppContext } from '../platform/app-context';
 import { contextOf } from '../platform/context';
 import { can, homeFor } from '../platform/permissions';
 import { ROLE_SUMMARIES } from '../platform/roles';
-import { countUsers } from './db';
+import { countUsers } from './service';
 
 export function homePages(ctx: AppContext): Router {
   const router = Router();

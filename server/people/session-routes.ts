@@ -6,10 +6,10 @@ import { signedIn } from '../platform/permissions';
 import { SIGN_IN_FAILED } from './passport';
 import { HttpError } from '../platform/errors';
 import { validateBody } from '../platform/validation';
-import { recordSignIn, setUserPreferences } from './db';
+import { recordSignIn, setUserPreferences } from './service';
 import { signInSchema, preferencesSchema, toSessionUser } from './session-user';
 
-/** POST, GET, DELETE /api/session (../shared/API.md, Session), plus PATCH for the user's own preferences. */
+/** POST, GET, DELETE /api/session (README, "API"), plus PATCH for the user's own preferences. */
 export function sessionApi(ctx: AppContext, pp: passport.PassportStatic): Router {
   const router = Router();
 

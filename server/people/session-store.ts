@@ -6,7 +6,7 @@ import type { FastReads } from '../platform/fast-reads';
 /**
  * The SQLite/PostgreSQL session store, with the sliding expiry written at most once a minute per
  * session: express-session touches the store on every request, and a write per read request is
- * the largest cost of a signed-in read (../shared/STACK.md, 14).
+ * the largest cost of a signed-in read (docs/server-notes.md, 5).
  */
 export class SessionStore extends ConnectSessionKnexStore {
   private lastTouch = new Map<string, number>();

@@ -13,7 +13,7 @@ export const preferencesSchema = z
   })
   .strict();
 
-/** The user as GET /api/session shows it (../shared/API.md). */
+/** The user as GET /api/session shows it (README, "API"). */
 export function toSessionUser(user: User) {
   return {
     id: user.id,

@@ -15,7 +15,7 @@ import {
   setUserActive,
   setUserRole,
   type UserListQuery,
-} from './db';
+} from './service';
 import { sendInvitation, sendPasswordResetLink } from './account-links';
 
 const listQuery = z.object({

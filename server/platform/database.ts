@@ -7,7 +7,7 @@ export type Db = Knex;
 
 /**
  * Opens the embedded SQLite database. WAL, NORMAL sync and a busy timeout keep concurrent reads
- * fast and let a second process (a job, a test) wait instead of failing (../shared/STACK.md, 14).
+ * fast and let a second process (a job, a test) wait instead of failing (docs/server-notes.md, 5).
  */
 export function openDatabase(file: string): Db {
   if (file !== ':memory:') fs.mkdirSync(path.dirname(path.resolve(file)), { recursive: true });
@@ -29,7 +29,7 @@ export function openDatabase(file: string): Db {
   });
 }
 
-/** Runs every migration not yet applied. Migrations are imported statically (STACK.md, gotcha 1). */
+/** Runs every migration not yet applied. Migrations are imported statically (docs/server-notes.md, 1). */
 export async function migrateLatest(db: Db): Promise<string[]> {
   const [, applied] = await db.migrate.latest({ migrationSource });
   return applied as string[];

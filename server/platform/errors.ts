@@ -2,7 +2,7 @@ import type { ErrorRequestHandler, Request } from 'express';
 import { ZodError } from 'zod';
 import type { Logger } from 'pino';
 
-/** Stable error codes of the JSON API (../shared/API.md); tests assert these, not the wording. */
+/** Stable error codes of the JSON API (README, "API"); tests assert these, not the wording. */
 export type ErrorCode =
   | 'invalid'
   | 'unauthenticated'
@@ -75,7 +75,7 @@ export function toHttpError(err: unknown, statusSoFar: number): HttpError {
   if (e?.type === 'entity.parse.failed') return new HttpError('invalid', 'The request body is not valid JSON.');
   if (e?.type === 'entity.too.large' || e?.code === 'LIMIT_FILE_SIZE') return new HttpError('too_large');
   if (e?.type === 'charset.unsupported' || e?.type === 'encoding.unsupported') return new HttpError('unsupported_type');
-  // lusca sets 403 on the response and passes a plain Error (../shared/STACK.md, gotcha 3).
+  // lusca sets 403 on the response and passes a plain Error (docs/server-notes.md, 3).
   if (statusSoFar === 403 && typeof e?.message === 'string' && e.message.startsWith('CSRF token')) {
     return new HttpError('csrf');
   }

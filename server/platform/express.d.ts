@@ -1,4 +1,4 @@
-import type { User as CrowntipUser } from '../people/db';
+import type { User as CrowntipUser } from '../people/public';
 import type { RequestContext } from './context';
 
 declare global {

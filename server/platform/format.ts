@@ -1,5 +1,5 @@
 import { haToAc, kgPerHaToLbPerAc } from '../../shared/calc/units';
-import type { Units } from '../people/db';
+import type { Units } from '../people/public';
 
 /**
  * Numbers and dates as one user reads them: their units (SI is what is stored) and their

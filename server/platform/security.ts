@@ -45,7 +45,7 @@ function helmetFor(dev: boolean): RequestHandler {
         baseUri: ["'self'"],
         formAction: ["'self'"],
         frameAncestors: ["'none'"],
-        // Served over plain HTTP on a farm office network too (../shared/STACK.md, gotcha 6).
+        // Served over plain HTTP on a farm office network too (docs/server-notes.md, 4).
         upgradeInsecureRequests: null,
       },
     },

@@ -1,6 +1,6 @@
 import { KG_PER_LB, cmToIn, haToAc, kgPerHaToLbPerAc } from '../../shared/calc/units';
 import { CROP_LABELS } from '../../shared/registry/crops';
-import type { Units } from '../people/db';
+import type { Units } from '../people/public';
 import type { FinalRegister, Register, RegisterRow, RegisterRule, Verdict } from './service';
 
 /** A register as pages and files show it: a draft computed now, or a finalised version. */

@@ -130,3 +130,9 @@ export async function latestWalkStatuses(db: Knex, organisationId: string, plant
   }
   return out;
 }
+
+/** How many fields the organisation has (a register job's progress counts them). */
+export async function countFields(db: Knex, organisationId: string): Promise<number> {
+  const row = await inOrganisation(db, 'fields', organisationId).count({ n: '*' }).first();
+  return Number(row?.n ?? 0);
+}

@@ -2,11 +2,10 @@ import { randomUUID } from 'node:crypto';
 import type { Knex } from 'knex';
 import type { Logger } from 'pino';
 import { HttpError } from '../platform/errors';
-import type { Units } from '../people/db';
-import { inOrganisation } from '../platform/scope';
-import { approvedWalksFor, fieldsWithPlanting, registerRanches } from './inputs-db';
+import type { Units } from '../people/public';
+import { approvedWalksFor, countFields, fieldsWithPlanting, registerRanches } from './inputs-db';
 import { getRegister, latestRegistersOfYear } from './db';
-import { creditRuleForYear } from '../rules/service';
+import { creditRuleForYear } from '../rules/public';
 import { asDraft, asFinal, registerUnits, type RegisterDoc } from './format';
 import { registerCsv, registerPdf } from './output';
 import {
@@ -99,8 +98,7 @@ export function createRegisterJobs(opts: RegisterJobsOptions) {
     const orgId = job.organisationId;
     job.startedAt = now();
     job.phase = 'computing';
-    const row = await inOrganisation(db, 'fields', orgId).count({ n: '*' }).first();
-    job.fieldsTotal = Number(row?.n ?? 0);
+    job.fieldsTotal = await countFields(db, orgId);
     const today = new Date(now()).toISOString().slice(0, 10);
     const season = seasonOfYear(job.year);
     const rule = ruleOfRegister(await creditRuleForYear(db, orgId, job.year));

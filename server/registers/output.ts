@@ -3,7 +3,7 @@ import path from 'node:path';
 import PDFDocument from 'pdfkit';
 import { KG_PER_LB, cmToIn, haToAc, kgPerHaToLbPerAc } from '../../shared/calc/units';
 import { toCsv } from '../platform/csv-safe';
-import type { Units } from '../people/db';
+import type { Units } from '../people/public';
 import { CAUTIONS, VERDICT_LABELS, cropLabel, registerUnits, shortId, type RegisterDoc } from './format';
 import type { RegisterRow, RegisterTotals } from './service';
 

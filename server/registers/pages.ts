@@ -4,8 +4,10 @@ import type { AppContext } from '../platform/app-context';
 import { contextOf } from '../platform/context';
 import { can } from '../platform/permissions';
 import { HttpError } from '../platform/errors';
-import { getRegister, latestRegister, listRegisterVersions } from './db';
-import { registerRanches } from './inputs-db';
+import { getRegister, latestRegister, listRegisterVersions } from './service';
+import { diffRegisters } from './diff';
+import { organisationSummary } from './summary';
+import { registerRanches } from './service';
 import { todayIso } from '../../shared/registry/season';
 import { barChartSvg } from './chart';
 import { CAUTIONS, asDraft, asFinal, cropLabel, registerFileStem, registerUnits, shortId } from './format';
@@ -15,10 +17,8 @@ import {
   MAX_YEAR,
   MIN_YEAR,
   computeRegister,
-  diffRegisters,
   finaliseRegister,
   getFinalRegister,
-  organisationSummary,
   parseStored,
   reportingYearOf,
   verifyStored,

@@ -5,7 +5,8 @@ import { contextOf } from '../platform/context';
 import { can } from '../platform/permissions';
 import { HttpError } from '../platform/errors';
 import { validateBody, validateQuery } from '../platform/validation';
-import { getRegister, latestRegister, listRegisterVersions } from './db';
+import { getRegister, latestRegister, listRegisterVersions } from './service';
+import { diffRegisters } from './diff';
 import { todayIso } from '../../shared/registry/season';
 import { asFinal, registerFileStem } from './format';
 import { registerCsv, registerPdf } from './output';
@@ -13,7 +14,6 @@ import {
   MAX_YEAR,
   MIN_YEAR,
   computeRegister,
-  diffRegisters,
   finaliseRegister,
   getFinalRegister,
   parseStored,
@@ -42,7 +42,7 @@ async function withDiff(ctx: AppContext, organisationId: string, final: FinalReg
 }
 
 /**
- * /api/registers (../shared/API.md, Rules and registers; README "Credit registers"): admins,
+ * /api/registers (README, "API" and "Credit registers"): admins,
  * clerks and auditors read; clerks and admins finalise; nothing changes a finalised version.
  */
 export function registersApi(ctx: AppContext): Router {

@@ -1,7 +1,7 @@
 import { Router } from 'express';
 import type { AppContext } from '../platform/app-context';
 import { can } from '../platform/permissions';
-import { listCrops } from './plantings-db';
+import { listCrops } from './service';
 
 /** GET /api/crops: the crop list every install has (from a migration), for any signed-in role. */
 export function cropsApi(ctx: AppContext): Router {

@@ -5,14 +5,14 @@ import { contextOf } from '../platform/context';
 import { can } from '../platform/permissions';
 import { HttpError } from '../platform/errors';
 import { validateBody, validateQuery } from '../platform/validation';
-import { getField, listFields } from './fields-db';
+import { getField, listFields } from './service';
 import { createField, updateField } from './service';
 import { fieldInputSchema, fieldPatchSchema, pagingSchema } from '../../shared/schemas/registry';
-import { idFilter, listQuery, searchText } from './route-helpers';
+import { idFilter, listQuery, searchText } from '../platform/query';
 
 const listSchema = listQuery(pagingSchema.extend({ ranchId: idFilter.optional(), q: searchText.optional() }));
 
-/** /api/fields (../shared/API.md, Registry): everyone in the organisation reads, clerk and admin write. */
+/** /api/fields (README, "API"): everyone in the organisation reads, clerk and admin write. */
 export function fieldsApi(ctx: AppContext): Router {
   const router = Router();
   const writers = can('registry.write');

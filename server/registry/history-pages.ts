@@ -3,7 +3,7 @@ import { z } from 'zod';
 import type { AppContext } from '../platform/app-context';
 import { contextOf } from '../platform/context';
 import { can } from '../platform/permissions';
-import { historyAuthors, listHistory } from './history-db';
+import { historyAuthors, listHistory } from './service';
 import { isoDate } from '../../shared/schemas/registry';
 
 const PAGE = 50;

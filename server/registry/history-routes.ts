@@ -4,9 +4,9 @@ import type { AppContext } from '../platform/app-context';
 import { contextOf } from '../platform/context';
 import { can } from '../platform/permissions';
 import { validateQuery } from '../platform/validation';
-import { listHistory } from './history-db';
+import { listHistory } from './service';
 import { isoDate, pagingSchema } from '../../shared/schemas/registry';
-import { idFilter, listQuery } from './route-helpers';
+import { idFilter, listQuery } from '../platform/query';
 
 const listSchema = listQuery(
   pagingSchema.extend({

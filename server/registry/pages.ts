@@ -10,16 +10,17 @@ import { areasDisagree } from '../../shared/registry/boundary-area';
 import { boundaryOutline } from '../../shared/registry/outline';
 import { seasonLabel, seasonOfDate, seasonStartYear, seasonStarting, todayIso } from '../../shared/registry/season';
 import { fieldInputSchema, plantingInputSchema, ranchInputSchema } from '../../shared/schemas/registry';
-import * as ranchesDb from './ranches-db';
-import * as fieldsDb from './fields-db';
-import * as plantingsDb from './plantings-db';
+import { ranchesDb } from './service';
+import { fieldsDb } from './service';
+import { plantingsDb } from './service';
 import * as registry from './service';
-import { areaToHa, boundaryFromUpload, rateToKgHa, renameErrors } from './forms';
+import { boundaryFromUpload, renameErrors } from './forms';
+import { areaToHa, rateToKgHa } from '../platform/form-values';
 
 /**
  * Field forms carry an optional GeoJSON file. lusca checks the CSRF token before route handlers
  * run, and it can only read the token from a parsed body, so app.ts runs this parser ahead of
- * lusca for the two field-form paths (../shared/STACK.md, gotcha 3). Small files, memory only.
+ * lusca for the two field-form paths (docs/server-notes.md, 3). Small files, memory only.
  */
 export const boundaryUpload = multer({
   storage: multer.memoryStorage(),

@@ -5,11 +5,11 @@ import { contextOf } from '../platform/context';
 import { can } from '../platform/permissions';
 import { HttpError } from '../platform/errors';
 import { validateBody, validateQuery } from '../platform/validation';
-import { getPlanting, listPlantings } from './plantings-db';
+import { getPlanting, listPlantings } from './service';
 import { createPlanting, updatePlanting } from './service';
 import { assignWalk, unassignWalk } from '../walks/public';
 import { cropSchema, isoDate, pagingSchema, plantingInputSchema, plantingPatchSchema, seasonSchema } from '../../shared/schemas/registry';
-import { idFilter, listQuery } from './route-helpers';
+import { idFilter, listQuery } from '../platform/query';
 
 const listSchema = listQuery(
   pagingSchema.extend({
@@ -26,7 +26,7 @@ const assignmentSchema = z.object({
 });
 
 /**
- * /api/plantings (../shared/API.md, Registry): everyone in the organisation reads, clerk and admin
+ * /api/plantings (README, "API"): everyone in the organisation reads, clerk and admin
  * write. Walk assignments live under /api/plantings/:id/assignment: a clerk or admin asks a sampler
  * to walk a planting (PUT again changes the due date) or takes the request back.
  */

@@ -5,10 +5,11 @@ import { contextOf } from '../platform/context';
 import { can } from '../platform/permissions';
 import { HttpError } from '../platform/errors';
 import { validateBody, validateQuery } from '../platform/validation';
-import { getRanch, listRanches, RANCH_SORTS, type Ranch, type RanchSort } from './ranches-db';
+import { getRanch, listRanches, RANCH_SORTS, type Ranch, type RanchSort } from './service';
 import { createRanch, deleteRanch, updateRanch } from './service';
 import { pagingSchema, ranchInputSchema, ranchPatchSchema, seasonSchema } from '../../shared/schemas/registry';
-import { currentSeason, listQuery, searchText } from './route-helpers';
+import { currentSeason } from './route-helpers';
+import { listQuery, searchText } from '../platform/query';
 
 // Sort keys as the answer spells them (camelCase); the office pages' column names work too.
 const SORT_ALIASES: Record<string, RanchSort> = {
@@ -35,7 +36,7 @@ const seasonQuery = listQuery(z.object({ season: seasonSchema.optional() }));
 /** A ranch as the API answers it: with the season its cover-cropped area was counted for. */
 const answer = (ranch: Ranch, season: string) => ({ ...ranch, coverCroppedSeason: season });
 
-/** /api/ranches (../shared/API.md, Registry): everyone in the organisation reads, clerk and admin write. */
+/** /api/ranches (README, "API"): everyone in the organisation reads, clerk and admin write. */
 export function ranchesApi(ctx: AppContext): Router {
   const router = Router();
   const writers = can('registry.write');

@@ -6,8 +6,8 @@ import { can } from '../platform/permissions';
 import { CROPS } from '../../shared/calc/rules';
 import { seasonLabel, seasonOfDate, seasonStartYear, seasonStarting, todayIso } from '../../shared/registry/season';
 import { seasonSchema } from '../../shared/schemas/registry';
-import { ranchOptions } from './ranches-db';
-import { currentCreditRule } from '../rules/service';
+import { ranchOptions } from './service';
+import { currentCreditRule } from '../rules/public';
 import { seasonRows } from './season-view';
 import { toCsv } from '../platform/csv-safe';
 

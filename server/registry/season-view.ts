@@ -2,7 +2,7 @@ import type { Knex } from 'knex';
 import { daysBetween, daysInWindow } from '../../shared/calc/dates';
 import type { CreditRule } from '../../shared/calc/rules';
 import type { WalkStatus } from '../../shared/schemas/walks';
-import { fieldsWithPlanting, latestWalkStatuses, type FieldWithPlanting } from '../registers/inputs-db';
+import { fieldsWithPlanting, latestWalkStatuses, type FieldWithPlanting } from '../registers/public';
 
 export interface SeasonRow extends FieldWithPlanting {
   /** Days from seeding to termination, or to today while the crop still grows. */

@@ -1,25 +1,9 @@
 import type { Knex } from 'knex';
 import type { Logger } from 'pino';
-import type { Mailer } from '../mail/mailer';
+import type { Mailer } from '../mail/public';
 import { todayIso } from '../../shared/registry/season';
 import { sendSamplingReminders } from './service';
-
-/**
- * Claims today's run of a job: true for the one caller whose insert succeeds. Several app servers
- * on one database therefore send each day's reminders once.
- */
-export async function claimDailyRun(db: Knex, job: string, day: string): Promise<boolean> {
-  try {
-    await db('job_runs').insert({ job, run_on: day, started_at: new Date().toISOString() });
-    return true;
-  } catch {
-    return false; // already claimed today (primary key)
-  }
-}
-
-export async function finishRun(db: Knex, job: string, day: string, summary: unknown) {
-  await db('job_runs').where({ job, run_on: day }).update({ finished_at: new Date().toISOString(), summary: JSON.stringify(summary) });
-}
+import { claimDailyRun, finishRun } from './db';
 
 export interface ReminderJobOptions {
   db: Knex;

@@ -2,7 +2,7 @@
 import { pino } from 'pino';
 import { loadConfig } from '../platform/config';
 import { migrateLatest, openDatabase } from '../platform/database';
-import { createMailer } from '../mail/mailer';
+import { createMailer } from '../mail/public';
 import { runReminderJob } from './daily';
 
 const config = loadConfig();

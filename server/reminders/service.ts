@@ -1,8 +1,8 @@
 import type { Knex } from 'knex';
-import type { Mailer } from '../mail/mailer';
+import type { Mailer } from '../mail/public';
 import { addDaysIso } from '../../shared/registry/season';
 import { CROP_LABELS } from '../../shared/registry/crops';
-import { rolesAllowed } from '../platform/permissions';
+import { activeAssignees, allWalkAssignments, plantingsEndingWithoutApprovedWalk } from './db';
 
 export interface ReminderItem {
   plantingId: string;
@@ -27,19 +27,9 @@ export interface ReminderResult {
 // organisation, matched on organisation_id below.
 export async function dueForReminder(db: Knex, today: string, daysAhead: number) {
   const until = addDaysIso(today, daysAhead);
-  const plantings: Record<string, string>[] = await db('plantings')
-    .join('fields', 'fields.id', 'plantings.field_id')
-    .join('ranches', 'ranches.id', 'fields.ranch_id')
-    .whereNull('plantings.terminated_on')
-    .whereNotNull('plantings.planned_termination_on')
-    .whereBetween('plantings.planned_termination_on', [today, until])
-    .whereNotExists(db('field_walks').whereRaw('field_walks.planting_id = plantings.id').where('field_walks.status', 'approved'))
-    .select('plantings.id', 'plantings.organisation_id', 'plantings.crop', 'plantings.planned_termination_on', 'fields.name as field_name', 'ranches.name as ranch_name')
-    .orderBy('plantings.planned_termination_on')
-    .orderBy('ranches.name')
-    .orderBy('fields.name');
-  const samplers: Record<string, string>[] = await db('users').whereIn('role', rolesAllowed('walks.assignee')).where({ active: true }).whereNotNull('password_hash').select('id', 'organisation_id', 'name', 'email');
-  const assignments: Record<string, string>[] = await db('walk_assignments').select('planting_id', 'sampler_id');
+  const plantings = await plantingsEndingWithoutApprovedWalk(db, today, until);
+  const samplers = await activeAssignees(db);
+  const assignments = await allWalkAssignments(db);
   const assignedTo = new Map<string, Set<string>>();
   for (const a of assignments) {
     if (!assignedTo.has(a.sampler_id)) assignedTo.set(a.sampler_id, new Set());

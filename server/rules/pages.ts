@@ -7,9 +7,9 @@ import { CROPS } from '../../shared/calc/rules';
 import { kgPerHaToLbPerAc } from '../../shared/calc/units';
 import { todayIso } from '../../shared/registry/season';
 import { creditRuleInputSchema } from '../../shared/schemas/rules';
-import { insertRuleVersion, listRuleVersions } from './db';
+import { insertRuleVersion, listRuleVersions } from './service';
 import { currentCreditRule } from './service';
-import { numberOrText, rateToKgHa } from '../registry/forms';
+import { numberOrText, rateToKgHa } from '../platform/form-values';
 
 /** Admin: the organisation's credit rule, versioned with an effective date. */
 export function rulesPages(ctx: AppContext): Router {

@@ -5,7 +5,7 @@ import { can } from '../platform/permissions';
 import { validateBody } from '../platform/validation';
 import { todayIso } from '../../shared/registry/season';
 import { creditRuleInputSchema, type CreditRuleInput } from '../../shared/schemas/rules';
-import { insertRuleVersion, listRuleVersions } from './db';
+import { insertRuleVersion, listRuleVersions } from './service';
 import { currentCreditRule } from './service';
 
 /**

@@ -35,3 +35,5 @@ export async function currentCreditRule(db: Knex, organisationId: string, onDate
 export async function creditRuleForYear(db: Knex, organisationId: string, year: number): Promise<RuleInUse> {
   return inUse(await ruleInEffect(db, organisationId, `${year}-01-01`));
 }
+// Single-query reads and writes the routes and pages use as they are (SQL stays in the db modules).
+export { insertRuleVersion, listRuleVersions } from './db';

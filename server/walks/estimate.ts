@@ -1,8 +1,8 @@
 import type { Knex } from 'knex';
 import { estimateBiomass } from '../../shared/calc/light';
 import type { WalkEstimate } from '../../shared/schemas/walks';
-import { assignedCalibrationFor } from '../calibrations/db';
-import { currentCreditRule } from '../rules/service';
+import { assignedCalibrationFor } from '../calibrations/public';
+import { currentCreditRule } from '../rules/public';
 
 /** Level of the prediction interval and sampling range stored with every walk. */
 export const ESTIMATE_LEVEL = 0.9;

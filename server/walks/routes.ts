@@ -12,7 +12,7 @@ import { validateBody, validateQuery } from '../platform/validation';
 import * as service from './service';
 import { pagingSchema } from '../../shared/schemas/registry';
 import { MAX_PLANTS, walkCreateSchema, walkRejectSchema, walkStatusSchema, type WalkCreate } from '../../shared/schemas/walks';
-import { idFilter, listQuery } from '../registry/route-helpers';
+import { idFilter, listQuery } from '../platform/query';
 
 /** Largest photo accepted; the capture app shrinks photos well below this before sending. */
 export const MAX_PHOTO_BYTES = 8 * 1024 * 1024;
@@ -38,7 +38,7 @@ const photoUpload: RequestHandler = (() => {
 })();
 
 /**
- * /api/walks (../shared/API.md, Field walks): samplers, clerks and admins create walks; the
+ * /api/walks (README, "API"): samplers, clerks and admins create walks; the
  * author (or a clerk or admin) adds photos and submits; clerks and admins approve or reject; a
  * sampler reads their own walks and those of plantings assigned to them, the office reads all.
  * Uploads carry the CSRF token in the X-CSRF-Token header (the check runs before multer).

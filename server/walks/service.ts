@@ -9,10 +9,10 @@ import { sniffImageType } from './image-type';
 import { daysBetween } from '../../shared/calc/dates';
 import { addDaysIso, seasonOfDate, todayIso } from '../../shared/registry/season';
 import type { TodayItem, Walk, WalkCreate, WalkStatus } from '../../shared/schemas/walks';
-import { assignedCalibrationFor } from '../calibrations/db';
-import { getPlanting } from '../registry/plantings-db';
+import { assignedCalibrationFor } from '../calibrations/public';
+import { getPlanting } from '../registry/public';
 import { nowIso } from '../platform/scope';
-import { getUser } from '../people/db';
+import { getUser } from '../people/public';
 import * as walks from './db';
 import { estimateSnapshot } from './estimate';
 
@@ -279,3 +279,5 @@ export async function todayList(db: Knex, actor: WalkActor, opts: { q?: string; 
   items.sort((a, b) => Number(b.assigned) - Number(a.assigned));
   return { items, total: items.length };
 }
+// Single-query reads and writes the routes and pages use as they are (SQL stays in the db modules).
+export { listWalks } from './db';

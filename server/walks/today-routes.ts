@@ -5,7 +5,7 @@ import { contextOf } from '../platform/context';
 import { can } from '../platform/permissions';
 import { validateQuery } from '../platform/validation';
 import { todayList } from './service';
-import { listQuery, searchText } from '../registry/route-helpers';
+import { listQuery, searchText } from '../platform/query';
 
 const todaySchema = listQuery(z.object({ q: searchText.optional() }));
 

@@ -7,7 +7,9 @@ import { extractText, getDocumentProxy } from 'unpdf';
 import { createTestApp, csrfFromHtml, signInApi, signInPages, type TestApp } from '../../helpers/app';
 import { ORG, OTHER_ORG, YEAR, buildHandWorkedScenario, insertField, insertRanch } from '../../helpers/register-scenario';
 import { HttpError } from '../../../server/platform/errors';
-import { computeRegister, diffRegisters, finaliseRegister, organisationSummary, canonicalJson, seasonOfYear, reportingYearOf } from '../../../server/registers/service';
+import { computeRegister, finaliseRegister, canonicalJson, seasonOfYear, reportingYearOf } from '../../../server/registers/service';
+import { diffRegisters } from '../../../server/registers/diff';
+import { organisationSummary } from '../../../server/registers/summary';
 
 /*
  * Hand-worked register for reporting year 2025 (season 2024-25) of "Hand-Worked Ranch".

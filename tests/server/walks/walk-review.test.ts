@@ -7,7 +7,7 @@ import request from 'supertest';
 import { createTestApp, csrfFromHtml, signInApi, signInPages, type TestApp } from '../../helpers/app';
 import { seasonOfDate, todayIso } from '../../../shared/registry/season';
 import { duePlantings } from '../../../server/walks/db';
-import { dotPlotSvg, mapSketchSvg, walksCsv } from '../../../server/walks/review-pages';
+import { dotPlotSvg, mapSketchSvg, walksCsv } from '../../../server/walks/output';
 import { DEMO_WALK_IDS } from '../../../seeds/04_demo_walks';
 import { DEMO_ORGANISATIONS, DEMO_USERS } from '../../../seeds/demo-people';
 

@@ -1,0 +1,2 @@
+/** What other resources may use of mail: the mailer. */
+export { createMailer, type Mailer } from './mailer';

@@ -1,0 +1,159 @@
+import { randomBytes } from 'node:crypto';
+import fs from 'node:fs/promises';
+import path from 'node:path';
+import { Mapping } from './columns';
+import { CheckResult } from './check';
+import { ImportResult } from './write';
+
+// 6. Uploads kept between preview and commit ------------------------------------------------
+
+export interface ImportMeta {
+  id: string;
+  organisationId: string;
+  userId: string;
+  userName: string;
+  fileName: string;
+  bytes: number;
+  uploadedAt: string;
+  /** "imported" is final: a second commit of the same upload answers with this result. */
+  status: 'uploaded' | 'importing' | 'imported';
+  mapping?: Mapping;
+  result?: ImportResult;
+}
+
+const ID_PATTERN = /^[a-f0-9]{32}$/;
+export const isImportId = (id: string) => ID_PATTERN.test(id);
+
+/**
+ * Uploaded files under UPLOADS_DIR/imports: `<id>.csv` and a `<id>.json` sidecar naming the
+ * organisation, the uploader and the status. The id is 128 random bits; every read checks the
+ * organisation, so another organisation's id answers as if it did not exist.
+ */
+export class ImportStore {
+  readonly dir: string;
+  constructor(uploadsDir: string) {
+    this.dir = path.resolve(uploadsDir, 'imports');
+  }
+
+  private file(id: string, ext: 'csv' | 'json') {
+    if (!isImportId(id)) throw new Error('bad import id');
+    return path.join(this.dir, `${id}.${ext}`);
+  }
+
+  async save(buffer: Buffer, meta: Omit<ImportMeta, 'id' | 'status' | 'uploadedAt' | 'bytes'>): Promise<ImportMeta> {
+    await fs.mkdir(this.dir, { recursive: true });
+    const full: ImportMeta = { ...meta, id: randomBytes(16).toString('hex'), status: 'uploaded', uploadedAt: new Date().toISOString(), bytes: buffer.length };
+    await fs.writeFile(this.file(full.id, 'csv'), buffer, { mode: 0o600 });
+    await this.update(full);
+    return full;
+  }
+
+  async get(organisationId: string, id: string): Promise<ImportMeta | undefined> {
+    if (!isImportId(id)) return undefined;
+    try {
+      const meta = JSON.parse(await fs.readFile(this.file(id, 'json'), 'utf8')) as ImportMeta;
+      return meta.organisationId === organisationId ? meta : undefined;
+    } catch {
+      return undefined;
+    }
+  }
+
+  async read(meta: ImportMeta): Promise<Buffer> {
+    return fs.readFile(this.file(meta.id, 'csv'));
+  }
+
+  /** Written to a temporary file and renamed, so a reader never sees half a sidecar. */
+  async update(meta: ImportMeta): Promise<void> {
+    const target = this.file(meta.id, 'json');
+    const tmp = `${target}.${process.pid}.tmp`;
+    await fs.writeFile(tmp, JSON.stringify(meta), { mode: 0o600 });
+    await fs.rename(tmp, target);
+  }
+
+  /** Removes uploads older than `days` (run now and then; an old id then answers 404). */
+  async sweep(days = 30): Promise<void> {
+    const cutoff = Date.now() - days * 86_400_000;
+    let names: string[];
+    try {
+      names = await fs.readdir(this.dir);
+    } catch {
+      return;
+    }
+    await Promise.all(
+      names.map(async (name) => {
+        const full = path.join(this.dir, name);
+        const stat = await fs.stat(full).catch(() => null);
+        if (stat && stat.mtimeMs < cutoff) await fs.rm(full, { force: true });
+      }),
+    );
+  }
+}
+
+// 7. Jobs: the commit runs in the background and the page polls its progress -------------------
+
+export type JobPhase = 'checking' | 'writing' | 'imported' | 'failed' | 'error';
+
+export interface ImportJob {
+  id: string;
+  organisationId: string;
+  phase: JobPhase;
+  done: number;
+  total: number;
+  result?: ImportResult;
+  /** On "failed": the check that found problems (nothing was written). */
+  check?: CheckResult;
+  mapping: Mapping;
+  message?: string;
+  /** What went wrong, for the log. */
+  error?: unknown;
+  finishedAt?: number;
+  promise: Promise<void>;
+}
+
+/** Progress as one number: checking is the first half, writing the second. */
+export function jobPercent(job: Pick<ImportJob, 'phase' | 'done' | 'total'>): number {
+  if (job.phase === 'imported') return 100;
+  const part = job.total ? job.done / job.total : 0;
+  if (job.phase === 'checking') return Math.floor(50 * part);
+  if (job.phase === 'writing') return 50 + Math.floor(49 * part);
+  return 0;
+}
+
+/**
+ * In-process jobs, one per upload at a time. The transaction is all-or-nothing whatever happens to
+ * this list; the list only serves progress. Finished jobs are forgotten after ten minutes (the
+ * sidecar keeps an import's final status).
+ */
+export class ImportJobs {
+  private jobs = new Map<string, ImportJob>();
+
+  get(organisationId: string, id: string): ImportJob | undefined {
+    this.forgetOld();
+    const job = this.jobs.get(id);
+    return job && job.organisationId === organisationId ? job : undefined;
+  }
+
+  isRunning(id: string): boolean {
+    const job = this.jobs.get(id);
+    return Boolean(job && (job.phase === 'checking' || job.phase === 'writing'));
+  }
+
+  /** Registers the job before its first await, so two quick commits of one upload start it once. */
+  start(id: string, organisationId: string, mapping: Mapping, total: number, run: (job: ImportJob) => Promise<void>): ImportJob {
+    const job = { id, organisationId, phase: 'checking', done: 0, total, mapping } as ImportJob;
+    this.jobs.set(id, job);
+    job.promise = run(job).catch((err: unknown) => {
+      job.error = err;
+      if (job.phase === 'imported') return; // written and committed; only the sidecar failed
+      job.phase = 'error';
+      job.message = err instanceof Error ? err.message : String(err);
+      job.finishedAt = Date.now();
+    });
+    return job;
+  }
+
+  private forgetOld() {
+    const cutoff = Date.now() - 10 * 60_000;
+    for (const [id, job] of this.jobs) if (job.finishedAt && job.finishedAt < cutoff) this.jobs.delete(id);
+  }
+}
