@@ -1,8 +1,9 @@
 import { parse } from 'csv-parse/sync';
 
 /**
- * Reading an uploaded CSV, generic for every import (calibration points today; the registry import
- * may share it later):
+ * Reading an uploaded CSV, generic for every import: calibration points read through readCsv; the
+ * registry import (server/registry/import/read.ts) shares parseCsvRecords and keeps its own limits
+ * and wording:
  * - the bytes must be UTF-8, with or without a byte order mark; anything else (a UTF-16 "Unicode
  *   text" export, a Windows-1252 file with é in it) is refused with a message saying how to save it;
  * - the delimiter is a comma or a semicolon (spreadsheets in comma-decimal locales write semicolons),
@@ -21,6 +22,8 @@ export class CsvReadError extends Error {
     message: string,
     /** 1-based line of the file where the problem is, when known. */
     readonly line?: number,
+    /** csv-parse's own code for a malformed file (CSV_QUOTE_NOT_CLOSED…), for callers with their own wording. */
+    readonly parserCode?: string,
   ) {
     super(message);
     this.name = 'CsvReadError';
@@ -82,29 +85,39 @@ const CSV_PARSE_MESSAGES: Record<string, string> = {
   CSV_NON_TRIMABLE_CHAR_AFTER_CLOSING_QUOTE: 'there is text after the closing quote of a cell',
 };
 
+/** A record as csv-parse reads it, with the 1-based line of the file it ends on. */
+export type CsvParsedRecord = { record: string[]; info: { lines: number } };
+
+/**
+ * The one call of csv-parse for every upload: records with their end lines, comma or semicolon,
+ * a byte order mark dropped, rows of any length. `trim` trims cells and skips records whose cells
+ * are all empty; `to` stops after that many records. A malformed file is a CsvReadError('malformed').
+ */
+export function parseCsvRecords(text: string, delimiter: ',' | ';', opts: { trim?: boolean; to?: number } = {}): CsvParsedRecord[] {
+  try {
+    return parse(text, {
+      delimiter,
+      bom: true,
+      skip_empty_lines: true,
+      relax_column_count: true,
+      info: true,
+      ...(opts.trim ? { trim: true, skip_records_with_empty_values: true } : {}),
+      ...(opts.to ? { to: opts.to } : {}),
+    }) as unknown as CsvParsedRecord[];
+  } catch (e) {
+    const err = e as { code?: string; lines?: number };
+    const what = (err.code && CSV_PARSE_MESSAGES[err.code]) || 'the file cannot be read as CSV';
+    throw new CsvReadError('malformed', err.lines ? `Line ${err.lines}: ${what}.` : `The file cannot be read: ${what}.`, err.lines, err.code);
+  }
+}
+
 /** A decoded CSV text as header and rows. */
 export function readCsvText(text: string, options: CsvReadOptions = {}): CsvTable {
   const maxRows = options.maxRows ?? 10_000;
   if (!text.trim()) throw new CsvReadError('empty', 'The file is empty.');
   const delimiter = detectDelimiter(text);
-  let records: { record: string[]; info: { lines: number } }[];
-  try {
-    records = parse(text, {
-      delimiter,
-      bom: true,
-      trim: true,
-      skip_empty_lines: true,
-      skip_records_with_empty_values: true,
-      relax_column_count: true,
-      info: true,
-      // One past the limit (plus the header), so "too many" is seen without reading the rest.
-      to: maxRows + 2,
-    }) as unknown as { record: string[]; info: { lines: number } }[];
-  } catch (e) {
-    const err = e as { code?: string; lines?: number };
-    const what = (err.code && CSV_PARSE_MESSAGES[err.code]) || 'the file cannot be read as CSV';
-    throw new CsvReadError('malformed', err.lines ? `Line ${err.lines}: ${what}.` : `The file cannot be read: ${what}.`, err.lines);
-  }
+  // One past the limit (plus the header), so "too many" is seen without reading the rest.
+  const records = parseCsvRecords(text, delimiter, { trim: true, to: maxRows + 2 });
   if (records.length === 0) throw new CsvReadError('empty', 'The file is empty.');
   const [head, ...data] = records;
   if (data.length > maxRows) {

@@ -1,7 +1,6 @@
-import { parse } from 'csv-parse/sync';
-import { detectDelimiter } from '../../platform/csv-read';
+import { CsvReadError, detectDelimiter, parseCsvRecords, type CsvParsedRecord } from '../../platform/csv-read';
 
-// One delimiter rule for every upload (server/platform/csv-read.ts).
+// One reader for every upload (server/platform/csv-read.ts); this file keeps the import's own rules and wording.
 export { detectDelimiter };
 
 // 2. Reading the file -------------------------------------------------------------------------
@@ -49,13 +48,13 @@ export function parseCsv(buffer: Uint8Array): ParsedCsv {
   const { text, bom } = decodeUtf8(buffer);
   if (!text.trim()) throw new ImportFileError('The file is empty.');
   const delimiter = detectDelimiter(text);
-  let records: { record: string[]; info: { lines: number } }[];
+  let records: CsvParsedRecord[];
   try {
-    records = parse(text, { delimiter, info: true, relax_column_count: true, skip_empty_lines: true, bom: true }) as unknown as typeof records;
+    records = parseCsvRecords(text, delimiter);
   } catch (err) {
-    const e = err as { code?: string; lines?: number; message?: string };
-    const where = e.lines ? ` near line ${e.lines}` : '';
-    const why = e.code === 'CSV_QUOTE_NOT_CLOSED' ? 'a quote (") is opened and never closed' : 'it is not well-formed CSV';
+    if (!(err instanceof CsvReadError)) throw err;
+    const where = err.line ? ` near line ${err.line}` : '';
+    const why = err.parserCode === 'CSV_QUOTE_NOT_CLOSED' ? 'a quote (") is opened and never closed' : 'it is not well-formed CSV';
     throw new ImportFileError(`The file cannot be read${where}: ${why}.`);
   }
   if (!records.length) throw new ImportFileError('The file is empty.');
