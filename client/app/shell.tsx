@@ -8,7 +8,7 @@ import { SignOutButton } from '../features/session/components/sign-out-button';
 import { QueueBanner } from '../features/offline/components/queue-banner';
 import { loadOutbox, useQueueJobs } from '../features/offline';
 import { todayKeys } from '../features/today/api';
-import { walkKeys } from '../features/submit/api';
+import { walkKeys } from '../features/submit/keys';
 import { Mark } from './mark';
 import { ScreenBoundary } from './route-error';
 

@@ -1,11 +1,13 @@
-import { z } from 'zod';
-import { sessionResponseSchema, type SessionResponse } from '../../shared/schemas/session';
+import type { SessionResponse } from '../../shared/schemas/session';
+import type { Parser } from './check';
+import { errorAnswer, sessionAnswer, tokenAnswer } from './first-screen-answers';
 import { i18n } from './i18n';
 
 /**
  * The capture app's one way to the JSON API (API.md): same-origin cookie, JSON in and out,
- * the CSRF token on every mutating request, responses checked with the shared zod schemas,
- * and every failure turned into an ApiError with a stable `code`.
+ * the CSRF token on every mutating request, responses checked with the shared zod schemas (or,
+ * for the first screen's answers, the light checks of first-screen-answers.ts, so zod stays off
+ * it), and every failure turned into an ApiError with a stable `code`.
  */
 
 export class ApiError extends Error {
@@ -21,17 +23,6 @@ export class ApiError extends Error {
     this.fields = fields;
   }
 }
-
-/** `{"error": {"code", "message", "fields"?}}` (API.md, Conventions). */
-const errorBodySchema = z.object({
-  error: z.object({
-    code: z.string(),
-    message: z.string().optional(),
-    fields: z.record(z.string(), z.string()).optional(),
-  }),
-});
-
-const tokenOnlySchema = z.object({ csrfToken: z.string().min(1) });
 
 type Method = 'GET' | 'POST' | 'PUT' | 'PATCH' | 'DELETE';
 const MUTATING = new Set<Method>(['POST', 'PUT', 'PATCH', 'DELETE']);
@@ -114,7 +105,7 @@ export function createApiClient(deps: ApiClientDeps = {}) {
     return errorFromBody(res.status, await readJson(res));
   }
 
-  function parseBody<T>(schema: z.ZodType<T>, status: number, json: unknown): T {
+  function parseBody<T>(schema: Parser<T>, status: number, json: unknown): T {
     const parsed = schema.safeParse(json);
     if (!parsed.success) {
       throw new ApiError(status, 'bad_response', i18n.t('errors.badResponse'));
@@ -124,7 +115,7 @@ export function createApiClient(deps: ApiClientDeps = {}) {
 
   /** `GET /api/session`: the user and a fresh CSRF token (kept for later mutations). */
   async function session(opts: Pick<RequestOptions, 'signal' | 'redirectOn401'> = {}): Promise<SessionResponse> {
-    const data = await request('GET', SESSION_PATH, sessionResponseSchema, opts);
+    const data = await request('GET', SESSION_PATH, sessionAnswer, opts);
     csrfToken = data.csrfToken;
     return data;
   }
@@ -135,7 +126,7 @@ export function createApiClient(deps: ApiClientDeps = {}) {
     tokenRequest ??= (async () => {
       const res = await send('GET', SESSION_PATH, {}, null);
       const json = await readJson(res);
-      const parsed = tokenOnlySchema.safeParse(json);
+      const parsed = tokenAnswer.safeParse(json);
       if (!parsed.success) throw errorFromBody(res.status, json);
       csrfToken = parsed.data.csrfToken;
       return csrfToken;
@@ -145,7 +136,7 @@ export function createApiClient(deps: ApiClientDeps = {}) {
     return tokenRequest;
   }
 
-  async function request<T>(method: Method, path: string, schema: z.ZodType<T>, opts: RequestOptions = {}): Promise<T> {
+  async function request<T>(method: Method, path: string, schema: Parser<T>, opts: RequestOptions = {}): Promise<T> {
     try {
       return await attempt(method, path, schema, opts);
     } catch (err) {
@@ -154,7 +145,7 @@ export function createApiClient(deps: ApiClientDeps = {}) {
     }
   }
 
-  async function attempt<T>(method: Method, path: string, schema: z.ZodType<T>, opts: RequestOptions): Promise<T> {
+  async function attempt<T>(method: Method, path: string, schema: Parser<T>, opts: RequestOptions): Promise<T> {
     const mutating = MUTATING.has(method);
     let res = await send(method, path, opts, mutating ? await getCsrfToken() : null);
     let error = res.ok ? null : await toApiError(res);
@@ -173,11 +164,11 @@ export function createApiClient(deps: ApiClientDeps = {}) {
   return {
     request,
     session,
-    get: <T>(path: string, schema: z.ZodType<T>, opts?: Omit<RequestOptions, 'body'>) => request('GET', path, schema, opts),
-    post: <T>(path: string, schema: z.ZodType<T>, opts?: RequestOptions) => request('POST', path, schema, opts),
-    put: <T>(path: string, schema: z.ZodType<T>, opts?: RequestOptions) => request('PUT', path, schema, opts),
-    patch: <T>(path: string, schema: z.ZodType<T>, opts?: RequestOptions) => request('PATCH', path, schema, opts),
-    delete: <T>(path: string, schema: z.ZodType<T>, opts?: RequestOptions) => request('DELETE', path, schema, opts),
+    get: <T>(path: string, schema: Parser<T>, opts?: Omit<RequestOptions, 'body'>) => request('GET', path, schema, opts),
+    post: <T>(path: string, schema: Parser<T>, opts?: RequestOptions) => request('POST', path, schema, opts),
+    put: <T>(path: string, schema: Parser<T>, opts?: RequestOptions) => request('PUT', path, schema, opts),
+    patch: <T>(path: string, schema: Parser<T>, opts?: RequestOptions) => request('PATCH', path, schema, opts),
+    delete: <T>(path: string, schema: Parser<T>, opts?: RequestOptions) => request('DELETE', path, schema, opts),
     /** Forget the token (after signing out or in). */
     resetCsrfToken: () => {
       csrfToken = null;
@@ -187,10 +178,10 @@ export function createApiClient(deps: ApiClientDeps = {}) {
 }
 
 /** For 204 answers and any body the caller does not need. */
-export const noContent = z.unknown().transform(() => undefined);
+export const noContent: Parser<undefined> = { safeParse: () => ({ success: true, data: undefined }) };
 
 function errorFromBody(status: number, json: unknown): ApiError {
-  const parsed = errorBodySchema.safeParse(json);
+  const parsed = errorAnswer.safeParse(json);
   if (!parsed.success) return new ApiError(status, `http_${status}`, defaultMessage(status));
   const { code, message, fields } = parsed.data.error;
   return new ApiError(status, code, message ?? defaultMessage(status), fields ?? {});

@@ -1,8 +1,9 @@
 import { queryOptions, useQuery, useQueryClient } from '@tanstack/react-query';
 import { useMemo } from 'react';
 import { useTranslation } from 'react-i18next';
-import { sessionResponseSchema, type SessionResponse } from '../../../shared/schemas/session';
+import type { SessionResponse } from '../../../shared/schemas/session';
 import { api, ApiError, noContent, type ApiClient } from '../../lib/api';
+import { sessionAnswer } from '../../lib/first-screen-answers';
 import { makeFormatter, type UnitLabels, type Units } from '../../lib/format';
 import { currentLanguage, setLanguage, type Language } from '../../lib/i18n';
 import { clearPersistedCache } from '../../lib/persist';
@@ -84,7 +85,7 @@ export function pendingPreferences(): Preferences | null {
 }
 
 export async function sendPreferences(prefs: Preferences, client: ApiClient = api): Promise<SessionResponse> {
-  const res = await client.patch('/api/session', sessionResponseSchema, { body: prefs });
+  const res = await client.patch('/api/session', sessionAnswer, { body: prefs });
   writePending(null);
   return res;
 }

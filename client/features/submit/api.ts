@@ -1,11 +1,9 @@
 import { queryOptions } from '@tanstack/react-query';
 import { walkSchema } from '../../../shared/schemas/walks';
 import { api } from '../../lib/api';
+import { walkKeys } from './keys';
 
-export const walkKeys = {
-  all: ['walks'] as const,
-  detail: (id: string) => [...walkKeys.all, id] as const,
-};
+export { walkKeys };
 
 /** The walk as the server stored it, with its estimate snapshot ("stored result"). */
 export const walkQuery = (id: string) =>

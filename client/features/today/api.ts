@@ -1,6 +1,6 @@
 import { queryOptions } from '@tanstack/react-query';
-import { todayResponseSchema } from '../../../shared/schemas/walks';
 import { api } from '../../lib/api';
+import { todayAnswer } from '../../lib/first-screen-answers';
 
 export const todayKeys = {
   all: ['today'] as const,
@@ -15,6 +15,6 @@ export const todayKeys = {
 export const todayQuery = (userId: string) =>
   queryOptions({
     queryKey: todayKeys.list(userId),
-    queryFn: ({ signal }) => api.get('/api/today?limit=500', todayResponseSchema, { signal }),
+    queryFn: ({ signal }) => api.get('/api/today?limit=500', todayAnswer, { signal }),
     staleTime: 60_000,
   });
