@@ -4,6 +4,7 @@ import { CalcError } from '../../shared/calc/errors';
 import { creditEligibility } from '../../shared/calc/eligibility';
 import { daysBetween } from '../../shared/calc/dates';
 import { seasonStarting } from '../../shared/registry/season';
+import { CROP_LABELS } from '../../shared/registry/crops';
 import { HttpError } from '../platform/errors';
 import {
   approvedWalksFor,
@@ -182,6 +183,19 @@ export function chooseWalk(walks: ApprovedWalkInput[], seededOn: string, endOn: 
   return { walk: usable[usable.length - 1], qualifies: false };
 }
 
+const SHORT_MONTHS = ['Jan', 'Feb', 'Mar', 'Apr', 'May', 'Jun', 'Jul', 'Aug', 'Sep', 'Oct', 'Nov', 'Dec'];
+
+/**
+ * Why a planting has no estimate, when an approved walk exists but carries none (no calibration was
+ * assigned for its crop): "a field walk is needed" would be untrue there.
+ */
+function noEstimateMessage(walks: ApprovedWalkInput[], seededOn: string, crop: string): string | null {
+  const bare = walks.filter((w) => !w.estimate && w.walkedOn >= seededOn);
+  if (!bare.length) return null;
+  const [, m, d] = bare[bare.length - 1].walkedOn.split('-').map(Number);
+  return `The approved walk of ${d} ${SHORT_MONTHS[m - 1]} has no estimate: no calibration is assigned for ${((CROP_LABELS as Record<string, string>)[crop] ?? crop).toLowerCase()}.`;
+}
+
 /** One field's row: its planting (if any) judged by the core's creditEligibility under the rule. */
 export function registerRow(field: FieldWithPlanting, walks: ApprovedWalkInput[], rule: RegisterRule, projectionDate: string, season: string): RegisterRow {
   const base = {
@@ -229,7 +243,7 @@ export function registerRow(field: FieldWithPlanting, walks: ApprovedWalkInput[]
       verdict: result.eligible ? (result.projected ? 'projected_eligible' : 'eligible') : 'not_eligible',
       eligible: result.eligible,
       creditKgN: result.creditKgN,
-      reasons: result.reasons.map((r) => ({ code: r.code, message: r.message })),
+      reasons: result.reasons.map((r) => ({ code: r.code, message: r.code === 'no_estimate' ? noEstimateMessage(walks, field.seededOn!, field.crop!) ?? r.message : r.message })),
     };
   } catch (err) {
     // Stored data the core refuses (e.g. termination before seeding): the row says so, the register still builds.
