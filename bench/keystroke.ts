@@ -3,7 +3,7 @@
  * and the live estimate, with the tenth value changing each time. Pure (no node: imports), so the
  * same code is timed in node (bench/capture-size.ts) and inside Chromium (bench/first-load.ts).
  */
-import { fitCalibration, DEMO_RULE, type Fit } from '../shared/calc';
+import { fitCalibration, DEMO_RULE, DEMO_VERDICT_RULE, type Fit } from '../shared/calc';
 import { newDraft, type WalkDraft } from '../client/features/entry/drafts';
 import { acceptedLengthsCm, stopStates } from '../client/features/entry/draft-review';
 import { liveEstimate } from '../client/features/estimate/live';
@@ -35,9 +35,8 @@ export function makeKeystroke(): () => unknown {
     return liveEstimate({
       calibrationId: 'c1',
       calibrations: [calibration],
-      thresholdKgHa: DEMO_RULE.thresholdKgHa,
+      rule: { thresholdKgHa: DEMO_RULE.thresholdKgHa, ...DEMO_VERDICT_RULE, edgeMarginM: 10 },
       lengthsCm: acceptedLengthsCm(states),
-      units: 'us',
     });
   };
 }

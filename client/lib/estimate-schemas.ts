@@ -23,4 +23,12 @@ export const rulesSchema = z.looseObject({
   thresholdKgHa: z.number().positive(),
   minDaysInWindow: z.number().optional(),
   label: z.string().nullable().optional(),
+  // How the verdict is decided and where stops may go (client/lib/rule-settings.ts fills in the
+  // demo values while a server leaves them out). Loose here so an odd value never blanks the rule.
+  id: z.string().nullable().optional(),
+  version: z.number().nullable().optional(),
+  decisionBasis: z.string().nullable().optional(),
+  confidence: z.number().nullable().optional(),
+  minPlants: z.number().nullable().optional(),
+  edgeMarginM: z.number().nullable().optional(),
 });

@@ -1,26 +1,30 @@
 import { useMemo } from 'react';
 import { useQuery } from '@tanstack/react-query';
-import { useUnits } from '../session/api';
 import { calibrationsQuery, rulesQuery } from '../../lib/estimate-inputs';
+import { ruleSettings } from '../../lib/rule-settings';
 import { liveEstimate } from '../estimate/live';
 import type { WalkDraft } from './drafts';
 
-/** The live estimate for a walk in progress, from the calibration and rule kept on the phone. */
-export function useLiveEstimate(draft: WalkDraft, lengthsCm: number[]) {
-  const units = useUnits();
-  const calibrations = useQuery(calibrationsQuery);
+/** The credit rule kept on the phone, with the demo decision settings filled in where it has none. */
+export function useRuleSettings() {
   const rules = useQuery(rulesQuery);
+  return useMemo(() => (rules.data ? ruleSettings(rules.data) : undefined), [rules.data]);
+}
+
+/** The live estimate and verdict for a walk in progress, from the calibration and rule kept on the phone. */
+export function useLiveEstimate(draft: WalkDraft, lengthsCm: number[]) {
+  const calibrations = useQuery(calibrationsQuery);
+  const rule = useRuleSettings();
   const key = lengthsCm.join(',');
   return useMemo(
     () =>
       liveEstimate({
         calibrationId: draft.planting.calibrationId,
         calibrations: calibrations.data?.items,
-        thresholdKgHa: rules.data?.thresholdKgHa,
+        rule,
         lengthsCm,
-        units,
       }),
     // lengthsCm is a fresh array each render; its contents (the key) decide.
-    [draft.planting.calibrationId, calibrations.data, rules.data, key, units],
+    [draft.planting.calibrationId, calibrations.data, rule, key],
   );
 }

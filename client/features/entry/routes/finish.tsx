@@ -2,15 +2,14 @@ import '../../../locales/screens';
 import { useMemo, useState } from 'react';
 import { Link, useNavigate, useParams } from 'react-router-dom';
 import { useTranslation } from 'react-i18next';
-import { USUAL_SAMPLE_SIZE } from '../../../../shared/calc/estimate';
 import { useFormat } from '../../session/api';
 import { loadOutbox } from '../../offline';
 import { newJob } from '../../offline/queue';
 import { EstimatePanel } from '../../estimate/components/estimate-panel';
-import { removeDraft, type WalkDraft } from '../drafts';
+import { DEFAULT_STOPS, removeDraft, type WalkDraft } from '../drafts';
 import { acceptedLengthsCm, reviewDraft, stopStates } from '../draft-review';
 import { WithDraft, type UpdateDraft } from '../components/with-draft';
-import { useLiveEstimate } from '../use-live-estimate';
+import { useLiveEstimate, useRuleSettings } from '../use-live-estimate';
 import { STAGES } from '../stages';
 
 /** Check and send: the estimate, every plant, stage and notes, then into the outbox. */
@@ -26,6 +25,7 @@ function Finish({ draft, update }: { draft: WalkDraft; update: UpdateDraft }) {
   const states = useMemo(() => stopStates(draft), [draft]);
   const lengths = useMemo(() => acceptedLengthsCm(states), [states]);
   const live = useLiveEstimate(draft, lengths);
+  const minPlants = useRuleSettings()?.minPlants ?? DEFAULT_STOPS;
   const review = useMemo(() => reviewDraft(draft, states), [draft, states]);
   const [sending, setSending] = useState(false);
   const [failed, setFailed] = useState<string | null>(null);
@@ -126,7 +126,7 @@ function Finish({ draft, update }: { draft: WalkDraft; update: UpdateDraft }) {
         {review.skipped.length > 0 && (
           <p>{t('finish.skipped', { count: review.skipped.length, stops: review.skipped.join(', ') })}</p>
         )}
-        {n > 0 && n < USUAL_SAMPLE_SIZE && <p>{t('finish.few', { count: n, usual: USUAL_SAMPLE_SIZE })}</p>}
+        {n > 0 && n < minPlants && <p>{t('finish.few', { count: n, usual: minPlants })}</p>}
       </div>
 
       <div className="mt-5">

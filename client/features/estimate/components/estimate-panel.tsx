@@ -1,75 +1,61 @@
 import { useTranslation } from 'react-i18next';
-import { USUAL_SAMPLE_SIZE } from '../../../../shared/calc/estimate';
 import type { Formatter } from '../../../lib/format';
 import type { LiveEstimate } from '../live';
+import { verdictView, type VerdictView } from '../verdict-view';
 import { DotPlot } from './dot-plot';
+import { readerOf, VERDICT_TONE } from './estimate-summary';
 
-/** The fields shown, shared by the live estimate and the server's stored snapshot. */
-export interface EstimateView {
-  n: number;
-  meanLengthCm: number;
-  biomassKgHa: number;
-  interval: [number, number];
-  level: number;
-  thresholdKgHa: number;
-  meetsThreshold: boolean;
-  extrapolated: boolean;
-  morePlantsSuggested: number | null;
-  samplingRange: [number, number] | null;
-  lengthForThresholdCm?: number | null;
-}
-
-/** Mean, biomass with its interval, the verdict, the more-plants advice, the dot plot. */
-export function EstimateFigures({ e, lengthsCm, f }: { e: EstimateView; lengthsCm: number[]; f: Formatter }) {
+/**
+ * Mean, biomass with its combined range, the verdict with what decided it, the more-plants advice,
+ * the dot plot. Shared by the live estimate and the server's stored result.
+ */
+export function EstimateFigures({ v, lengthsCm, f }: { v: VerdictView; lengthsCm: number[]; f: Formatter }) {
   const { t } = useTranslation();
-  let advice: string;
-  if (e.samplingRange === null) advice = t('estimate.onePlant');
-  else if (e.morePlantsSuggested === 0) advice = t('estimate.settled');
-  else if (e.morePlantsSuggested !== null) advice = t('estimate.more', { count: e.morePlantsSuggested });
-  else advice = t('estimate.moreUnknown');
-  const borderline = e.samplingRange !== null && e.morePlantsSuggested !== 0;
-
   return (
     <div>
       <dl className="grid grid-cols-2 gap-3">
         <div>
           <dt className="font-bold text-loam-600">{t('estimate.mean')}</dt>
           <dd className="text-2xl font-bold whitespace-nowrap sm:text-3xl" data-testid="mean-length">
-            {f.length(e.meanLengthCm)}
+            {f.length(v.meanLengthCm)}
           </dd>
         </div>
         <div>
           <dt className="font-bold text-loam-600">{t('estimate.biomass')}</dt>
           <dd className="text-2xl font-bold whitespace-nowrap sm:text-3xl" data-testid="biomass">
-            {f.mass(e.biomassKgHa)}
+            {v.biomass}
           </dd>
-          <dd className="text-loam-700">
-            {t('estimate.interval', {
-              level: f.num(e.level * 100),
-              lo: f.massValue(e.interval[0]),
-              hi: f.massValue(e.interval[1]),
-            })}
+          <dd className="text-loam-700" data-testid="range">
+            {v.range ?? t('estimate.rangeUnknown')}
           </dd>
         </div>
       </dl>
-      <p
-        className={`mt-3 rounded-lg px-3 py-2 text-xl font-bold ${e.meetsThreshold ? 'bg-shoot text-white' : 'bg-clay text-white'}`}
-        data-testid="verdict"
-      >
-        {e.meetsThreshold ? '✓ ' : '✗ '}
-        {t(e.meetsThreshold ? 'estimate.meets' : 'estimate.below', { threshold: f.mass(e.thresholdKgHa) })}
+      <p className={`mt-3 rounded-lg px-3 py-2 text-xl font-bold ${VERDICT_TONE[v.state]}`} data-testid="verdict" data-verdict={v.state}>
+        <span aria-hidden="true">{v.mark} </span>
+        {t(`estimate.headline.${v.headline}`, { threshold: v.threshold })}
       </p>
-      <p className={`mt-2 text-lg ${borderline ? 'font-bold text-clay-800' : ''}`} data-testid="advice">
-        {advice}
-      </p>
-      {e.n < USUAL_SAMPLE_SIZE && <p className="text-loam-600">{t('estimate.usual', { count: USUAL_SAMPLE_SIZE })}</p>}
-      {e.extrapolated && <p className="mt-1 font-bold text-clay-800">{t('estimate.extrapolated')}</p>}
-      <div className="mt-2">
-        <DotPlot lengthsCm={lengthsCm} neededCm={e.lengthForThresholdCm ?? null} f={f} />
-      </div>
-      {e.lengthForThresholdCm != null && (
-        <p className="text-loam-700">{t('estimate.needed', { length: f.length(e.lengthForThresholdCm) })}</p>
+      {v.reasons.length > 0 && (
+        <ul className="mt-2 list-disc space-y-1 pl-5 text-loam-800" data-testid="reasons">
+          {v.reasons.map((r) => (
+            <li key={r}>{r}</li>
+          ))}
+        </ul>
       )}
+      {v.advice && (
+        <p className="mt-2 rounded-lg border-l-8 border-loam-400 bg-loam-50 px-3 py-2 text-lg font-bold" data-testid="advice">
+          {v.advice}
+        </p>
+      )}
+      {v.cautions.map((c) => (
+        <p key={c} className="mt-1 font-bold text-clay-800">
+          {c}
+        </p>
+      ))}
+      {v.extrapolatedNote && <p className="mt-1 font-bold text-clay-800">{t('estimate.extrapolated')}</p>}
+      <div className="mt-2">
+        <DotPlot lengthsCm={lengthsCm} neededCm={v.lengthForThresholdCm} f={f} />
+      </div>
+      {v.lengthForThresholdCm != null && <p className="text-loam-700">{t('estimate.needed', { length: f.length(v.lengthForThresholdCm) })}</p>}
     </div>
   );
 }
@@ -86,13 +72,13 @@ export function EstimatePanel({ live, lengthsCm, f }: { live: LiveEstimate; leng
       <div className="mt-2">
         {live.kind === 'ok' ? (
           <>
-            <EstimateFigures e={live.estimate} lengthsCm={lengthsCm} f={f} />
+            <EstimateFigures v={verdictView(live.verdict, readerOf(f))} lengthsCm={lengthsCm} f={f} />
             <p className="mt-2 text-sm text-loam-600">
               {t('estimate.calibration', {
                 crop: t(`crops.${live.calibration.crop}` as 'crops.other', { defaultValue: live.calibration.crop }),
                 version: String(live.calibration.version),
               })}{' '}
-              · {t('estimate.screening')}
+              · {t(`estimate.basis.${live.verdict.decisionBasis}`)} · {t('estimate.screening')}
             </p>
           </>
         ) : live.kind === 'none' ? (

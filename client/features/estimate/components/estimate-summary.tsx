@@ -1,55 +1,53 @@
 import { useTranslation } from 'react-i18next';
 import type { Formatter } from '../../../lib/format';
 import type { LiveEstimate } from '../live';
+import { verdictView, type VerdictState } from '../verdict-view';
+
+export type { VerdictState } from '../verdict-view';
 
 /**
- * How a walk stands against the threshold. `borderline` is for a verdict that cannot say yes or no
- * yet: shown neutral (neither the green of "meets" nor the red of "below").
+ * The three looks of a verdict: green for meets, red for below, and for borderline a neutral one
+ * (neither green nor red, no tick), so a borderline walk is never read as passed or failed.
  */
-export type VerdictState = 'meets' | 'below' | 'borderline';
-
-const TONE: Record<VerdictState, string> = {
+export const VERDICT_TONE: Record<VerdictState, string> = {
   meets: 'bg-shoot text-white',
   below: 'bg-clay text-white',
   borderline: 'bg-loam-100 text-loam border-2 border-loam-400',
 };
-const MARK: Record<VerdictState, string> = { meets: '✓', below: '✗', borderline: '≈' };
 
-/** The verdict a live estimate gives today (meets or below); borderline comes with a later rule. */
-export function verdictOf(live: LiveEstimate): VerdictState | null {
-  if (live.kind !== 'ok') return null;
-  return live.estimate.meetsThreshold ? 'meets' : 'below';
+/** The reader of a screen: its language and units, for shared/format. */
+export function readerOf(f: Formatter): { lang: 'en' | 'es'; units: 'us' | 'metric' } {
+  return { lang: f.locale.startsWith('es') ? 'es' : 'en', units: f.units };
 }
 
 /**
  * One compact line that stays at the top of the entry screen while typing: the verdict and the
  * biomass (never wrapped), and how many plants count so far.
  */
-export function EstimateSummary(props: { live: LiveEstimate; plants: number; f: Formatter; verdict?: VerdictState | null }) {
+export function EstimateSummary(props: { live: LiveEstimate; plants: number; f: Formatter }) {
   const { t } = useTranslation();
   const { live, f } = props;
-  const verdict = props.verdict === undefined ? verdictOf(live) : props.verdict;
-  if (live.kind !== 'ok' || verdict === null) {
+  if (live.kind !== 'ok') {
     return (
       <div data-testid="estimate-summary" className="rounded-lg border-2 border-loam-300 bg-white px-3 py-2 text-loam-600">
         {t('estimate.summaryNone', { count: props.plants })}
       </div>
     );
   }
-  const e = live.estimate;
+  const v = verdictView(live.verdict, readerOf(f));
   return (
     <div
       data-testid="estimate-summary"
-      data-verdict={verdict}
-      className={`flex items-center justify-between gap-2 rounded-lg px-3 py-2 ${TONE[verdict]}`}
+      data-verdict={v.state}
+      className={`flex items-center justify-between gap-2 rounded-lg px-3 py-2 ${VERDICT_TONE[v.state]}`}
     >
       <span className="min-w-0 text-lg leading-tight font-bold">
-        <span aria-hidden="true">{MARK[verdict]} </span>
-        {t(`estimate.summary.${verdict}`)}
-        <span className="block text-sm font-normal">{t('estimate.plants', { count: e.n })}</span>
+        <span aria-hidden="true">{v.mark} </span>
+        {t(`estimate.headline.${v.headline}`, { threshold: v.threshold })}
+        <span className="block text-sm font-normal">{t('estimate.plantsOfMin', { count: v.n, min: v.minPlants })}</span>
       </span>
       <span className="shrink-0 text-2xl font-bold whitespace-nowrap tabular-nums" data-testid="summary-biomass">
-        {f.mass(e.biomassKgHa)}
+        {v.biomass}
       </span>
     </div>
   );

@@ -5,6 +5,8 @@ import { useTranslation } from 'react-i18next';
 import { useFormat } from '../../session/api';
 import { loadOutbox, useOnline, useQueueJobs, useSendingId } from '../../offline';
 import { EstimateFigures } from '../../estimate/components/estimate-panel';
+import { readerOf } from '../../estimate/components/estimate-summary';
+import { storedVerdictView } from '../../estimate/verdict-view';
 import { walkQuery } from '../api';
 
 /** After "Send": waiting in the outbox, being sent, or the result the server stored. */
@@ -73,7 +75,7 @@ export default function SentRoute() {
                 {walk.rejectReason && <p className="font-bold text-clay-800">{t('today.rejectReason', { reason: walk.rejectReason })}</p>}
                 <div className="mt-3">
                   {walk.estimate ? (
-                    <EstimateFigures e={walk.estimate} lengthsCm={walk.plants.map((p) => p.lengthCm)} f={f} />
+                    <EstimateFigures v={storedVerdictView(walk.estimate, readerOf(f))} lengthsCm={walk.plants.map((p) => p.lengthCm)} f={f} />
                   ) : (
                     <p className="text-lg">{t('sent.noEstimate')}</p>
                   )}
