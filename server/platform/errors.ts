@@ -13,6 +13,8 @@ export type ErrorCode =
   | 'too_large'
   | 'unsupported_type'
   | 'rate_limited'
+  | 'storage_unavailable'
+  | 'storage_full'
   | 'internal';
 
 const statusOf: Record<ErrorCode, number> = {
@@ -25,6 +27,8 @@ const statusOf: Record<ErrorCode, number> = {
   too_large: 413,
   unsupported_type: 415,
   rate_limited: 429,
+  storage_unavailable: 503,
+  storage_full: 507,
   internal: 500,
 };
 
@@ -38,6 +42,8 @@ const defaultMessage: Record<ErrorCode, string> = {
   too_large: 'The upload is too large.',
   unsupported_type: 'This type of content is not accepted here.',
   rate_limited: 'Too many attempts. Please wait a few minutes and try again.',
+  storage_unavailable: 'The server cannot write to its storage just now. Nothing was saved; try again later.',
+  storage_full: "The server's disk is full. Nothing was saved; ask your administrator to free space.",
   internal: 'Something went wrong on our side. The error was logged.',
 };
 
@@ -94,6 +100,7 @@ export function errorHandler(logger: Logger): ErrorRequestHandler {
   return (err, req, res, _next) => {
     const httpError = toHttpError(err, res.statusCode);
     if (httpError.code === 'internal') logger.error({ err, url: req.originalUrl }, 'unhandled error');
+    else if (httpError.status >= 500) logger.error({ err, url: req.originalUrl }, 'storage error');
     if (res.headersSent) return;
     res.status(httpError.status);
     if (isApiRequest(req)) {

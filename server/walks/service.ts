@@ -1,5 +1,6 @@
 import { createHash, randomBytes, randomUUID } from 'node:crypto';
 import fs from 'node:fs/promises';
+import { commitFile, discard, stageFile } from '../platform/file-store';
 import path from 'node:path';
 import type { Knex } from 'knex';
 import type { UserContext } from '../platform/context';
@@ -204,8 +205,9 @@ export async function savePhoto(
 
   const relative = path.posix.join('photos', actor.organisationId, walk.id, `${stop}-${randomBytes(8).toString('hex')}.${type.ext}`);
   const abs = insideUploads(uploadsDir, relative);
-  await fs.mkdir(path.dirname(abs), { recursive: true });
-  await fs.writeFile(abs, data, { mode: 0o640 });
+  // Staged under a temporary name; renamed into place inside the transaction, so the row and the
+  // file exist together or not at all (server/platform/file-store.ts).
+  const tmp = await stageFile(abs, data, 'the photo');
 
   const photo: walks.WalkPhotoRecord = { id: randomUUID(), walkId: walk.id, stop, path: relative, contentType: type.contentType, size: data.length };
   let replaced: walks.WalkPhotoRecord | undefined;
@@ -214,9 +216,10 @@ export async function savePhoto(
       replaced = await walks.photoAtStop(trx, actor.organisationId, walk.id, stop);
       if (replaced) await walks.deletePhoto(trx, actor.organisationId, replaced.id);
       await walks.insertPhoto(trx, actor.organisationId, photo);
+      await commitFile(tmp, abs, 'the photo');
     });
   } catch (err) {
-    await fs.rm(abs, { force: true });
+    await discard(tmp, abs);
     if (isUniqueViolation(err)) throw new HttpError('conflict', 'Another photo for this stop arrived at the same moment. Try again.');
     throw err;
   }

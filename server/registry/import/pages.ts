@@ -132,6 +132,8 @@ export function registryImportPages(ctx: AppContext): Router {
       ({ meta } = await imports.upload(contextOf(req), req.file.originalname, req.file.buffer));
     } catch (err) {
       if (err instanceof ImportFileError) return uploadFailed(req, res, new HttpError('invalid', err.message, { file: err.message }));
+      // A full or unwritable disk (507/503) is said on the upload page, beside the file.
+      if (err instanceof HttpError && err.status >= 500) return uploadFailed(req, res, err);
       throw err;
     }
     const url = previewUrl(meta.id);

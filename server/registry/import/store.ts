@@ -1,6 +1,7 @@
 import { randomBytes } from 'node:crypto';
 import fs from 'node:fs/promises';
 import path from 'node:path';
+import { discard, writeFileAtomic } from '../../platform/file-store';
 import { Mapping } from './columns';
 import { CheckResult } from './check';
 import { ImportResult } from './write';
@@ -41,10 +42,15 @@ export class ImportStore {
   }
 
   async save(buffer: Buffer, meta: Omit<ImportMeta, 'id' | 'status' | 'uploadedAt' | 'bytes'>): Promise<ImportMeta> {
-    await fs.mkdir(this.dir, { recursive: true });
     const full: ImportMeta = { ...meta, id: randomBytes(16).toString('hex'), status: 'uploaded', uploadedAt: new Date().toISOString(), bytes: buffer.length };
-    await fs.writeFile(this.file(full.id, 'csv'), buffer, { mode: 0o600 });
-    await this.update(full);
+    // Both files or neither: a failed sidecar removes the CSV already in place.
+    await writeFileAtomic(this.file(full.id, 'csv'), buffer, 'the file', 0o600);
+    try {
+      await this.update(full);
+    } catch (err) {
+      await discard(this.file(full.id, 'csv'));
+      throw err;
+    }
     return full;
   }
 
@@ -65,9 +71,7 @@ export class ImportStore {
   /** Written to a temporary file and renamed, so a reader never sees half a sidecar. */
   async update(meta: ImportMeta): Promise<void> {
     const target = this.file(meta.id, 'json');
-    const tmp = `${target}.${process.pid}.tmp`;
-    await fs.writeFile(tmp, JSON.stringify(meta), { mode: 0o600 });
-    await fs.rename(tmp, target);
+    await writeFileAtomic(target, Buffer.from(JSON.stringify(meta)), 'the file', 0o600);
   }
 
   /** Removes uploads older than `days` (run now and then; an old id then answers 404). */
