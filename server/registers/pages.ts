@@ -18,6 +18,7 @@ import {
   MIN_YEAR,
   computeRegister,
   finaliseRegister,
+  UnchangedRegister,
   getFinalRegister,
   parseStored,
   reportingYearOf,
@@ -230,6 +231,11 @@ export function registerPages(ctx: AppContext): Router {
       };
       res.redirect(303, `/registers/v/${final.id}`);
     } catch (err) {
+      if (err instanceof UnchangedRegister) {
+        req.session.flash = { kind: 'info', text: `Nothing changed since version ${err.version}. There is nothing to amend.` };
+        res.redirect(303, `/registers/${encodeURIComponent(ranchId)}/${year}`);
+        return;
+      }
       if (err instanceof HttpError && err.code === 'conflict') {
         req.session.flash = { kind: 'error', text: err.message };
         res.redirect(303, `/registers/${encodeURIComponent(ranchId)}/${year}`);

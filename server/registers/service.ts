@@ -380,6 +380,13 @@ export async function getFinalRegister(db: Knex, organisationId: string, id: str
   return stored && parseStored(stored);
 }
 
+/** 409 for finalising rows identical to the latest version: pages word it as a notice, not an error. */
+export class UnchangedRegister extends HttpError {
+  constructor(readonly version: number) {
+    super('conflict', `Nothing changed since version ${version}: an amendment needs a change.`);
+  }
+}
+
 /**
  * Finalises the ranch's register for the year: computes it, and in one transaction reads the highest
  * version, refuses a version identical to it, and stores the snapshot with its canonical JSON and
@@ -403,7 +410,7 @@ export async function finaliseRegister(
       if (latest) {
         const previous = await getFinalRegister(trx, organisationId, latest.id);
         if (previous && substance(previous) === substance(register)) {
-          throw new HttpError('conflict', `Nothing has changed since version ${latest.version}: an amendment needs a change.`);
+          throw new UnchangedRegister(latest.version);
         }
       }
       const snapshot: FinalSnapshot = {
