@@ -11,6 +11,7 @@ import * as m20261201120000 from './20261201120000_create_field_walks';
 import * as m20261201140000 from './20261201140000_create_registers';
 import * as m20261201150000 from './20261201150000_create_job_runs';
 import * as m20261202030000 from './20261202030000_organisation_scoped_links';
+import * as m20261202040000 from './20261202040000_verdict_rule_fields_and_skipped_stops';
 
 interface Migration {
   up: (knex: Knex) => Promise<void>;
@@ -32,6 +33,7 @@ const migrations: Record<string, Migration> = {
   '20261201140000_create_registers': m20261201140000,
   '20261201150000_create_job_runs': m20261201150000,
   '20261202030000_organisation_scoped_links': m20261202030000,
+  '20261202040000_verdict_rule_fields_and_skipped_stops': m20261202040000,
 };
 
 export const migrationSource: Knex.MigrationSource<string> = {

@@ -1,9 +1,10 @@
 import { randomUUID } from 'node:crypto';
 import type { Knex } from 'knex';
-import type { CreditRule } from '../../shared/calc/rules';
+import type { CreditRule, DecisionBasis } from '../../shared/calc/rules';
+import type { RuleVerdictSettings } from '../../shared/schemas/rules';
 import { inOrganisation, nowIso } from '../platform/scope';
 
-export interface StoredCreditRule extends CreditRule {
+export interface StoredCreditRule extends CreditRule, RuleVerdictSettings {
   id: string;
   version: number;
   effectiveFrom: string;
@@ -25,6 +26,10 @@ const toRule = (r: Row): StoredCreditRule => ({
   eligibleCrops: String(r.eligible_crops).split(',').filter(Boolean),
   creditKgNPerHa: Number(r.credit_kg_n_per_ha),
   maxDaysSampleBeforeTermination: Number(r.max_days_sample_before_termination),
+  decisionBasis: r.decision_basis as DecisionBasis,
+  confidence: Number(r.confidence),
+  minPlants: Number(r.min_plants),
+  edgeMarginM: Number(r.edge_margin_m),
   isDemo: Boolean(r.is_demo),
   notes: (r.notes as string) ?? null,
   createdByName: (r.created_by_name as string) ?? null,
@@ -49,7 +54,7 @@ export async function listRuleVersions(db: Knex, organisationId: string): Promis
 export async function insertRuleVersion(
   db: Knex,
   organisationId: string,
-  rule: CreditRule & { effectiveFrom: string; isDemo?: boolean; notes?: string | null },
+  rule: CreditRule & Partial<RuleVerdictSettings> & { effectiveFrom: string; isDemo?: boolean; notes?: string | null },
   author: { id: string; name: string } | null,
 ): Promise<StoredCreditRule> {
   return db.transaction(async (trx) => {
@@ -67,6 +72,11 @@ export async function insertRuleVersion(
       eligible_crops: rule.eligibleCrops.join(','),
       credit_kg_n_per_ha: rule.creditKgNPerHa,
       max_days_sample_before_termination: rule.maxDaysSampleBeforeTermination,
+      // Left out: the column defaults, how every version before decision bases was judged.
+      ...(rule.decisionBasis !== undefined && { decision_basis: rule.decisionBasis }),
+      ...(rule.confidence !== undefined && { confidence: rule.confidence }),
+      ...(rule.minPlants !== undefined && { min_plants: rule.minPlants }),
+      ...(rule.edgeMarginM !== undefined && { edge_margin_m: rule.edgeMarginM }),
       is_demo: rule.isDemo ?? false,
       notes: rule.notes ?? null,
       created_by: author?.id ?? null,

@@ -3,9 +3,8 @@ import type { AppContext } from '../platform/app-context';
 import { contextOf } from '../platform/context';
 import { can } from '../platform/permissions';
 import { validateBody } from '../platform/validation';
-import { todayIso } from '../../shared/registry/season';
 import { creditRuleInputSchema, type CreditRuleInput } from '../../shared/schemas/rules';
-import { insertRuleVersion, listRuleVersions } from './service';
+import { listRuleVersions, saveRuleVersion } from './service';
 import { currentCreditRule } from './service';
 
 /**
@@ -19,8 +18,7 @@ export function rulesApi(ctx: AppContext): Router {
     res.json(await currentCreditRule(ctx.db, contextOf(req).organisationId));
   });
   router.put('/current', can('rules.manage'), validateBody(creditRuleInputSchema), async (req, res) => {
-    const { effectiveFrom, notes, ...rule } = req.body as CreditRuleInput;
-    await insertRuleVersion(ctx.db, contextOf(req).organisationId, { ...rule, effectiveFrom: effectiveFrom ?? todayIso(), notes }, contextOf(req).user);
+    await saveRuleVersion(ctx.db, contextOf(req).organisationId, req.body as CreditRuleInput, contextOf(req).user);
     res.json(await currentCreditRule(ctx.db, contextOf(req).organisationId));
   });
   router.get('/versions', can('rules.history'), async (req, res) => {

@@ -1,15 +1,22 @@
 import type { Knex } from 'knex';
 import { DEMO_RULE, type CreditRule } from '../../shared/calc/rules';
+import { DEMO_VERDICT_RULE } from '../../shared/calc/verdict';
+import { DEFAULT_EDGE_MARGIN_M } from '../../shared/calc/walk-plan';
 import { todayIso } from '../../shared/registry/season';
-import { ruleInEffect, type StoredCreditRule } from './db';
+import type { CreditRuleInput, RuleVerdictSettings } from '../../shared/schemas/rules';
+import { insertRuleVersion, ruleInEffect, type StoredCreditRule } from './db';
 
-export type RuleInUse = CreditRule & {
-  label: string;
-  id: string | null;
-  version: number | null;
-  effectiveFrom: string | null;
-  isDemo: boolean;
-};
+export type RuleInUse = CreditRule &
+  RuleVerdictSettings & {
+    label: string;
+    id: string | null;
+    version: number | null;
+    effectiveFrom: string | null;
+    isDemo: boolean;
+  };
+
+/** The demo rule's way of judging, used when an organisation has saved no rule version yet. */
+export const DEMO_VERDICT_SETTINGS: Readonly<RuleVerdictSettings> = Object.freeze({ ...DEMO_VERDICT_RULE, edgeMarginM: DEFAULT_EDGE_MARGIN_M });
 
 const describe = (r: StoredCreditRule) =>
   `version ${r.version}, in effect from ${r.effectiveFrom}${r.isDemo ? ' (demo values, not confirmed with the local authority)' : ''}`;
@@ -17,7 +24,16 @@ const describe = (r: StoredCreditRule) =>
 function inUse(stored: StoredCreditRule | undefined): RuleInUse {
   if (!stored) {
     // No version recorded yet: the typical values, plainly marked as unconfirmed.
-    return { ...DEMO_RULE, eligibleCrops: [...DEMO_RULE.eligibleCrops], label: 'typical values; no rule has been set for this organisation', id: null, version: null, effectiveFrom: null, isDemo: true };
+    return {
+      ...DEMO_RULE,
+      ...DEMO_VERDICT_SETTINGS,
+      eligibleCrops: [...DEMO_RULE.eligibleCrops],
+      label: 'typical values; no rule has been set for this organisation',
+      id: null,
+      version: null,
+      effectiveFrom: null,
+      isDemo: true,
+    };
   }
   const { id, version, effectiveFrom, isDemo, notes: _n, createdByName: _c, createdAt: _a, ...rule } = stored;
   return { ...rule, id, version, effectiveFrom, isDemo, label: describe(stored) };
@@ -35,5 +51,29 @@ export async function currentCreditRule(db: Knex, organisationId: string, onDate
 export async function creditRuleForYear(db: Knex, organisationId: string, year: number): Promise<RuleInUse> {
   return inUse(await ruleInEffect(db, organisationId, `${year}-01-01`));
 }
+
+/**
+ * Saves a new rule version. A client that leaves out how walks are judged (an older API client)
+ * keeps the choice of the version in effect, so a threshold change never silently changes the basis.
+ */
+export async function saveRuleVersion(db: Knex, organisationId: string, input: CreditRuleInput, author: { id: string; name: string } | null): Promise<StoredCreditRule> {
+  const { effectiveFrom, notes, decisionBasis, confidence, minPlants, edgeMarginM, ...rule } = input;
+  const current = await currentCreditRule(db, organisationId);
+  return insertRuleVersion(
+    db,
+    organisationId,
+    {
+      ...rule,
+      decisionBasis: decisionBasis ?? current.decisionBasis,
+      confidence: confidence ?? current.confidence,
+      minPlants: minPlants ?? current.minPlants,
+      edgeMarginM: edgeMarginM ?? current.edgeMarginM,
+      effectiveFrom: effectiveFrom ?? todayIso(),
+      notes,
+    },
+    author,
+  );
+}
+
 // Single-query reads and writes the routes and pages use as they are (SQL stays in the db modules).
-export { insertRuleVersion, listRuleVersions } from './db';
+export { listRuleVersions } from './db';

@@ -19,6 +19,12 @@ export const VERDICT_WORDS: Record<Lang, Record<Verdict, string>> = {
   es: { meets: 'Cumple', below: 'No cumple', borderline: 'En el límite' },
 };
 
+/** Short names of the decision bases, for labels beside a verdict. */
+export const DECISION_BASIS_NAMES: Record<Lang, Record<DecisionBasis, string>> = {
+  en: { point: 'point estimate', lower_bound: 'low end of the range', point_with_borderline: 'point estimate, borderline when the range spans the threshold' },
+  es: { point: 'estimación puntual', lower_bound: 'extremo bajo del rango', point_with_borderline: 'estimación puntual, en el límite si el rango cruza el umbral' },
+};
+
 /** Plain words for each decision basis (the rule page shows them; the local authority must agree to the choice). */
 export const DECISION_BASIS_WORDS: Record<Lang, Record<DecisionBasis, string>> = {
   en: {

@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { CROPS, DECISION_BASES } from '../calc/rules';
+import { CROPS, DECISION_BASES, type DecisionBasis } from '../calc/rules';
 import { isoDate } from './dates';
 
 const monthDay = z
@@ -18,7 +18,7 @@ export const creditRuleInputSchema = z.object({
   eligibleCrops: z.array(z.enum(CROPS)).min(1, 'Choose at least one eligible crop.'),
   creditKgNPerHa: z.number({ message: 'Enter the credit as a number.' }).finite().min(0, 'The credit cannot be negative.').max(1000),
   maxDaysSampleBeforeTermination: z.number({ message: 'Enter a whole number of days.' }).int('Enter a whole number of days.').min(0).max(366),
-  /** How the verdict is decided (shared/calc/verdict.ts); point_with_borderline when not given. */
+  /** How the verdict is decided (shared/calc/verdict.ts); the version in effect's choice when not given. */
   decisionBasis: z.enum(DECISION_BASES, { message: 'Choose how the verdict is decided.' }).optional(),
   /** Confidence of the interval or bound the decision uses, as a fraction (0.9 = 90 %). */
   confidence: z
@@ -28,8 +28,43 @@ export const creditRuleInputSchema = z.object({
     .optional(),
   /** Fewer plants than this make a walk borderline at best. */
   minPlants: z.number({ message: 'Enter a whole number of plants.' }).int('Enter a whole number of plants.').min(1, 'At least 1 plant.').max(100, 'At most 100 plants.').optional(),
+  /** Metres the walk plan keeps from every field edge (shared/calc/walk-plan.ts). */
+  edgeMarginM: z
+    .number({ message: 'Enter the edge margin as a number of metres.' })
+    .finite()
+    .min(0, 'The edge margin cannot be negative.')
+    .max(100, 'The edge margin must be at most 100 m.')
+    .optional(),
   /** The day this version starts to apply; today when not given. */
   effectiveFrom: isoDate.optional(),
   notes: z.string().trim().max(2000).nullable().optional(),
 });
 export type CreditRuleInput = z.infer<typeof creditRuleInputSchema>;
+
+/** How the rule judges a walk: stored with every rule version (defaults: shared/calc/verdict.ts DEMO_VERDICT_RULE). */
+export interface RuleVerdictSettings {
+  decisionBasis: DecisionBasis;
+  confidence: number;
+  minPlants: number;
+  edgeMarginM: number;
+}
+
+/** GET /api/rules/current: the rule in effect today (SI units). `id`/`version` are null when no version was saved. */
+export const creditRuleInEffectSchema = z.object({
+  id: z.string().nullable(),
+  version: z.number().nullable(),
+  effectiveFrom: z.string().nullable(),
+  isDemo: z.boolean(),
+  label: z.string(),
+  thresholdKgHa: z.number(),
+  minDaysInWindow: z.number(),
+  window: z.object({ start: z.string(), end: z.string() }),
+  eligibleCrops: z.array(z.string()),
+  creditKgNPerHa: z.number(),
+  maxDaysSampleBeforeTermination: z.number(),
+  decisionBasis: z.enum(DECISION_BASES),
+  confidence: z.number(),
+  minPlants: z.number(),
+  edgeMarginM: z.number(),
+});
+export type CreditRuleInEffect = z.infer<typeof creditRuleInEffectSchema>;
