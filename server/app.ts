@@ -11,7 +11,7 @@ import type { FastReads } from './platform/fast-reads';
 import { ROLE_LABELS } from './platform/roles';
 import { CROP_LABELS } from '../shared/registry/crops';
 import { errorHandler, isApiRequest, notFound } from './platform/errors';
-import { csrfProtection, securityHeaders } from './platform/security';
+import { csrfProtection, noStore, securityHeaders } from './platform/security';
 import { CLIENT_DIST, readOfficeAssets } from './platform/assets';
 import { makeFormatter } from './platform/format';
 import { requestContext } from './platform/context';
@@ -82,6 +82,7 @@ export function createApp(deps: AppDeps): Express {
       }),
     );
   }
+  app.use(noStore);
   app.get('/healthz', (_req, res) => {
     res.json({ ok: true });
   });

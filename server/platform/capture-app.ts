@@ -28,8 +28,7 @@ export function captureApp(vite?: ViteDevServer): Router {
       builtHtml ??= fs.readFileSync(path.join(CLIENT_DIST, 'index.html'), 'utf8');
       html = builtHtml;
     }
-    res.setHeader('Cache-Control', 'no-cache');
-    res.type('html').send(html);
+    res.type('html').send(html); // no-store, as every signed-in answer (server/platform/security.ts)
   };
 
   const serviceWorker = (_req: Request, res: Response) => {

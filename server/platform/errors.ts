@@ -1,6 +1,7 @@
 import type { ErrorRequestHandler, Request } from 'express';
 import { ZodError } from 'zod';
 import type { Logger } from 'pino';
+import { makeFormatter } from './format';
 
 /** Stable error codes of the JSON API (README, "API"); tests assert these, not the wording. */
 export type ErrorCode =
@@ -119,6 +120,17 @@ export function errorHandler(logger: Logger): ErrorRequestHandler {
       code: httpError.code,
       message: httpError.message,
     };
+    // The page's usual locals are set by middleware that may not have run (a body too large is
+    // refused before the session is read): fill in whatever is missing so the page always renders.
+    const context = req.context;
+    const pageDefaults: Record<string, unknown> = {
+      user: context?.user ?? null,
+      currentPath: req.path,
+      fmt: makeFormatter(context?.units ?? 'us', false),
+      csrfToken: '',
+      flash: null,
+    };
+    for (const [key, value] of Object.entries(pageDefaults)) if (res.locals[key] === undefined) res.locals[key] = value;
     res.render('error', locals, (renderErr, html) => {
       if (renderErr) {
         // Never show a stack trace: fall back to plain words.

@@ -1,6 +1,7 @@
 import helmet from 'helmet';
 import lusca from 'lusca';
 import type { RequestHandler } from 'express';
+import { HttpError } from './errors';
 
 /**
  * Security headers. The content security policy allows only the app's own scripts, styles, fonts
@@ -66,6 +67,11 @@ export function csrfProtection(): RequestHandler {
     // Reads of the JSON API need no token and render no form: skip lusca's per-request token
     // work (GET /api/session still gets one: it hands the token to the client).
     if (SAFE.has(req.method) && req.path.startsWith('/api/') && req.path !== '/api/session') return next();
+    // A signed-out client's write is told to sign in (401) rather than that its token is missing:
+    // it has no session a token could belong to. Sign-in and sign-out themselves stay open.
+    if (!SAFE.has(req.method) && req.path.startsWith('/api/') && !req.user && !(req.path === '/api/session' && (req.method === 'POST' || req.method === 'DELETE'))) {
+      return next(new HttpError('unauthenticated'));
+    }
     if (req.method === 'POST' && req.path === '/api/session' && req.is('application/json')) {
       // Let lusca treat it as a safe read, so req.csrfToken() still hands out a token.
       const asRead = Object.create(req, { method: { value: 'GET' } });
@@ -77,3 +83,13 @@ export function csrfProtection(): RequestHandler {
     return check(req, res, next);
   };
 }
+
+/**
+ * Every answer of the app itself (pages, JSON, CSV, PDF, photos) is kept out of the browser's and
+ * any proxy's cache: on a shared office computer nothing may be read back after sign-out. Only the
+ * built assets under /static, mounted before this, are cached (they hold no data).
+ */
+export const noStore: RequestHandler = (_req, res, next) => {
+  res.setHeader('Cache-Control', 'no-store');
+  next();
+};

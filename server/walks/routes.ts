@@ -90,7 +90,7 @@ export function walksApi(ctx: AppContext): Router {
     const file = await service.photoFile(ctx.db, ctx.config.UPLOADS_DIR, contextOf(req), req.params.id, req.params.photoId);
     const stat = await fs.stat(file.path).catch(() => null);
     if (!stat?.isFile()) throw new HttpError('not_found');
-    res.set({ 'Content-Type': file.contentType, 'Content-Length': String(stat.size), 'Cache-Control': 'private, max-age=86400' });
+    res.set({ 'Content-Type': file.contentType, 'Content-Length': String(stat.size), 'Cache-Control': 'no-store' });
     // A phone that goes away mid-download is no server error; a failure before the first byte is.
     await pipeline(createReadStream(file.path), res).catch((err) => {
       if (!res.headersSent) throw err;

@@ -98,7 +98,7 @@ describe('GET /api/calibrations/:id', () => {
 describe('POST /api/calibrations/fit and /compare', () => {
   it('401, 403 for sampler and auditor, 403 csrf without the token', async () => {
     const body = { points: ryePoints(), model: 'power' };
-    expect((await request(t.app).post('/api/calibrations/fit').send(body)).status).toBe(403); // no session, no CSRF token
+    expect((await request(t.app).post('/api/calibrations/fit').send(body)).status).toBe(401); // signed out: told to sign in before any token check
     for (const email of ['sampler@crowntip.test', 'auditor@crowntip.test']) {
       const { agent, csrf } = await as(email);
       const res = await agent.post('/api/calibrations/fit').set('X-CSRF-Token', csrf).send(body);
@@ -242,7 +242,7 @@ describe('publish and retire', () => {
     const clerk = await as('clerk@crowntip.test');
     expect((await clerk.agent.post(`/api/calibrations/${BARLEY_DRAFT}/publish`).set('X-CSRF-Token', clerk.csrf).send({ model: 'power', label: 'x' })).status).toBe(403);
     expect((await clerk.agent.post(`/api/calibrations/${TRITICALE}/retire`).set('X-CSRF-Token', clerk.csrf)).status).toBe(403);
-    expect((await request(t.app).post(`/api/calibrations/${TRITICALE}/retire`)).status).toBe(403); // signed out: no CSRF token
+    expect((await request(t.app).post(`/api/calibrations/${TRITICALE}/retire`)).status).toBe(401); // signed out: told to sign in before any token check
   });
 
   it('version numbers count per crop, variety and region; a correction is a new version', async () => {

@@ -447,7 +447,7 @@ describe('photos', () => {
       });
       expect(res.status, email).toBe(200);
       expect(res.headers['content-type']).toBe('image/jpeg');
-      expect(res.headers['cache-control']).toMatch(/^private/);
+      expect(res.headers['cache-control']).toBe('no-store'); // never kept in a shared browser's cache (README, Security)
       expect((res.body as Buffer).equals(TINY_JPEG)).toBe(true);
     }
     expectError(await (await as('admin@quillwater.test')).agent.get(photo.url), 404, 'not_found');
