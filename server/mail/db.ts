@@ -1,6 +1,7 @@
 import { randomUUID } from 'node:crypto';
 import type { Knex } from 'knex';
 import { inOrganisation, nowIso } from '../platform/scope';
+import { jsonValue } from '../platform/json-column';
 
 export interface OutboxMessage {
   id: string;
@@ -22,7 +23,7 @@ interface OutboxRow {
   text_body: string;
   html_body: string | null;
   raw: string | null;
-  attachments: string | null;
+  attachments: string | OutboxMessage['attachments'] | null;
   status: OutboxMessage['status'];
   error: string | null;
   created_at: string;
@@ -35,7 +36,7 @@ const toMessage = (r: OutboxRow): OutboxMessage => ({
   text: r.text_body,
   html: r.html_body,
   raw: r.raw,
-  attachments: r.attachments ? JSON.parse(r.attachments) : [],
+  attachments: jsonValue<OutboxMessage['attachments']>(r.attachments) ?? [],
   status: r.status,
   error: r.error,
   createdAt: r.created_at,

@@ -1,9 +1,9 @@
-// `npm run migrate`: applies pending migrations to DATABASE_FILE without starting the server.
+// `npm run migrate`: applies pending migrations to DATABASE_URL (or DATABASE_FILE) without starting the server.
 import { loadConfig } from './config';
-import { migrateLatest, openDatabase } from './database';
+import { migrateLatest, openConfiguredDatabase } from './database';
 
 const config = loadConfig();
-const db = openDatabase(config.DATABASE_FILE);
+const db = openConfiguredDatabase(config);
 const applied = await migrateLatest(db);
 console.log(applied.length ? `Applied: ${applied.join(', ')}` : 'The database is up to date.');
 await db.destroy();

@@ -1,13 +1,13 @@
 // `npm run remind`: e-mails today's sampling reminders now (also when the daily job already ran).
 import { pino } from 'pino';
 import { loadConfig } from '../platform/config';
-import { migrateLatest, openDatabase } from '../platform/database';
+import { migrateLatest, openConfiguredDatabase } from '../platform/database';
 import { createMailer } from '../mail/public';
 import { runReminderJob } from './daily';
 
 const config = loadConfig();
 const logger = pino({ level: config.LOG_LEVEL });
-const db = openDatabase(config.DATABASE_FILE);
+const db = openConfiguredDatabase(config);
 await migrateLatest(db);
 const mailer = createMailer(db, { smtpUrl: config.SMTP_URL, from: config.MAIL_FROM, logger });
 const result = await runReminderJob(
