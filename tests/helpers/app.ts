@@ -1,10 +1,12 @@
 import request from 'supertest';
+import { inject } from 'vitest';
 import type { Express } from 'express';
 import type { Knex } from 'knex';
 import { loadConfig, type Config } from '../../server/platform/config';
 import { createApp } from '../../server/app';
 import { openDatabase, migrateLatest } from '../../server/platform/database';
 import { seedDemoScenario } from '../../seeds/01_demo_scenario';
+import { createThrowawayDatabase, dropDatabase } from './postgres';
 
 export const DEMO_PASSWORD = 'test-demo-password';
 
@@ -12,17 +14,73 @@ export interface TestApp {
   app: Express;
   db: Knex;
   config: Config;
+  /** Where the database lives: ':memory:' on SQLite, its postgres:// address on PostgreSQL. */
+  target: string;
   close: () => Promise<void>;
 }
 
-/** A fresh app on its own in-memory database, migrated and loaded with the demo scenario. */
-export async function createTestApp(overrides: Partial<Config> = {}, { seed = true } = {}): Promise<TestApp> {
-  const config = loadConfig({ NODE_ENV: 'test', PUBLIC_URL: 'http://crowntip.test:3000' }, { BCRYPT_ROUNDS: 4, ...overrides });
-  const db = openDatabase(':memory:');
+/** Which engine the server tests run on: the postgres project (vitest.config.ts) provides one. */
+export const testEngine = (): 'sqlite' | 'postgres' => (inject('postgres') ? 'postgres' : 'sqlite');
+
+/** Migrates a fresh database and, with `seed`, loads the demo scenario as every test expects it. */
+export async function prepareTestDatabase(db: Knex, seed: boolean): Promise<void> {
   await migrateLatest(db);
   if (seed) await seedDemoScenario(db, { password: DEMO_PASSWORD, bcryptRounds: 4 });
-  const app = createApp({ config, db, sessionSecret: 'test-secret-test-secret-test-secret' });
-  return { app, db, config, close: () => db.destroy() };
+}
+
+/** Waits (up to 2 s) for writes a response did not wait for (a session save, a sign-in time) to finish. */
+export async function settled(db: Knex): Promise<void> {
+  const pool = (db.client as { pool?: { numUsed(): number; numPendingAcquires(): number; numPendingCreates(): number } }).pool;
+  for (let i = 0; pool && i < 200 && pool.numUsed() + pool.numPendingAcquires() + pool.numPendingCreates() > 0; i++) {
+    await new Promise((r) => setTimeout(r, 10));
+  }
+}
+
+export const TEST_SESSION_SECRET = 'test-secret-test-secret-test-secret';
+
+// One database copied ahead per template, so that a test does not wait for the copy (~0.2 s).
+const spare = new Map<string, Promise<{ name: string; url: string }>>();
+function takeDatabase(run: { adminUrl: string; prefix: string }, template: string) {
+  const next = spare.get(template) ?? createThrowawayDatabase(run.adminUrl, run.prefix, template);
+  const ahead = createThrowawayDatabase(run.adminUrl, run.prefix, template);
+  ahead.catch(() => {}); // a failure shows when it is taken
+  spare.set(template, ahead);
+  return next;
+}
+
+/**
+ * A fresh app on its own database, migrated and loaded with the demo scenario: in memory on
+ * SQLite; in the postgres project, a throwaway PostgreSQL database copied from the run's template
+ * and dropped by close().
+ */
+export async function createTestApp(overrides: Partial<Config> = {}, { seed = true } = {}): Promise<TestApp> {
+  const config = loadConfig({ NODE_ENV: 'test', PUBLIC_URL: 'http://crowntip.test:3000' }, { BCRYPT_ROUNDS: 4, ...overrides });
+  const pgRun = inject('postgres');
+  let db: Knex;
+  let target = ':memory:';
+  let drop = async () => {};
+  if (pgRun) {
+    const made = await takeDatabase(pgRun, seed ? pgRun.seededTemplate : pgRun.emptyTemplate);
+    target = made.url;
+    db = openDatabase(made.url, { poolMax: 4 });
+    // Not awaited: the next test need not wait for it; the run's teardown drops any left behind.
+    drop = async () => void dropDatabase(pgRun.adminUrl, made.name).catch(() => {});
+  } else {
+    db = openDatabase(':memory:');
+    await prepareTestDatabase(db, seed);
+  }
+  const app = createApp({ config, db, sessionSecret: TEST_SESSION_SECRET });
+  return {
+    app,
+    db,
+    config,
+    target,
+    close: async () => {
+      await settled(db);
+      await db.destroy();
+      await drop();
+    },
+  };
 }
 
 /** A signed-in API client: its cookie jar and the CSRF token to send with every change. */

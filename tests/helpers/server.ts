@@ -3,11 +3,15 @@ import fs from 'node:fs';
 import net from 'node:net';
 import os from 'node:os';
 import path from 'node:path';
+import { inject } from 'vitest';
+import { createThrowawayDatabase, dropDatabase } from './postgres';
 
 export interface RunningServer {
   url: string;
   dataDir: string;
   output: () => string;
+  /** Sends a signal; resolves with the exit code once the process has ended. */
+  signal: (sig: NodeJS.Signals) => Promise<number | null>;
   stop: () => Promise<void>;
 }
 
@@ -24,11 +28,14 @@ async function freePort(): Promise<number> {
 
 /**
  * Starts the real server (`server/main.ts`, as `npm start` does) on a free port with its own
- * database in a temporary folder, and waits until it says it is running.
+ * database in a temporary folder (in the postgres project: its own throwaway PostgreSQL database,
+ * migrated and seeded by the server itself), and waits until it says it is running.
  */
 export async function startServer(env: Record<string, string> = {}): Promise<RunningServer> {
   const port = await freePort();
   const dataDir = fs.mkdtempSync(path.join(os.tmpdir(), 'crowntip-test-'));
+  const pgRun = inject('postgres');
+  const pgDb = pgRun ? await createThrowawayDatabase(pgRun.adminUrl, pgRun.prefix) : undefined;
   const child: ChildProcess = spawn(process.execPath, ['--import', 'tsx', 'server/main.ts'], {
     cwd: process.cwd(),
     env: {
@@ -44,10 +51,12 @@ export async function startServer(env: Record<string, string> = {}): Promise<Run
       SEED_DEMO_HISTORY: 'false',
       DAILY_JOBS: 'false',
       LOG_LEVEL: 'warn',
+      ...(pgDb ? { DATABASE_URL: pgDb.url } : {}),
       ...env,
     },
     stdio: ['ignore', 'pipe', 'pipe'],
   });
+  const exited = new Promise<number | null>((r) => child.once('exit', (code) => r(code)));
   let out = '';
   child.stdout!.on('data', (d) => (out += d));
   child.stderr!.on('data', (d) => (out += d));
@@ -69,13 +78,17 @@ export async function startServer(env: Record<string, string> = {}): Promise<Run
     url: `http://127.0.0.1:${port}`,
     dataDir,
     output: () => out,
+    signal: (sig) => {
+      if (child.exitCode === null) child.kill(sig);
+      return exited;
+    },
     stop: async () => {
-      if (child.exitCode === null) {
-        const exited = new Promise((r) => child.once('exit', r));
+      if (child.exitCode === null && child.signalCode === null) {
         child.kill('SIGTERM');
         await exited;
       }
       fs.rmSync(dataDir, { recursive: true, force: true });
+      if (pgRun && pgDb) await dropDatabase(pgRun.adminUrl, pgDb.name);
     },
   };
 }

@@ -7,6 +7,7 @@ import { extractText, getDocumentProxy } from 'unpdf';
 import { createTestApp, csrfFromHtml, signInApi, signInPages, type TestApp } from '../../helpers/app';
 import { ORG, OTHER_ORG, YEAR, buildHandWorkedScenario, insertField, insertRanch } from '../../helpers/register-scenario';
 import { HttpError } from '../../../server/platform/errors';
+import { jsonValue } from '../../../server/platform/json-column';
 import { computeRegister, finaliseRegister, canonicalJson, seasonOfYear, reportingYearOf } from '../../../server/registers/service';
 import { diffRegisters } from '../../../server/registers/diff';
 import { organisationSummary } from '../../../server/registers/summary';
@@ -268,7 +269,7 @@ describe('finalise, immutability and amendments (API)', () => {
     expect(rows).toHaveLength(1);
     // The unique index is the last line of defence (several servers on one database) …
     const dup = { ...rows[0], id: '00000000-0000-4000-8000-0000000000aa' };
-    await expect(t.db('registers').insert(dup)).rejects.toThrow(/UNIQUE/);
+    await expect(t.db('registers').insert(dup)).rejects.toThrow(/UNIQUE|duplicate key/); // SQLite's words, PostgreSQL's
     // … and a violation reaching the service becomes 409 conflict.
     const racing = { transaction: async () => Promise.reject(Object.assign(new Error('UNIQUE constraint failed: registers.organisation_id'), { code: 'SQLITE_CONSTRAINT_UNIQUE' })) };
     const err = await finaliseRegister(racing as unknown as Knex, ORG, s.ranchId, YEAR, { id: 'u', name: 'U' }, TODAY).catch((e) => e);
@@ -487,7 +488,7 @@ describe('office pages', () => {
     expect(mail).toBeTruthy();
     expect(mail.organisation_id).toBe(ORG);
     expect(mail.subject).toBe('Credit register 2025: Hand-Worked Ranch (version 1)');
-    const [attachment] = JSON.parse(mail.attachments);
+    const [attachment] = jsonValue<{ filename: string; contentType: string; size: number }[]>(mail.attachments)!;
     expect(attachment.filename).toBe('crowntip-register-hand-worked-ranch-2025-v1.pdf');
     expect(attachment.contentType).toBe('application/pdf');
     expect(attachment.size).toBeGreaterThan(1000);
