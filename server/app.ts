@@ -16,6 +16,7 @@ import { CLIENT_DIST, readOfficeAssets } from './platform/assets';
 import { makeFormatter } from './platform/format';
 import { requestContext } from './platform/context';
 import { captureApp } from './platform/capture-app';
+import { healthRoutes, type Lifecycle } from './platform/health';
 import * as people from './people';
 import * as mail from './mail';
 import * as registry from './registry';
@@ -35,6 +36,8 @@ export interface AppDeps {
   fastReads?: FastReads;
   /** The secret that signs session cookies. */
   sessionSecret: string;
+  /** Flipped by the shutdown in server/main.ts so that /readyz turns 503 while requests drain. */
+  lifecycle?: Lifecycle;
 }
 
 /** Builds the whole app; only server/main.ts listens, so tests build it on a fresh database each. */
@@ -77,15 +80,13 @@ export function createApp(deps: AppDeps): Express {
     app.use(
       pinoHttp({
         logger,
-        autoLogging: { ignore: (req) => req.url === '/healthz' },
+        autoLogging: { ignore: (req) => req.url === '/healthz' || req.url === '/readyz' },
         quietReqLogger: true,
       }),
     );
   }
   app.use(noStore);
-  app.get('/healthz', (_req, res) => {
-    res.json({ ok: true });
-  });
+  app.use(healthRoutes({ db, uploadsDir: config.UPLOADS_DIR, lifecycle: deps.lifecycle ?? { draining: false } }));
 
   // Reads carry no body: skip the parsers' content-type checks for them.
   const json = express.json({ limit: '1mb' });

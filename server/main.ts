@@ -3,7 +3,8 @@ import path from 'node:path';
 import { randomBytes } from 'node:crypto';
 import { pino } from 'pino';
 import { loadConfig, type Config } from './platform/config';
-import { openDatabase, migrateLatest } from './platform/database';
+import { openConfiguredDatabase, migrateLatest, waitForDatabase, databaseTarget, describeTarget, isPostgres } from './platform/database';
+import { shutDown, type Lifecycle } from './platform/health';
 import { countOrganisations } from './platform/organisations-db';
 import { createApp } from './app';
 import { openFastReads } from './platform/fast-reads';
@@ -29,7 +30,12 @@ async function main() {
   const logger = pino({ level: config.LOG_LEVEL });
   fs.mkdirSync(path.resolve(config.UPLOADS_DIR), { recursive: true });
 
-  const db = openDatabase(config.DATABASE_FILE);
+  const target = databaseTarget(config);
+  const db = openConfiguredDatabase(config);
+  await waitForDatabase(db, target, {
+    timeoutMs: config.DATABASE_WAIT_SECONDS * 1000,
+    onRetry: (message) => logger.warn(message),
+  });
   const applied = await migrateLatest(db);
   if (applied.length) logger.info({ applied }, 'database migrated');
 
@@ -50,14 +56,19 @@ async function main() {
   }
 
   const mailer = createMailer(db, { smtpUrl: config.SMTP_URL, from: config.MAIL_FROM, logger });
-  const fastReads = openFastReads(config.DATABASE_FILE);
-  const app = createApp({ config, db, logger, mailer, vite, fastReads, sessionSecret: sessionSecret(config) });
-  if (config.DAILY_JOBS) scheduleDailyJobs({ db, mailer, logger, publicUrl: config.PUBLIC_URL, daysAhead: config.REMIND_DAYS_AHEAD });
+  // The prepared-statement reads open the SQLite file a second time; PostgreSQL has no such file.
+  const fastReads = isPostgres(db) ? undefined : openFastReads(config.DATABASE_FILE);
+  const lifecycle: Lifecycle = { draining: false };
+  const app = createApp({ config, db, logger, mailer, vite, fastReads, lifecycle, sessionSecret: sessionSecret(config) });
+  const stopDailyJobs = config.DAILY_JOBS
+    ? scheduleDailyJobs({ db, mailer, logger, publicUrl: config.PUBLIC_URL, daysAhead: config.REMIND_DAYS_AHEAD })
+    : () => {};
   const server = app.listen(config.PORT, config.HOST, () => {
     const url = config.PUBLIC_URL;
     const lines = [
       '',
       `Crowntip is running at ${url}`,
+      `Database: ${describeTarget(target)}`,
       seeded ? 'The invented demo scenario was loaded into the new database.' : '',
       config.SEED_DEMO
         ? `Demo sign-ins (password "${config.DEMO_PASSWORD}"):\n${DEMO_USERS.map((u) => `  ${u.role.padEnd(8)} ${u.email}`).join('\n')}`
@@ -67,12 +78,33 @@ async function main() {
     console.log(lines.join('\n'));
   });
 
-  const stop = () => {
-    server.close(() => void db.destroy().then(() => process.exit(0)));
-    setTimeout(() => process.exit(0), 5000).unref();
+  // On SIGTERM (a deploy, a scale-down): stop taking requests, let those in flight finish, close
+  // the pool, exit. A second signal exits at once.
+  let stopping = false;
+  const stop = (signal: string) => {
+    if (stopping) process.exit(1);
+    stopping = true;
+    logger.info({ signal }, 'shutting down: finishing requests in flight');
+    stopDailyJobs();
+    void shutDown(server, {
+      lifecycle,
+      graceMs: config.SHUTDOWN_GRACE_SECONDS * 1000,
+      release: async () => {
+        fastReads?.close();
+        await db.destroy();
+      },
+    })
+      .then((outcome) => {
+        console.log(outcome === 'drained' ? 'Crowntip stopped: every request finished.' : 'Crowntip stopped: requests still running were cut off.');
+        process.exit(0);
+      })
+      .catch((err) => {
+        console.error(err);
+        process.exit(1);
+      });
   };
-  process.on('SIGINT', stop);
-  process.on('SIGTERM', stop);
+  process.on('SIGINT', () => stop('SIGINT'));
+  process.on('SIGTERM', () => stop('SIGTERM'));
 }
 
 main().catch((err) => {
