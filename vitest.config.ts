@@ -23,7 +23,9 @@ async function postgresUnavailable(url: string | undefined): Promise<string | nu
 
 async function postgresProject() {
   const why = await postgresUnavailable(process.env.TEST_DATABASE_URL);
-  const filtered = process.argv.some((a) => a.startsWith('--project')) && !process.argv.some((a) => a.includes('postgres'));
+  // Quiet when only other projects were asked for (`--project unit`).
+  const asked = process.argv.flatMap((a, i) => (a === '--project' ? [process.argv[i + 1]] : a.startsWith('--project=') ? [a.slice(10)] : []));
+  const filtered = asked.length > 0 && !asked.includes('postgres');
   if (why) {
     if (!filtered) console.log(`PostgreSQL tests skipped: ${why}.`);
     return [];
