@@ -39,6 +39,8 @@ export const walkCreateSchema = z.object({
     .refine((plants) => new Set(plants.map((p) => p.stop)).size === plants.length, 'Each stop appears once.'),
   /** Stops the sampler chose to skip (no plant measured there); optional, older phones leave it out. */
   skippedStops: z.array(z.number().int().min(1).max(MAX_PLANTS)).max(MAX_PLANTS).optional(),
+  /** The seed the walk plan drew its stops from (shared/calc/walk-plan.ts), so the office can redraw them. */
+  planSeed: z.string().min(1).max(64).optional(),
 });
 export type WalkCreate = z.infer<typeof walkCreateSchema>;
 

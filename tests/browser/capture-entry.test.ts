@@ -72,8 +72,10 @@ describe('/capture entry screen', () => {
     await page.getByRole('heading', { name: /Walk sent/ }).waitFor({ timeout: 30_000 });
 
     expect(posted).toHaveLength(1);
-    const body = posted[0] as { skippedStops?: number[]; plants: Array<{ stop: number }> };
+    const body = posted[0] as { skippedStops?: number[]; plants: Array<{ stop: number }>; planSeed?: string };
     expect(body.skippedStops).toEqual([1]);
+    // The seed the plan drew its stops from goes with the walk (shared/calc/walk-plan.ts, newWalkSeed: 12 base-36 characters).
+    expect(body.planSeed).toMatch(/^[0-9a-z]{12}$/);
     expect(body.plants.map((p) => p.stop)).toEqual([2, 3, 4, 5, 6, 7, 8, 9, 10]);
     expect(errors).toEqual([]);
     await page.close();

@@ -66,4 +66,58 @@ describe('/capture walk plan', () => {
     expect(await page.getByText(/from this field/).count()).toBe(0);
     await page.close();
   });
+
+  it('says the pattern and the margin, reaches stop 1 from the start of the line, re-draws until the first plant (English and Spanish)', async () => {
+    const { context } = suite.browser;
+    await context.clearPermissions();
+    const page = await context.newPage();
+    await page.goto(`${suite.server.url}/capture`);
+    await page.getByRole('link', { name: 'Open the walk plan for Bench 2' }).click();
+    await page.getByRole('heading', { name: 'Bench 2', level: 1 }).waitFor();
+    // Bench 2 is a skewed quadrilateral (convex): one line. 10 m = 32.8 ft → "33 ft".
+    await page.getByText(/^One straight line, the longest that fits inside the margin/).waitFor();
+    await page.getByText('Every stop is at least 33 ft from every edge.').waitFor();
+    await page.getByText(/[\d,]+ paces \([\d,]+ ft\) from the start of the line$/).waitFor();
+    expect(await page.getByText('Start here').count()).toBe(0);
+    await screenshot(page, 'capture-plan-en');
+
+    const stopOne = () => page.getByRole('img', { name: /Field outline/ }).locator('circle').first().evaluate((c) => [c.getAttribute('cx'), c.getAttribute('cy')].join(','));
+    const before = await stopOne();
+    await page.getByRole('button', { name: 'Re-draw stops' }).click();
+    await page.getByText('New stop positions drawn.').waitFor();
+    await expect.poll(stopOne).not.toBe(before);
+    const drawn = await stopOne();
+    // Kept for this planting: opening the plan again shows the same stops.
+    await page.reload();
+    await page.getByRole('heading', { name: 'Bench 2', level: 1 }).waitFor();
+    expect(await stopOne()).toBe(drawn);
+
+    // Started, still no plant: re-draw stays; after the first plant it is gone.
+    await page.getByRole('button', { name: 'Start the walk' }).click();
+    await page.getByRole('heading', { name: 'Stop 1 of 10' }).waitFor();
+    await page.getByRole('link', { name: /Plan/ }).first().click();
+    await page.getByRole('button', { name: 'Re-draw stops' }).waitFor();
+    expect(await stopOne()).toBe(drawn);
+    await page.getByRole('button', { name: 'Continue the walk' }).click();
+    await page.getByLabel(/Main shoot length/).fill('30');
+    await page.getByRole('button', { name: /Next/ }).click();
+    await page.getByRole('heading', { name: 'Stop 2 of 10' }).waitFor();
+    await page.getByRole('link', { name: /Plan/ }).first().click();
+    await page.getByRole('button', { name: 'Continue the walk' }).waitFor();
+    expect(await page.getByRole('button', { name: 'Re-draw stops' }).count()).toBe(0);
+    expect(await stopOne()).toBe(drawn);
+
+    await page.goto(`${suite.server.url}/capture`);
+    await page.getByRole('button', { name: 'Language: Español' }).click();
+    await page.getByRole('link', { name: 'Abrir el plan de recorrido de Bench 1' }).click();
+    await page.getByText(/^Una sola línea recta, la más larga que cabe dentro del margen/).waitFor();
+    await page.getByText('Cada parada queda al menos a 33 pies de toda orilla.').waitFor();
+    await page.getByText(/[\d,]+ pasos \([\d,]+ pies\) desde el inicio de la línea$/).waitFor();
+    await page.getByRole('button', { name: 'Volver a sortear las paradas' }).waitFor();
+    await screenshot(page, 'capture-plan-es');
+    await page.goto(`${suite.server.url}/capture`);
+    await page.getByRole('button', { name: 'English', exact: true }).click();
+    await page.getByRole('heading', { name: "Today's walks" }).waitFor();
+    await page.close();
+  });
 });

@@ -40,6 +40,8 @@ export interface WalkDraft {
   photos: Record<number, { key: string; size: number; type: string }>;
   stage: string | null;
   notes: string;
+  /** The walk plan's seed: the same seed draws the same stops (absent in drafts from older versions). */
+  planSeed?: string;
 }
 
 export const DEFAULT_STOPS = 10;
@@ -51,6 +53,9 @@ export function newDraft(input: {
   unit: LengthUnit;
   walkedOn: string;
   now: number;
+  /** The rule's minimum plants; DEFAULT_STOPS when not given. */
+  stopCount?: number;
+  planSeed?: string;
 }): WalkDraft {
   return {
     v: 1,
@@ -61,7 +66,7 @@ export function newDraft(input: {
     walkedOn: input.walkedOn,
     startedAt: input.now,
     updatedAt: input.now,
-    stopCount: DEFAULT_STOPS,
+    stopCount: input.stopCount ?? DEFAULT_STOPS,
     current: 1,
     values: {},
     confirmed: {},
@@ -69,6 +74,7 @@ export function newDraft(input: {
     photos: {},
     stage: null,
     notes: '',
+    ...(input.planSeed ? { planSeed: input.planSeed } : {}),
   };
 }
 

@@ -1,45 +1,36 @@
-import { area } from '@turf/area';
 import { booleanPointInPolygon } from '@turf/boolean-point-in-polygon';
 import { distance } from '@turf/distance';
-import type { Polygon } from 'geojson';
+import type { MultiPolygon, Polygon } from 'geojson';
 import type { Boundary } from '../../../shared/registry/boundary';
 import { walkPlan, type WalkPlan } from '../../../shared/calc/walk-plan';
 
 export interface PlanResult {
   plan: WalkPlan;
-  /** The polygon walked (the largest part of a MultiPolygon), or null when planned from the area. */
-  polygon: Polygon | null;
-  /** The boundary on file could not be walked straight, so the area was used. */
+  /** The outline walked (every part of a multi-part field), or null when planned from the area. */
+  shape: Polygon | MultiPolygon | null;
+  /** The boundary on file could not be walked, so the area was used. */
   boundaryProblem: boolean;
 }
 
-/** walkPlan takes one Polygon: for a field in several parts, walk the largest. */
-export function walkedPolygon(boundary: Boundary | null): Polygon | null {
-  if (!boundary) return null;
-  if (boundary.type === 'Polygon') return boundary;
-  let best: Polygon | null = null;
-  let bestArea = -1;
-  for (const coordinates of boundary.coordinates) {
-    const p: Polygon = { type: 'Polygon', coordinates };
-    const a = area(p);
-    if (a > bestArea) {
-      best = p;
-      bestArea = a;
-    }
-  }
-  return best;
-}
-
-export function planField(boundary: Boundary | null, areaHa: number, stops: number): PlanResult {
-  const polygon = walkedPolygon(boundary);
-  if (polygon) {
+/**
+ * The walk plan of a field: every part of its outline, stops at least the rule's edge margin from
+ * every edge, drawn from `seed` (kept with the walk) so the same seed gives the same stops.
+ */
+export function planField(
+  boundary: Boundary | null,
+  areaHa: number,
+  stops: number,
+  options: { edgeMarginM: number; seed?: string },
+): PlanResult {
+  const opts = { stops, areaHa, edgeMarginM: options.edgeMarginM, ...(options.seed ? { seed: options.seed } : {}) };
+  if (boundary) {
     try {
-      return { plan: walkPlan(polygon, { stops, areaHa }), polygon, boundaryProblem: false };
+      return { plan: walkPlan(boundary, opts), shape: boundary, boundaryProblem: false };
     } catch {
-      // a self-crossing or degenerate outline: fall back to the area below
+      // a degenerate outline: fall back to the area below
     }
   }
-  return { plan: walkPlan(null, { stops, areaHa }), polygon: null, boundaryProblem: polygon !== null };
+  return { plan: walkPlan(null, opts), shape: null, boundaryProblem: boundary !== null };
 }
 
 /** Great-circle distance in metres between two positions (turf: haversine on the mean Earth radius). */
@@ -57,9 +48,10 @@ export const FAR_FROM_FIELD_M = 400;
  */
 export function distanceToFieldM(result: PlanResult, here: { lat: number; lon: number }): number | null {
   const points: Array<[number, number]> = [];
-  if (result.polygon) {
-    if (booleanPointInPolygon([here.lon, here.lat], result.polygon)) return 0;
-    for (const [lon, lat] of result.polygon.coordinates[0]) points.push([lon, lat]);
+  if (result.shape) {
+    if (booleanPointInPolygon([here.lon, here.lat], result.shape)) return 0;
+    const parts = result.shape.type === 'Polygon' ? [result.shape.coordinates] : result.shape.coordinates;
+    for (const part of parts) for (const [lon, lat] of part[0]) points.push([lon, lat]);
   }
   for (const s of result.plan.stops) if (s.lat !== null && s.lng !== null) points.push([s.lng, s.lat]);
   if (points.length === 0) return null;

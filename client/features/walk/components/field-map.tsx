@@ -18,33 +18,47 @@ export function FieldMap(props: {
   here: { lat: number; lon: number } | null;
 }) {
   const { t } = useTranslation();
-  const { plan, polygon } = props.result;
+  const { plan, shape } = props.result;
 
   let paths: string[];
   let project: (lon: number, lat: number) => [number, number];
   let points: Array<[number, number]>;
-  let line: [[number, number], [number, number]];
+  // The sampling lines (one per leg), and the crossings between them that stay inside the margin.
+  let legs: Array<[[number, number], [number, number]]>;
+  let crossings: Array<[[number, number], [number, number]]> = [];
 
-  if (polygon && props.boundary && plan.start && plan.end) {
+  if (shape && props.boundary && plan.legs.every((g) => g.start && g.end)) {
     const outline = boundaryOutline(props.boundary, { width: W, height: H, margin: MARGIN });
     paths = outline.paths;
     project = outline.project;
     points = plan.stops.map((s) => project(s.lng ?? 0, s.lat ?? 0));
-    line = [project(plan.start[0], plan.start[1]), project(plan.end[0], plan.end[1])];
+    legs = plan.legs.map((g) => [project(g.start![0], g.start![1]), project(g.end![0], g.end![1])]);
+    crossings = plan.legs.flatMap((g, i) =>
+      i > 0 && g.transferInside && g.transferM > 0
+        ? [[project(plan.legs[i - 1].end![0], plan.legs[i - 1].end![1]), project(g.start![0], g.start![1])] as [[number, number], [number, number]]]
+        : [],
+    );
   } else {
-    // Schematic square: corner to corner, stops at their share of the diagonal.
+    // Schematic square of the field's area: the line runs corner to corner, the margin in from each corner.
     const side = Math.min(W, H) - 2 * MARGIN;
     const x0 = (W - side) / 2;
     const y0 = (H - side) / 2;
     paths = [`M${x0} ${y0} H${x0 + side} V${y0 + side} H${x0} Z`];
+    const diagonal = Math.SQRT2 * Math.sqrt(plan.areaHa * 10_000);
+    const inset = Math.SQRT2 * plan.edgeMarginM;
     const at = (d: number): [number, number] => {
-      const f = d / plan.diagonalM;
+      const f = (inset + d) / diagonal;
       return [x0 + f * side, y0 + side - f * side];
     };
-    points = plan.stops.map((s) => at(plan.edgeMarginM + s.distanceM));
-    line = [at(plan.edgeMarginM), at(plan.edgeMarginM + plan.walkLengthM)];
+    points = plan.stops.map((s) => at(s.distanceM));
+    legs = [[at(0), at(plan.diagonalM)]];
     project = () => [-100, -100];
   }
+  const start = legs[0][0];
+  const [dx, dy] = [legs[0][1][0] - start[0], legs[0][1][1] - start[1]];
+  const len = Math.hypot(dx, dy) || 1;
+  const clamp = (v: number, lo: number, hi: number) => Math.min(hi, Math.max(lo, v));
+  const startLabel: [number, number] = [clamp(start[0] - (dx / len) * 24, 22, W - 22), clamp(start[1] - (dy / len) * 18, 10, H - 10)];
 
   // Stop markers as big as the spacing allows (a long walk with many stops packs them close).
   let gap = Infinity;
@@ -53,7 +67,7 @@ export function FieldMap(props: {
 
   // Drawn only where it really is on this drawing: off the drawing, no dot (never pinned to an edge).
   let here: [number, number] | null = null;
-  if (props.here && polygon) {
+  if (props.here && shape) {
     const [x, y] = project(props.here.lon, props.here.lat);
     if (x >= 8 && x <= W - 8 && y >= 8 && y <= H - 8) here = [x, y];
   }
@@ -68,16 +82,12 @@ export function FieldMap(props: {
       {paths.map((d) => (
         <path key={d} d={d} fill="#d6ecdd" fillRule="evenodd" stroke="#1f5f36" strokeWidth={3} strokeLinejoin="round" />
       ))}
-      <line
-        x1={line[0][0]}
-        y1={line[0][1]}
-        x2={line[1][0]}
-        y2={line[1][1]}
-        stroke="#23201a"
-        strokeWidth={3}
-        strokeDasharray="8 6"
-        strokeLinecap="round"
-      />
+      {crossings.map(([p, q], i) => (
+        <line key={`c${i}`} x1={p[0]} y1={p[1]} x2={q[0]} y2={q[1]} stroke="#6f6757" strokeWidth={2} strokeDasharray="2 5" strokeLinecap="round" />
+      ))}
+      {legs.map(([p, q], i) => (
+        <line key={`l${i}`} x1={p[0]} y1={p[1]} x2={q[0]} y2={q[1]} stroke="#23201a" strokeWidth={3} strokeDasharray="8 6" strokeLinecap="round" />
+      ))}
       {points.map(([x, y], k) => {
         const n = k + 1;
         const next = n === props.nextStop;
@@ -92,6 +102,24 @@ export function FieldMap(props: {
           </g>
         );
       })}
+      {/* The start of the first line, labelled behind it (away from the stops along it). */}
+      <g>
+        <rect x={start[0] - 5} y={start[1] - 5} width={10} height={10} fill="#23201a" />
+        <text
+          x={startLabel[0]}
+          y={startLabel[1]}
+          textAnchor="middle"
+          dominantBaseline="central"
+          fontSize={13}
+          fontWeight={700}
+          fill="#23201a"
+          stroke="#ffffff"
+          strokeWidth={4}
+          paintOrder="stroke"
+        >
+          {t('plan.start')}
+        </text>
+      </g>
       {here && (
         <g>
           <circle cx={here[0]} cy={here[1]} r={13} fill="#1d5b8c" fillOpacity={0.25} />

@@ -1,15 +1,19 @@
 import '../../../locales/screens';
 import { useMemo, useState } from 'react';
 import { Link, useNavigate, useParams } from 'react-router-dom';
-import { useQuery } from '@tanstack/react-query';
+import { useQuery, useQueryClient } from '@tanstack/react-query';
 import { useTranslation } from 'react-i18next';
 import type { TodayItem } from '../../../../shared/schemas/walks';
 import { localIsoDate } from '../../../lib/format';
 import { newWalkId } from '../../../lib/storage';
 import { useFormat, useUser } from '../../session/api';
 import { todayQuery } from '../../today/api';
-import { newDraft, saveDraft, DEFAULT_STOPS } from '../../entry/drafts';
+import { newDraft, saveDraft, DEFAULT_STOPS, type WalkDraft } from '../../entry/drafts';
 import { listDrafts } from '../../entry/draft-list';
+import { useRuleSettings } from '../../entry/use-live-estimate';
+import { newWalkSeed, suggestStops } from '../../../../shared/calc/walk-plan';
+import { clearPendingSeed, pendingSeed, setPendingSeed } from '../plan-seed';
+import { planLines, stopSteps } from '../plan-words';
 import { FieldMap } from '../components/field-map';
 import { distanceM, distanceToFieldM, FAR_FROM_FIELD_M, planField } from '../field-plan';
 import { usePosition } from '../../../lib/use-position';
@@ -34,7 +38,8 @@ export default function PlanRoute() {
     );
   }
   const draft = drafts.data?.find((d) => d.planting.plantingId === plantingId) ?? null;
-  return <Plan item={item} draftId={draft?.id ?? null} draftStops={draft?.stopCount ?? DEFAULT_STOPS} draftValues={draft?.values ?? {}} />;
+  if (drafts.isPending) return <p className="text-lg">{t('app.loading')}</p>;
+  return <Plan item={item} draft={draft} />;
 }
 
 function BackToday() {
@@ -46,13 +51,39 @@ function BackToday() {
   );
 }
 
-function Plan({ item, draftId, draftStops, draftValues }: { item: TodayItem; draftId: string | null; draftStops: number; draftValues: Record<number, string> }) {
+function Plan({ item, draft }: { item: TodayItem; draft: WalkDraft | null }) {
   const { t } = useTranslation();
   const f = useFormat();
   const user = useUser();
   const navigate = useNavigate();
-  const result = useMemo(() => planField(item.boundary, item.areaHa, draftStops), [item.boundary, item.areaHa, draftStops]);
+  const qc = useQueryClient();
+  const rule = useRuleSettings();
+  const minPlants = rule?.minPlants ?? DEFAULT_STOPS;
+  const edgeMarginM = rule?.edgeMarginM ?? 10;
+  const draftId = draft?.id ?? null;
+  const draftValues = draft?.values ?? {};
+  const stops = draft?.stopCount ?? minPlants;
+  // The seed the stops are drawn from: the walk's own once started, else one kept for this planting.
+  const [pending, setPending] = useState(() => pendingSeed(user.id, item.plantingId));
+  const seed = draft?.planSeed ?? pending;
+  const result = useMemo(
+    () => planField(item.boundary, item.areaHa, stops, { edgeMarginM, seed }),
+    [item.boundary, item.areaHa, stops, edgeMarginM, seed],
+  );
   const { plan } = result;
+  const started = Object.values(draftValues).some((v) => v.trim() !== '');
+  const [redrawn, setRedrawn] = useState(false);
+  const steps = useMemo(() => stopSteps(plan), [plan]);
+  const suggestion = useMemo(() => suggestStops(item.areaHa, minPlants), [item.areaHa, minPlants]);
+
+  async function redraw() {
+    const next = newWalkSeed();
+    if (draft) {
+      await saveDraft({ ...draft, planSeed: next, updatedAt: Date.now() });
+      await qc.invalidateQueries({ queryKey: ['drafts', user.id] });
+    } else setPending(setPendingSeed(user.id, item.plantingId, next));
+    setRedrawn(true);
+  }
   const position = usePosition();
   const [starting, setStarting] = useState(false);
 
@@ -69,7 +100,7 @@ function Plan({ item, draftId, draftStops, draftValues }: { item: TodayItem; dra
       return;
     }
     setStarting(true);
-    const draft = newDraft({
+    const fresh = newDraft({
       id: newWalkId(),
       userId: user.id,
       planting: {
@@ -84,9 +115,12 @@ function Plan({ item, draftId, draftStops, draftValues }: { item: TodayItem; dra
       unit: user.units === 'metric' ? 'cm' : 'in',
       walkedOn: localIsoDate(),
       now: Date.now(),
+      stopCount: stops,
+      planSeed: seed,
     });
-    await saveDraft(draft);
-    navigate(`/walks/${draft.id}`);
+    await saveDraft(fresh);
+    clearPendingSeed(user.id, item.plantingId);
+    navigate(`/walks/${fresh.id}`);
   }
 
   const crop = t(`crops.${item.crop}` as 'crops.other', { defaultValue: item.crop });
@@ -104,16 +138,42 @@ function Plan({ item, draftId, draftStops, draftValues }: { item: TodayItem; dra
         <FieldMap boundary={item.boundary} result={result} nextStop={nextStop?.index ?? null} here={far ? null : fix} />
       </div>
 
-      <div className="mt-3 space-y-1 text-lg">
-        <p className="font-bold">
-          {t('plan.summary', { count: plan.stops.length, length: f.distance(plan.walkLengthM) })}
-        </p>
-        {plan.stops.length > 1 && (
+      <div className="mt-3 space-y-1 text-lg" data-testid="plan-summary">
+        <p className="font-bold">{t('plan.summary', { count: plan.stops.length, length: f.distance(plan.diagonalM) })}</p>
+        {plan.legs.length > 1 && <p>{t('plan.route', { length: f.distance(plan.walkLengthM) })}</p>}
+        {plan.legs.length === 1 && plan.stops.length > 1 && (
           <p>{t('plan.spacing', { paces: f.num(plan.spacingPaces), dist: f.distance(plan.spacingM) })}</p>
         )}
         <p>{t('plan.margin', { dist: f.distance(plan.edgeMarginM) })}</p>
+        {planLines(plan.noteParts).map((line) => (
+          <p key={line.key} data-testid="plan-pattern">
+            {line.key === 'plan.marginReduced'
+              ? t(line.key, { asked: f.distance(line.askedM), used: f.distance(line.usedM) })
+              : t(line.key, { stops: line.stops, legs: 'legs' in line ? line.legs : 1 })}
+          </p>
+        ))}
         {plan.mode === 'area' && <p className="text-loam-600">{result.boundaryProblem ? t('plan.badBoundary') : t('plan.noBoundary')}</p>}
+        {!draft && suggestion.suggested > suggestion.minimum && (
+          <p className="text-loam-600">{t('plan.suggest', { min: suggestion.minimum, n: suggestion.suggested })}</p>
+        )}
+        <p className="text-loam-600">{t('plan.random')}</p>
       </div>
+      {!started && (
+        <div className="mt-2">
+          <button
+            type="button"
+            onClick={() => void redraw()}
+            className="min-h-touch w-full rounded-xl border-2 border-loam-400 bg-white px-4 text-lg font-bold"
+          >
+            ↻ {t('plan.redraw')}
+          </button>
+          {redrawn && (
+            <p className="mt-1 text-loam-700" role="status">
+              {t('plan.redrawn')}
+            </p>
+          )}
+        </div>
+      )}
 
       <div className="mt-3 rounded-xl border-2 border-sky-200 bg-sky-50 p-3 text-sky-900">
         {fix ? (
@@ -166,28 +226,30 @@ function Plan({ item, draftId, draftStops, draftValues }: { item: TodayItem; dra
 
       <h2 className="mt-6 text-xl font-bold">{t('plan.stopsTitle')}</h2>
       <ol className="mt-2 divide-y-2 divide-loam-100 rounded-xl border-2 border-loam-200 bg-white">
-        {plan.stops.map((s, k) => (
-          <li key={s.index} className="flex items-center gap-3 px-3 py-2">
-            <span
-              className={`flex size-11 shrink-0 items-center justify-center rounded-full border-2 border-loam text-lg font-bold ${
-                s.index === nextStop?.index ? 'bg-straw' : 'bg-white'
-              }`}
-              aria-hidden="true"
-            >
-              {s.index}
-            </span>
-            <span className="text-lg">
-              <span className="sr-only">{t('plan.stop', { n: s.index })}: </span>
-              {k === 0
-                ? t('plan.firstStop')
-                : t('plan.fromPrevious', {
-                    paces: f.num(s.paces - plan.stops[k - 1].paces),
-                    dist: f.distance(s.distanceM - plan.stops[k - 1].distanceM),
-                    prev: s.index - 1,
-                  })}
-            </span>
-          </li>
-        ))}
+        {plan.stops.map((s, k) => {
+          const step = steps[k];
+          const dist = { paces: f.num(step.distanceM / PACE_M), dist: f.distance(step.distanceM) };
+          return (
+            <li key={s.index} className="flex items-center gap-3 px-3 py-2">
+              <span
+                className={`flex size-11 shrink-0 items-center justify-center rounded-full border-2 border-loam text-lg font-bold ${
+                  s.index === nextStop?.index ? 'bg-straw' : 'bg-white'
+                }`}
+                aria-hidden="true"
+              >
+                {s.index}
+              </span>
+              <span className="text-lg">
+                <span className="sr-only">{t('plan.stop', { n: s.index })}: </span>
+                {step.kind === 'first'
+                  ? t('plan.firstStop', dist)
+                  : step.kind === 'new_leg'
+                    ? t('plan.legStart', { ...dist, leg: step.leg })
+                    : t('plan.fromPrevious', { ...dist, prev: step.prev })}
+              </span>
+            </li>
+          );
+        })}
       </ol>
       <p className="mt-2 text-loam-600">{t('plan.pace', { dist: f.us ? `${f.num(PACE_M / 0.3048, 1)} ${t('units.ft')}` : `${f.num(PACE_M, 2)} ${t('units.m')}` })}</p>
     </div>
