@@ -12,6 +12,7 @@ import * as m20261201140000 from './20261201140000_create_registers';
 import * as m20261201150000 from './20261201150000_create_job_runs';
 import * as m20261202030000 from './20261202030000_organisation_scoped_links';
 import * as m20261202040000 from './20261202040000_verdict_rule_fields_and_skipped_stops';
+import * as m20261202043000 from './20261202043000_users_session_version';
 
 interface Migration {
   up: (knex: Knex) => Promise<void>;
@@ -34,6 +35,7 @@ const migrations: Record<string, Migration> = {
   '20261201150000_create_job_runs': m20261201150000,
   '20261202030000_organisation_scoped_links': m20261202030000,
   '20261202040000_verdict_rule_fields_and_skipped_stops': m20261202040000,
+  '20261202043000_users_session_version': m20261202043000,
 };
 
 export const migrationSource: Knex.MigrationSource<string> = {

@@ -5,7 +5,8 @@ import { contextOf } from '../platform/context';
 import { signedIn } from '../platform/permissions';
 import { hashPassword, passwordSchema, verifyPassword } from './passwords';
 import { parseForm } from '../platform/validation';
-import { findUserForSignIn, setUserPassword, setUserPreferences } from './service';
+import { findUserById, findUserForSignIn, setUserPassword, setUserPreferences } from './service';
+import { HttpError } from '../platform/errors';
 
 const passwordForm = z
   .object({ current: z.string().min(1, 'Enter your current password.'), password: passwordSchema, confirm: z.string() })
@@ -35,7 +36,12 @@ export function accountPages(ctx: AppContext): Router {
       return show(res, 400, { passwordErrors: { current: 'That is not your current password.' } });
     }
     await setUserPassword(ctx.db, user.organisationId, user.id, await hashPassword(parsed.value.password, ctx.config.BCRYPT_ROUNDS));
-    req.session.flash = { kind: 'info', text: 'Your password is changed.' };
+    // The change ended every session of this user; this one signs in again under the new
+    // version (with a fresh session id), the others stay signed out.
+    const fresh = await findUserById(ctx.db, user.id);
+    if (!fresh) throw new HttpError('not_found');
+    await new Promise<void>((resolve, reject) => req.logIn(fresh, (err) => (err ? reject(err) : resolve())));
+    req.session.flash = { kind: 'info', text: 'Your password is changed. Every other session of yours is signed out.' };
     res.redirect('/account');
   });
 

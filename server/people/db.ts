@@ -20,6 +20,8 @@ export interface User {
   lastSignInAt: string | null;
   createdAt: string;
   hasPassword: boolean;
+  /** Raised to end every session made before (server/people/passport.ts). */
+  sessionVersion: number;
 }
 
 export interface UserRow {
@@ -35,6 +37,7 @@ export interface UserRow {
   language: Language;
   last_sign_in_at: string | null;
   created_at: string;
+  session_version: number | null;
 }
 
 const columns = [
@@ -50,6 +53,7 @@ const columns = [
   'users.language',
   'users.last_sign_in_at',
   'users.created_at',
+  'users.session_version',
 ];
 
 export function toUser(row: UserRow): User {
@@ -66,6 +70,7 @@ export function toUser(row: UserRow): User {
     lastSignInAt: row.last_sign_in_at,
     createdAt: row.created_at,
     hasPassword: row.password_hash !== null,
+    sessionVersion: Number(row.session_version ?? 0),
   };
 }
 
@@ -168,11 +173,15 @@ async function updateUser(db: Knex, organisationId: string, id: string, changes:
 export const setUserRole = (db: Knex, organisationId: string, id: string, role: Role) =>
   updateUser(db, organisationId, id, { role });
 
+// Each of these raises the session version, which ends every session signed in before (a
+// deactivation's too, so a later re-activation does not bring the old sessions back).
+const endSessions = (db: Knex) => ({ session_version: db.raw('?? + 1', ['session_version']) });
+
 export const setUserActive = (db: Knex, organisationId: string, id: string, active: boolean) =>
-  updateUser(db, organisationId, id, { active });
+  updateUser(db, organisationId, id, { active, ...(active ? {} : endSessions(db)) });
 
 export const setUserPassword = (db: Knex, organisationId: string, id: string, passwordHash: string) =>
-  updateUser(db, organisationId, id, { password_hash: passwordHash });
+  updateUser(db, organisationId, id, { password_hash: passwordHash, ...endSessions(db) });
 
 export const setUserPreferences = (
   db: Knex,

@@ -8,6 +8,9 @@ import { verifyPassword } from './passwords';
 /** One message for an unknown address and a wrong password, so neither can be probed. */
 export const SIGN_IN_FAILED = 'That e-mail and password do not match an active account.';
 
+/** What a session stores of its user (a plain id in sessions made before session versions). */
+type SessionUser = { id: string; v: number };
+
 export function configurePassport(db: Knex, fast?: FastReads): passport.PassportStatic {
   const pp = new passport.Passport() as unknown as passport.PassportStatic;
   pp.use(
@@ -23,13 +26,16 @@ export function configurePassport(db: Knex, fast?: FastReads): passport.Passport
       }
     }),
   );
-  pp.serializeUser((user, done) => done(null, (user as Express.User).id));
-  // Loaded on every request so that a deactivation or a role change takes effect at once.
-  pp.deserializeUser(async (id: string, done) => {
+  // The session keeps the user's id and the session version it was signed in under.
+  pp.serializeUser((user, done) => done(null, { id: (user as Express.User).id, v: (user as Express.User).sessionVersion }));
+  // Loaded on every request so that a deactivation or a role change takes effect at once; a
+  // session signed in before the last password change, reset or deactivation is refused.
+  pp.deserializeUser(async (stored: SessionUser | string, done) => {
     try {
+      const { id, v } = typeof stored === 'string' ? { id: stored, v: 0 } : stored;
       const row = fast?.userRow(id);
       const user = fast ? (row ? toUser(row as unknown as UserRow) : undefined) : await findUserById(db, id);
-      done(null, user && user.active ? user : false);
+      done(null, user && user.active && user.sessionVersion === v ? user : false);
     } catch (err) {
       done(err);
     }

@@ -21,7 +21,8 @@ export function openFastReads(file: string): FastReads | undefined {
   const session = conn.prepare('select sess from sessions where sid = ? and datetime(?) <= datetime(expired)');
   const user = conn.prepare(
     `select users.id, users.organisation_id, organisations.name as organisation_name, users.name, users.email,
-            users.password_hash, users.role, users.active, users.units, users.language, users.last_sign_in_at, users.created_at
+            users.password_hash, users.role, users.active, users.units, users.language, users.last_sign_in_at, users.created_at,
+            users.session_version
        from users join organisations on organisations.id = users.organisation_id
       where users.id = ?`,
   );
