@@ -16,8 +16,12 @@ import { DEMO_USERS } from '../seeds/demo-people';
 
 /** The cookie-signing secret: from the environment, or made once and kept beside the database. */
 function sessionSecret(config: Config): string {
-  if (config.SESSION_SECRET) return config.SESSION_SECRET;
-  const file = path.join(path.dirname(path.resolve(config.DATABASE_FILE)), '.session-secret');
+  return config.SESSION_SECRET ?? keptSecret(config, '.session-secret');
+}
+
+/** A random secret made once and kept in a file beside the database (not in it), readable by the server only. */
+function keptSecret(config: Config, name: string): string {
+  const file = path.join(path.dirname(path.resolve(config.DATABASE_FILE)), name);
   if (!fs.existsSync(file)) {
     fs.mkdirSync(path.dirname(file), { recursive: true });
     fs.writeFileSync(file, randomBytes(32).toString('hex'), { mode: 0o600 });
@@ -28,6 +32,8 @@ function sessionSecret(config: Config): string {
 async function main() {
   const config = loadConfig();
   const logger = pino({ level: config.LOG_LEVEL });
+  // Registers are signed with a key kept outside the database (README, "Register signatures").
+  config.REGISTER_SIGNING_KEY ??= keptSecret(config, '.register-signing-key');
   fs.mkdirSync(path.resolve(config.UPLOADS_DIR), { recursive: true });
 
   const target = databaseTarget(config);

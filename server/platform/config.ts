@@ -30,6 +30,13 @@ const envSchema = z.object({
   UPLOADS_DIR: z.string().default('data/uploads'),
   /** Secret that signs session cookies; when unset, one is made and kept in data/.session-secret. */
   SESSION_SECRET: z.string().min(16).optional(),
+  /**
+   * Key (at least 32 characters) that signs finalised registers (HMAC-SHA256); when unset, one is
+   * made and kept in data/.register-signing-key, outside the database.
+   */
+  REGISTER_SIGNING_KEY: z.string().min(32, 'REGISTER_SIGNING_KEY must be at least 32 characters.').optional(),
+  /** Earlier signing keys, comma separated: they no longer sign but still verify the versions they signed. */
+  REGISTER_SIGNING_KEYS_OLD: z.string().default(''),
   /** Hours a signed-in session lasts without use. */
   SESSION_HOURS: z.coerce.number().positive().default(12),
   /** Express "trust proxy" setting: set to 1 (or true) behind one HTTPS reverse proxy; cookies then get Secure. */

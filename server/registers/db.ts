@@ -20,6 +20,10 @@ export interface StoredRegister {
   finalisedBy: string | null;
   finalisedByName: string;
   finalisedAt: string;
+  /** Chain hash, its HMAC signature and the signing key's id; null on versions finalised before signing. */
+  chainHash: string | null;
+  signature: string | null;
+  signingKeyId: string | null;
 }
 
 export type RegisterVersionSummary = Omit<StoredRegister, 'snapshotText'>;
@@ -38,11 +42,14 @@ const toSummary = (r: Row): RegisterVersionSummary => ({
   finalisedBy: (r.finalised_by as string) ?? null,
   finalisedByName: r.finalised_by_name as string,
   finalisedAt: String(r.finalised_at),
+  chainHash: (r.chain_hash as string) ?? null,
+  signature: (r.signature as string) ?? null,
+  signingKeyId: (r.signing_key_id as string) ?? null,
 });
 
 const toStored = (r: Row): StoredRegister => ({ ...toSummary(r), snapshotText: r.snapshot as string });
 
-const SUMMARY_COLUMNS = ['id', 'ranch_id', 'year', 'version', 'previous_id', 'content_hash', 'rule_id', 'rule_version', 'finalised_by', 'finalised_by_name', 'finalised_at'];
+const SUMMARY_COLUMNS = ['id', 'ranch_id', 'year', 'version', 'previous_id', 'content_hash', 'rule_id', 'rule_version', 'finalised_by', 'finalised_by_name', 'finalised_at', 'chain_hash', 'signature', 'signing_key_id'];
 
 export async function getRegister(db: Knex, organisationId: string, id: string): Promise<StoredRegister | undefined> {
   const row = await inOrganisation(db, 'registers', organisationId).where('id', id).first();
@@ -69,9 +76,14 @@ export async function latestRegistersOfYear(db: Knex, organisationId: string, ye
   return out;
 }
 
-export async function highestRegisterVersion(db: Knex, organisationId: string, ranchId: string, year: number): Promise<{ id: string; version: number } | undefined> {
-  const row = await inOrganisation(db, 'registers', organisationId).where({ ranch_id: ranchId, year }).orderBy('version', 'desc').first('id', 'version');
-  return row && { id: row.id as string, version: Number(row.version) };
+export async function highestRegisterVersion(
+  db: Knex,
+  organisationId: string,
+  ranchId: string,
+  year: number,
+): Promise<{ id: string; version: number; contentHash: string; chainHash: string | null } | undefined> {
+  const row = await inOrganisation(db, 'registers', organisationId).where({ ranch_id: ranchId, year }).orderBy('version', 'desc').first('id', 'version', 'content_hash', 'chain_hash');
+  return row && { id: row.id as string, version: Number(row.version), contentHash: row.content_hash as string, chainHash: (row.chain_hash as string) ?? null };
 }
 
 export async function insertRegister(db: Knex, organisationId: string, r: StoredRegister): Promise<void> {
@@ -89,6 +101,9 @@ export async function insertRegister(db: Knex, organisationId: string, r: Stored
     finalised_by: r.finalisedBy,
     finalised_by_name: r.finalisedByName,
     finalised_at: r.finalisedAt,
+    chain_hash: r.chainHash,
+    signature: r.signature,
+    signing_key_id: r.signingKeyId,
   });
 }
 

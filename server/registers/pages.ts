@@ -6,6 +6,7 @@ import { can } from '../platform/permissions';
 import { HttpError } from '../platform/errors';
 import { getRegister, latestRegister, listRegisterVersions } from './service';
 import { diffRegisters } from './diff';
+import { keyringOf } from './signing';
 import { organisationSummary } from './summary';
 import { registerRanches } from './service';
 import { todayIso } from '../../shared/registry/season';
@@ -23,6 +24,7 @@ import {
   parseStored,
   reportingYearOf,
   verifyStored,
+  signatureState,
 } from './service';
 
 const yearParam = z.coerce.number().int().min(MIN_YEAR).max(MAX_YEAR);
@@ -41,6 +43,7 @@ const wantsJson = (req: Request) => req.accepts(['html', 'json']) === 'json';
  */
 export function registerPages(ctx: AppContext): Router {
   const router = Router();
+  const keyring = keyringOf(ctx.config);
   const readers = can('registers.read');
   const writers = can('registers.finalise');
   const jobs = createRegisterJobs({ db: ctx.db, logger: ctx.logger });
@@ -145,6 +148,7 @@ export function registerPages(ctx: AppContext): Router {
       previous: previous ? { id: previous.id, version: previous.version } : null,
       diff: previous ? diffRegisters(previous, final) : null,
       hashVerified: verifyStored(stored),
+      signature: { state: await signatureState(ctx.db, orgId, stored, keyring), keyId: stored.signingKeyId, chainHash: stored.chainHash },
       versions,
       newest: versions[0]?.id === final.id,
       contactEmails: ranch?.contactEmails ?? [],
@@ -224,7 +228,7 @@ export function registerPages(ctx: AppContext): Router {
       return showDraft(req, res, 400, { confirm: 'Tick the box to confirm that the rows are checked; a finalised register cannot be changed.' });
     }
     try {
-      const final = await finaliseRegister(ctx.db, contextOf(req).organisationId, ranchId, year, contextOf(req).user, todayIso());
+      const final = await finaliseRegister(ctx.db, contextOf(req).organisationId, ranchId, year, contextOf(req).user, todayIso(), keyring);
       req.session.flash = {
         kind: 'info',
         text: final.version === 1 ? `Register finalised as version 1.` : `Amendment finalised as version ${final.version}; the changes from version ${final.version - 1} are listed below.`,

@@ -7,6 +7,7 @@ import { HttpError } from '../platform/errors';
 import { validateBody, validateQuery } from '../platform/validation';
 import { getRegister, latestRegister, listRegisterVersions } from './service';
 import { diffRegisters } from './diff';
+import { keyringOf } from './signing';
 import { todayIso } from '../../shared/registry/season';
 import { asFinal, registerFileStem } from './format';
 import { registerCsv, registerPdf } from './output';
@@ -18,6 +19,7 @@ import {
   getFinalRegister,
   parseStored,
   verifyStored,
+  signatureState,
   type FinalRegister,
 } from './service';
 
@@ -47,6 +49,7 @@ async function withDiff(ctx: AppContext, organisationId: string, final: FinalReg
  */
 export function registersApi(ctx: AppContext): Router {
   const router = Router();
+  const keyring = keyringOf(ctx.config);
   const readers = can('registers.read');
   const writers = can('registers.finalise');
 
@@ -67,7 +70,7 @@ export function registersApi(ctx: AppContext): Router {
   const finalise = async (req: Request, res: Response) => {
     const body = req.body as z.infer<typeof finaliseBody>;
     const orgId = contextOf(req).organisationId;
-    const final = await finaliseRegister(ctx.db, orgId, body.ranchId, body.year, contextOf(req).user, todayIso());
+    const final = await finaliseRegister(ctx.db, orgId, body.ranchId, body.year, contextOf(req).user, todayIso(), keyring);
     res.status(201).json(await withDiff(ctx, orgId, final));
   };
 
@@ -85,7 +88,12 @@ export function registersApi(ctx: AppContext): Router {
 
   const show = async (req: Request<{ id: string }>, res: Response) => {
     const stored = await load(req);
-    res.json({ ...(await withDiff(ctx, contextOf(req).organisationId, parseStored(stored))), hashVerified: verifyStored(stored) });
+    const orgId = contextOf(req).organisationId;
+    res.json({
+      ...(await withDiff(ctx, orgId, parseStored(stored))),
+      hashVerified: verifyStored(stored),
+      signature: { state: await signatureState(ctx.db, orgId, stored, keyring), keyId: stored.signingKeyId, chainHash: stored.chainHash },
+    });
   };
 
   const csv = async (req: Request<{ id: string }>, res: Response) => {

@@ -1,4 +1,5 @@
-import { createHash, randomUUID } from 'node:crypto';
+import { randomUUID } from 'node:crypto';
+import { linkOf, sha256Hex, signRegister, verifyRegister, type Keyring, type SignatureState } from './signing';
 import type { Knex } from 'knex';
 import { CalcError } from '../../shared/calc/errors';
 import { creditEligibility } from '../../shared/calc/eligibility';
@@ -365,7 +366,7 @@ export function canonicalJson(value: unknown): string {
   return JSON.stringify(walk(value));
 }
 
-export const sha256Hex = (text: string) => createHash('sha256').update(text, 'utf8').digest('hex');
+export { sha256Hex };
 
 /** The part of a register that a new version must differ in (not when it was computed). */
 const substance = (r: Register) => canonicalJson({ ranch: r.ranch, year: r.year, rule: r.rule, rows: r.rows, totals: r.totals, calibrations: r.calibrations, walkIds: r.walkIds });
@@ -400,6 +401,7 @@ export async function finaliseRegister(
   year: number,
   actor: { id: string; name: string },
   today: string,
+  keyring: Keyring,
   now: () => string = () => new Date().toISOString(),
 ): Promise<FinalRegister> {
   try {
@@ -421,6 +423,7 @@ export async function finaliseRegister(
         finalisedAt: now(),
       };
       const snapshotText = canonicalJson(snapshot);
+      const contentHash = sha256Hex(snapshotText);
       const stored: StoredRegister = {
         id: randomUUID(),
         ranchId,
@@ -428,7 +431,8 @@ export async function finaliseRegister(
         version: snapshot.version,
         previousId: snapshot.previousId,
         snapshotText,
-        contentHash: sha256Hex(snapshotText),
+        contentHash,
+        ...signRegister(keyring, linkOf(latest), contentHash),
         ruleId: register.rule.id,
         ruleVersion: register.rule.version,
         finalisedBy: actor.id,
@@ -448,6 +452,13 @@ export async function finaliseRegister(
 
 /** True when the stored text still hashes to the stored hash. */
 export const verifyStored = (stored: StoredRegister) => sha256Hex(stored.snapshotText) === stored.contentHash;
+
+/** Whether a stored version's signature holds, checked against the previous version as stored now. */
+export async function signatureState(db: Knex, organisationId: string, stored: StoredRegister, keyring: Keyring): Promise<SignatureState> {
+  const previous = stored.previousId ? await getRegister(db, organisationId, stored.previousId) : undefined;
+  if (stored.previousId && !previous) return 'invalid';
+  return verifyRegister(keyring, stored, previous);
+}
 
 // Single-query reads and writes the routes and pages use as they are (SQL stays in the db modules).
 export { getRegister, latestRegister, listRegisterVersions } from './db';

@@ -9,6 +9,8 @@ import { seedDemoScenario } from '../../seeds/01_demo_scenario';
 import { createThrowawayDatabase, dropDatabase } from './postgres';
 
 export const DEMO_PASSWORD = 'test-demo-password';
+/** The register signing key of test apps (invented). */
+export const TEST_SIGNING_KEY = 'test-register-signing-key-0123456789abcdef';
 
 export interface TestApp {
   app: Express;
@@ -54,7 +56,7 @@ function takeDatabase(run: { adminUrl: string; prefix: string }, template: strin
  * and dropped by close().
  */
 export async function createTestApp(overrides: Partial<Config> = {}, { seed = true } = {}): Promise<TestApp> {
-  const config = loadConfig({ NODE_ENV: 'test', PUBLIC_URL: 'http://crowntip.test:3000' }, { BCRYPT_ROUNDS: 4, ...overrides });
+  const config = loadConfig({ NODE_ENV: 'test', PUBLIC_URL: 'http://crowntip.test:3000' }, { BCRYPT_ROUNDS: 4, REGISTER_SIGNING_KEY: TEST_SIGNING_KEY, ...overrides });
   const pgRun = inject('postgres');
   let db: Knex;
   let target = ':memory:';

@@ -10,6 +10,7 @@ import { HttpError } from '../../../server/platform/errors';
 import { jsonValue } from '../../../server/platform/json-column';
 import { computeRegister, finaliseRegister, canonicalJson, seasonOfYear, reportingYearOf } from '../../../server/registers/service';
 import { diffRegisters } from '../../../server/registers/diff';
+import { keyringOf } from '../../../server/registers/signing';
 import { organisationSummary } from '../../../server/registers/summary';
 
 /*
@@ -272,7 +273,7 @@ describe('finalise, immutability and amendments (API)', () => {
     await expect(t.db('registers').insert(dup)).rejects.toThrow(/UNIQUE|duplicate key/); // SQLite's words, PostgreSQL's
     // … and a violation reaching the service becomes 409 conflict.
     const racing = { transaction: async () => Promise.reject(Object.assign(new Error('UNIQUE constraint failed: registers.organisation_id'), { code: 'SQLITE_CONSTRAINT_UNIQUE' })) };
-    const err = await finaliseRegister(racing as unknown as Knex, ORG, s.ranchId, YEAR, { id: 'u', name: 'U' }, TODAY).catch((e) => e);
+    const err = await finaliseRegister(racing as unknown as Knex, ORG, s.ranchId, YEAR, { id: 'u', name: 'U' }, TODAY, keyringOf(t.config)).catch((e) => e);
     expect(err).toBeInstanceOf(HttpError);
     expect(err.code).toBe('conflict');
   });
