@@ -17,12 +17,6 @@ export default defineConfig({
     // The query persister packages pin an older patch of @tanstack/query-core; one copy for all
     // (the same v5 API) keeps the first screen from carrying two.
     dedupe: ['@tanstack/query-core'],
-    alias: [
-      {
-        find: /^use-sync-external-store\/shim$/,
-        replacement: fileURLToPath(new URL('./client/lib/use-sync-external-store-shim.ts', import.meta.url)),
-      },
-    ],
   },
   plugins: [
     react(),

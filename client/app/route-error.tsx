@@ -1,7 +1,6 @@
 import { Component, type ReactNode } from 'react';
 import { Link } from 'react-router-dom';
-import { useTranslation } from 'react-i18next';
-import { i18n } from '../lib/i18n';
+import { i18n, useTranslation } from '../lib/i18n';
 
 /**
  * Catches a screen that failed to render or to load its code (a lazy chunk fetched with no signal

@@ -1,7 +1,7 @@
 import { Suspense, useEffect, useRef } from 'react';
 import { Outlet } from 'react-router-dom';
 import { useIsRestoring, useQueryClient } from '@tanstack/react-query';
-import { useTranslation } from 'react-i18next';
+import { useTranslation } from '../lib/i18n';
 import { ApiError } from '../lib/api';
 import { PAGE_LOADED_AT, reconcilePreferences, sessionKeys, useSession } from '../features/session/api';
 import { SignOutButton } from '../features/session/components/sign-out-button';

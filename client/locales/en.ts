@@ -5,7 +5,7 @@ import { CROP_LABELS } from '../../shared/registry/crops';
  * errors); the later screens' text is in screens-en.ts. Every key must also be in es.ts, and
  * every key of screens-en.ts in screens-es.ts (tests/client/i18n.test.ts).
  * Numbers, lengths and dates arrive already formatted for the language (lib/format.ts).
- * Plurals use i18next's `_one` / `_other` suffixes with `count`.
+ * Plurals use `_one` / `_other` suffixes with `count` (lib/i18n.ts).
  */
 export const en = {
   app: {

@@ -1,11 +1,10 @@
 import { queryOptions, useQuery, useQueryClient } from '@tanstack/react-query';
 import { useMemo } from 'react';
-import { useTranslation } from 'react-i18next';
 import type { SessionResponse } from '../../../shared/schemas/session';
 import { api, ApiError, noContent, type ApiClient } from '../../lib/api';
 import { sessionAnswer } from '../../lib/first-screen-answers';
 import { makeFormatter, type UnitLabels, type Units } from '../../lib/format';
-import { currentLanguage, setLanguage, type Language } from '../../lib/i18n';
+import { currentLanguage, setLanguage, type Language, useTranslation } from '../../lib/i18n';
 import { clearPersistedCache } from '../../lib/persist';
 import { useAction } from '../../lib/use-action';
 

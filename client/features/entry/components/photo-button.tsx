@@ -1,5 +1,5 @@
 import { useEffect, useState } from 'react';
-import { useTranslation } from 'react-i18next';
+import { useTranslation } from '../../../lib/i18n';
 import { get, set } from 'idb-keyval';
 import { photoKey, photoStore } from '../../../lib/storage';
 import type { Formatter } from '../../../lib/format';

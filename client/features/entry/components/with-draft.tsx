@@ -1,6 +1,6 @@
 import type { ReactNode } from 'react';
 import { Link, Navigate } from 'react-router-dom';
-import { useTranslation } from 'react-i18next';
+import { useTranslation } from '../../../lib/i18n';
 import { useQueueJobs } from '../../offline';
 import type { WalkDraft } from '../drafts';
 import { useDraft } from '../use-draft';

@@ -1,7 +1,7 @@
 import '../../../locales/screens';
 import { useEffect, useMemo, useRef, useState } from 'react';
 import { Link, useNavigate, useParams } from 'react-router-dom';
-import { useTranslation } from 'react-i18next';
+import { useTranslation } from '../../../lib/i18n';
 import { MAX_LENGTH_CM, MAX_PLANTS } from '../../../../shared/schemas/walks';
 import { useFormat } from '../../session/api';
 import { usePosition } from '../../../lib/use-position';

@@ -1,7 +1,7 @@
 import '../../../locales/screens';
 import { useMemo, useState } from 'react';
 import { Link, useNavigate, useParams } from 'react-router-dom';
-import { useTranslation } from 'react-i18next';
+import { useTranslation } from '../../../lib/i18n';
 import { useFormat } from '../../session/api';
 import { loadOutbox } from '../../offline';
 import { newJob } from '../../offline/queue';

@@ -1,4 +1,4 @@
-import { useTranslation } from 'react-i18next';
+import { useTranslation } from '../../../lib/i18n';
 import type { Formatter } from '../../../lib/format';
 import type { LiveEstimate } from '../live';
 import { verdictView, type VerdictState } from '../verdict-view';

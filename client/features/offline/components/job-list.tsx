@@ -1,4 +1,4 @@
-import { useTranslation } from 'react-i18next';
+import { useTranslation } from '../../../lib/i18n';
 import { useFormat } from '../../session/api';
 import type { QueueJob } from '../jobs';
 

@@ -1,5 +1,5 @@
 import { lazy, Suspense, useEffect, useRef, useState } from 'react';
-import { useTranslation } from 'react-i18next';
+import { useTranslation } from '../../../lib/i18n';
 import { loadOutbox, useOnline, useQueueJobs, useSendingId } from '../index';
 import { summarise, type QueueJob } from '../jobs';
 

@@ -1,4 +1,4 @@
-import { useTranslation } from 'react-i18next';
+import { useTranslation } from '../../../lib/i18n';
 
 /** "The signal is back: the walk of … reached the office", until closed (features/offline/components/queue-banner.tsx). */
 export default function SentNote({ fields, onClose }: { fields: string[]; onClose: () => void }) {

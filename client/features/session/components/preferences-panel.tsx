@@ -1,5 +1,4 @@
-import { useTranslation } from 'react-i18next';
-import { LANGUAGE_NAMES, LANGUAGES, type Language } from '../../../lib/i18n';
+import { LANGUAGE_NAMES, LANGUAGES, type Language, useTranslation } from '../../../lib/i18n';
 import type { Units } from '../../../lib/format';
 import { usePreferences, useUnits } from '../api';
 

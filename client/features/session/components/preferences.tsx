@@ -1,5 +1,4 @@
-import { useTranslation } from 'react-i18next';
-import { LANGUAGE_NAMES, type Language } from '../../../lib/i18n';
+import { LANGUAGE_NAMES, type Language, useTranslation } from '../../../lib/i18n';
 import { usePreferences } from '../api';
 
 /** One big button to the other language, beside the screen title (the full panel is further down). */

@@ -1,7 +1,7 @@
 import '../../../locales/screens';
 import { Link, useParams } from 'react-router-dom';
 import { useQuery } from '@tanstack/react-query';
-import { useTranslation } from 'react-i18next';
+import { useTranslation } from '../../../lib/i18n';
 import { useFormat } from '../../session/api';
 import { loadOutbox, useOnline, useQueueJobs, useSendingId } from '../../offline';
 import { EstimateFigures } from '../../estimate/components/estimate-panel';

@@ -1,5 +1,5 @@
 import { Link } from 'react-router-dom';
-import { useTranslation } from 'react-i18next';
+import { useTranslation } from '../../../lib/i18n';
 import type { TodayItem } from '../../../../shared/schemas/walks';
 import { useFormat } from '../../session/api';
 import type { WalkDraft } from '../../entry/drafts';

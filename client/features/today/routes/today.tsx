@@ -1,7 +1,7 @@
 import { lazy, Suspense, useDeferredValue, useState } from 'react';
 import { Link } from 'react-router-dom';
 import { useQuery } from '@tanstack/react-query';
-import { useTranslation } from 'react-i18next';
+import { useTranslation } from '../../../lib/i18n';
 import type { TodayItem } from '../../../../shared/schemas/walks';
 import { useFormat, useUser } from '../../session/api';
 import { LanguageToggle } from '../../session/components/preferences';

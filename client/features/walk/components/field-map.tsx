@@ -1,4 +1,4 @@
-import { useTranslation } from 'react-i18next';
+import { useTranslation } from '../../../lib/i18n';
 import type { Boundary } from '../../../../shared/registry/boundary';
 import { boundaryOutline } from '../../../../shared/registry/outline';
 import type { PlanResult } from '../field-plan';

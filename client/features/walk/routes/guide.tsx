@@ -1,7 +1,7 @@
 import '../../../locales/screens';
 import type { ReactNode } from 'react';
 import { useNavigate } from 'react-router-dom';
-import { useTranslation } from 'react-i18next';
+import { useTranslation } from '../../../lib/i18n';
 import { ArtCrown, ArtDig, ArtMeasure, ArtRandom } from '../components/guide-art';
 
 /** The short, illustrated measuring guide, one tap from the plan and from every stop. */

@@ -2,7 +2,7 @@ import '../../../locales/screens';
 import { useMemo, useState } from 'react';
 import { Link, useNavigate, useParams } from 'react-router-dom';
 import { useQuery, useQueryClient } from '@tanstack/react-query';
-import { useTranslation } from 'react-i18next';
+import { useTranslation } from '../../../lib/i18n';
 import type { TodayItem } from '../../../../shared/schemas/walks';
 import { localIsoDate } from '../../../lib/format';
 import { newWalkId } from '../../../lib/storage';
