@@ -34,6 +34,8 @@ export interface AppDeps {
   vite?: ViteDevServer;
   /** Prepared-statement reads of sessions and users on a database file (see server/platform/fast-reads.ts). */
   fastReads?: FastReads;
+  /** Where sign-in and reset-mail attempts are counted; in memory when not given. */
+  attemptStore?: people.AttemptStore;
   /** The secret that signs session cookies. */
   sessionSecret: string;
   /** Flipped by the shutdown in server/main.ts so that /readyz turns 503 while requests drain. */
@@ -115,9 +117,19 @@ export function createApp(deps: AppDeps): Express {
   app.use(requestContext);
 
   // Sign-in limits run before the CSRF check, so a flood of bad tokens still counts (docs/server-notes.md, 3).
-  const limits = people.signInLimits(config.SIGNIN_LIMIT_PER_ACCOUNT, config.SIGNIN_LIMIT_PER_ADDRESS);
-  app.post('/login', ...limits);
-  app.post('/api/session', ...limits);
+  const limits = people.accessLimits(
+    {
+      perPair: config.SIGNIN_LIMIT_PER_PAIR,
+      perAddress: config.SIGNIN_LIMIT_PER_ADDRESS,
+      perAccount: config.SIGNIN_LIMIT_PER_ACCOUNT,
+      slowdownMs: config.SIGNIN_SLOWDOWN_MS,
+      forgotPerAddress: config.FORGOT_LIMIT_PER_ADDRESS,
+      forgotPerAccount: config.FORGOT_LIMIT_PER_ACCOUNT,
+    },
+    deps.attemptStore,
+  );
+  app.post('/login', limits.signIn);
+  app.post('/api/session', limits.signIn);
 
   // Page defaults first, so that even a page rejected by the CSRF check renders its error.
   app.locals.assets = readOfficeAssets(Boolean(deps.vite));
@@ -162,7 +174,7 @@ export function createApp(deps: AppDeps): Express {
 
   // The office pages and the capture app, in the order they are tried ('/' routers hold full paths).
   const pages: [string, Router][] = [
-    ['/', people.authPages(ctx, passport)],
+    ['/', people.authPages(ctx, passport, limits)],
     ['/', people.homePages(ctx)],
     ['/', people.accountPages(ctx)],
     ['/admin/users', people.userAdminPages(ctx)],

@@ -9,6 +9,7 @@ import { parseForm } from '../platform/validation';
 import { findUserById, findUserForSignIn, recordSignIn, setUserPassword } from './service';
 import { checkUserToken, spendUserToken, type TokenPurpose } from './service';
 import { sendPasswordResetLink } from './account-links';
+import type { AccessLimits } from './sign-in-limits';
 
 /** Only paths on this site are followed after sign-in, never another host. */
 export function safeNext(next: unknown): string | null {
@@ -25,7 +26,7 @@ const TOKEN_PROBLEMS = {
   expired: 'This link has expired. Ask for a new one.',
 };
 
-export function authPages(ctx: AppContext, pp: passport.PassportStatic): Router {
+export function authPages(ctx: AppContext, pp: passport.PassportStatic, limits: AccessLimits): Router {
   const router = Router();
 
   router.get('/login', (req, res) => {
@@ -70,9 +71,15 @@ export function authPages(ctx: AppContext, pp: passport.PassportStatic): Router 
       res.status(400).render('auth/forgot', { title: 'Forgotten password', email: req.body?.email ?? '', sent: false, errors: parsed.errors });
       return;
     }
+    const allowed = await limits.allowResetMail(req, parsed.value.email);
     const user = await findUserForSignIn(ctx.db, parsed.value.email);
-    // The same answer whether or not the address has an account.
-    if (user && user.active) await sendPasswordResetLink(ctx, user);
+    // The same answer, in the same time, whether or not the address has an account or is over
+    // its limit: the message is sent after the answer.
+    if (allowed && user && user.active) {
+      setImmediate(() => {
+        sendPasswordResetLink(ctx, user).catch((err) => ctx.logger.error({ err }, 'reset e-mail not sent'));
+      });
+    }
     res.render('auth/forgot', { title: 'Forgotten password', email: parsed.value.email, sent: true, errors: {} });
   });
 

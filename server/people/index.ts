@@ -6,4 +6,4 @@ export { accountPages } from './account-pages';
 export { userAdminPages } from './user-pages';
 export { configurePassport } from './passport';
 export { SessionStore } from './session-store';
-export { signInLimits } from './sign-in-limits';
+export { accessLimits, MemoryAttemptStore, type AttemptStore, type AccessLimits } from './sign-in-limits';

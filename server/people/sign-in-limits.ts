@@ -1,44 +1,127 @@
-import { rateLimit, ipKeyGenerator } from 'express-rate-limit';
-import type { RequestHandler } from 'express';
+import type { Request, RequestHandler } from 'express';
 import { HttpError } from '../platform/errors';
 import { normaliseEmail } from './db';
 
-const WINDOW_MS = 15 * 60 * 1000;
+/**
+ * Where attempt counters live. Each key counts in fixed windows: the first hit opens a window of
+ * `windowMs`, later hits add to it until it ends. The memory store serves one app server; a
+ * deployment with several gives them one shared store (the same three methods over a table).
+ */
+export interface AttemptStore {
+  /** Adds one to the key's count and returns the new count within its window. */
+  hit(key: string, windowMs: number): Promise<number>;
+  /** The key's count within its window (0 when none). */
+  count(key: string): Promise<number>;
+  /** Forgets the key. */
+  reset(key: string): Promise<void>;
+}
+
+export class MemoryAttemptStore implements AttemptStore {
+  private counts = new Map<string, { n: number; until: number }>();
+  async hit(key: string, windowMs: number) {
+    const now = Date.now();
+    const entry = this.counts.get(key);
+    if (!entry || entry.until <= now) {
+      if (this.counts.size > 100_000) this.sweep(now); // bounded memory
+      this.counts.set(key, { n: 1, until: now + windowMs });
+      return 1;
+    }
+    entry.n += 1;
+    return entry.n;
+  }
+  async count(key: string) {
+    const entry = this.counts.get(key);
+    return entry && entry.until > Date.now() ? entry.n : 0;
+  }
+  async reset(key: string) {
+    this.counts.delete(key);
+  }
+  private sweep(now: number) {
+    for (const [key, entry] of this.counts) if (entry.until <= now) this.counts.delete(key);
+  }
+}
+
+export const WINDOW_MS = 15 * 60 * 1000;
+const FORGOT_WINDOW_MS = 60 * 60 * 1000;
+const MAX_DELAY_MS = 10_000;
+
+export interface AccessLimitSettings {
+  /** Failures per (account, address) pair before that pair waits out the window. */
+  perPair: number;
+  /** Failures per client address (any accounts) before the address waits out the window. */
+  perAddress: number;
+  /** Failures per account (any addresses) before its sign-ins are slowed down. */
+  perAccount: number;
+  /** The first delay once an account is over its limit; it doubles with each further failure. */
+  slowdownMs: number;
+  /** Reset e-mails per client address, and per target account, per hour. */
+  forgotPerAddress: number;
+  forgotPerAccount: number;
+}
 
 /**
- * Failed sign-ins are limited per account (guessing one password) and per address (trying many
- * accounts). Only failures count (status ≥ 400), so people who sign in often are never slowed.
- * Counters live in memory: a deployment with several app servers should give each the same store.
+ * The account's delay before its password is checked: none up to `perAccount` failures, then
+ * slowdownMs × 2^(failures − perAccount − 1), at most 10 s. With perAccount 5 and 500 ms: the
+ * 6th failure in the window makes the next try wait 500 ms, the 7th 1 s, the 8th 2 s.
  */
-export function signInLimits(perAccount: number, perAddress: number): RequestHandler[] {
-  const onLimit: RequestHandler = () => {
-    throw new HttpError('rate_limited', 'Too many failed sign-ins. Wait 15 minutes, or ask an administrator to reset your password.');
-  };
-  const common = {
-    windowMs: WINDOW_MS,
-    skipSuccessfulRequests: true,
-    standardHeaders: 'draft-8' as const,
-    legacyHeaders: false,
-    handler: (req: Parameters<RequestHandler>[0], res: Parameters<RequestHandler>[1], next: Parameters<RequestHandler>[2]) => {
-      try {
-        onLimit(req, res, next);
-      } catch (err) {
-        next(err);
-      }
-    },
-  };
-  const byAddress = rateLimit({
-    ...common,
-    limit: perAddress,
-    keyGenerator: (req) => `addr:${ipKeyGenerator(req.ip ?? 'unknown')}`,
-  });
-  const byAccount = rateLimit({
-    ...common,
-    limit: perAccount,
-    keyGenerator: (req) => {
-      const email = typeof req.body?.email === 'string' ? normaliseEmail(req.body.email) : '';
-      return `acct:${email}`;
-    },
-  });
-  return [byAddress, byAccount];
+export function accountDelayMs(failures: number, s: Pick<AccessLimitSettings, 'perAccount' | 'slowdownMs'>): number {
+  if (failures <= s.perAccount) return 0;
+  return Math.min(MAX_DELAY_MS, s.slowdownMs * 2 ** (failures - s.perAccount - 1));
 }
+
+const addressOf = (req: Request) => req.ip ?? 'unknown';
+const emailOf = (req: Request) => (typeof req.body?.email === 'string' ? normaliseEmail(req.body.email) : '');
+const sleep = (ms: number) => new Promise((resolve) => setTimeout(resolve, ms));
+
+/**
+ * Sign-in and reset-mail limits. A stranger cannot lock anyone out: refusals are per (account,
+ * address) pair and per address, so they only ever hold up the address the failures came from;
+ * an account attacked from many addresses is only slowed down, and its owner's correct password
+ * from a clean address still signs in.
+ */
+export function accessLimits(settings: AccessLimitSettings, store: AttemptStore = new MemoryAttemptStore()) {
+  const keys = (req: Request) => {
+    const address = addressOf(req);
+    const email = emailOf(req);
+    return { pair: `pair:${email}|${address}`, address: `addr:${address}`, account: `acct:${email}` };
+  };
+
+  const signIn: RequestHandler = async (req, res, next) => {
+    try {
+      const k = keys(req);
+      const [pair, address, account] = await Promise.all([store.count(k.pair), store.count(k.address), store.count(k.account)]);
+      if (pair >= settings.perPair || address >= settings.perAddress) {
+        throw new HttpError('rate_limited', 'Too many failed sign-ins from here. Wait 15 minutes, or ask an administrator to reset your password.');
+      }
+      const delay = accountDelayMs(account, settings);
+      if (delay) await sleep(delay);
+      // Failures (wrong password, unknown address, bad token) count once the answer is known;
+      // a successful sign-in clears its own pair.
+      res.on('finish', () => {
+        const failed = res.statusCode >= 400 && res.statusCode !== 429;
+        const work = failed
+          ? Promise.all([store.hit(k.pair, WINDOW_MS), store.hit(k.address, WINDOW_MS), k.account !== 'acct:' ? store.hit(k.account, WINDOW_MS) : 0])
+          : res.statusCode < 400
+            ? store.reset(k.pair)
+            : Promise.resolve();
+        work.catch(() => undefined);
+      });
+      next();
+    } catch (err) {
+      next(err);
+    }
+  };
+
+  /** True when a reset message may go out now; the page answers the same either way. */
+  async function allowResetMail(req: Request, email: string): Promise<boolean> {
+    const [byAddress, byAccount] = await Promise.all([
+      store.hit(`forgot-addr:${addressOf(req)}`, FORGOT_WINDOW_MS),
+      store.hit(`forgot-acct:${normaliseEmail(email)}`, FORGOT_WINDOW_MS),
+    ]);
+    return byAddress <= settings.forgotPerAddress && byAccount <= settings.forgotPerAccount;
+  }
+
+  return { signIn, allowResetMail };
+}
+
+export type AccessLimits = ReturnType<typeof accessLimits>;

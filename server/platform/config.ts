@@ -57,10 +57,18 @@ const envSchema = z.object({
   RESET_LINK_MINUTES: z.coerce.number().int().positive().default(60),
   /** Hours an invitation link stays valid. */
   INVITE_LINK_HOURS: z.coerce.number().int().positive().default(72),
-  /** Failed sign-ins allowed per account per 15 minutes. */
-  SIGNIN_LIMIT_PER_ACCOUNT: z.coerce.number().int().positive().default(5),
-  /** Sign-in attempts allowed per client address per 15 minutes. */
+  /** Failed sign-ins per (account, client address) pair per 15 minutes; then that pair waits. */
+  SIGNIN_LIMIT_PER_PAIR: z.coerce.number().int().positive().default(5),
+  /** Failed sign-ins per account (from any addresses) per 15 minutes before its sign-ins are slowed. */
+  SIGNIN_LIMIT_PER_ACCOUNT: z.coerce.number().int().positive().default(10),
+  /** Failed sign-ins per client address per 15 minutes; then that address waits. */
   SIGNIN_LIMIT_PER_ADDRESS: z.coerce.number().int().positive().default(30),
+  /** The first delay (ms) of an account over its limit; it doubles with each further failure, to 10 s. */
+  SIGNIN_SLOWDOWN_MS: z.coerce.number().int().min(0).max(10_000).default(500),
+  /** Password-reset e-mails per client address per hour. */
+  FORGOT_LIMIT_PER_ADDRESS: z.coerce.number().int().positive().default(10),
+  /** Password-reset e-mails per account per hour. */
+  FORGOT_LIMIT_PER_ACCOUNT: z.coerce.number().int().positive().default(3),
   /** Sampling reminders cover plantings whose planned termination is within this many days. */
   REMIND_DAYS_AHEAD: z.coerce.number().int().min(1).max(120).default(14),
   /** Run the daily jobs (sampling reminders) inside the server; false when an outside scheduler runs `npm run remind`. */

@@ -121,6 +121,7 @@ describe('password reset', () => {
     const res = await visitor.post('/password/forgot').type('form').send({ _csrf: csrfFromHtml(page.text), email });
     expect(res.status).toBe(200);
     expect(res.text).toContain('is on its way');
+    await new Promise((r) => setTimeout(r, 200)); // the message is sent after the answer
     return visitor;
   }
 

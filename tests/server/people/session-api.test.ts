@@ -62,7 +62,7 @@ describe('POST /api/session', () => {
     expect(stale.body.error.code).toBe('csrf');
   });
 
-  it('limits failed sign-ins per account', async () => {
+  it('limits failed sign-ins per account and address pair', async () => {
     for (let i = 0; i < 5; i++) {
       const r = await request(t.app).post('/api/session').send({ email: 'admin@crowntip.test', password: `wrong-${i}-xxxxxx` });
       expect(r.status).toBe(401);
