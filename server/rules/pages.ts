@@ -8,6 +8,7 @@ import { ftToM, mToFt } from '../../shared/calc/units';
 import { DECISION_BASIS_NAMES, DECISION_BASIS_WORDS } from '../../shared/format';
 import { kgPerHaToLbPerAc } from '../../shared/calc/units';
 import { todayIso } from '../../shared/registry/season';
+import { HttpError } from '../platform/errors';
 import { creditRuleInputSchema } from '../../shared/schemas/rules';
 import { currentCreditRule, listRuleVersions, saveRuleVersion } from './service';
 import { numberOrText, rateToKgHa } from '../platform/form-values';
@@ -91,7 +92,13 @@ export function rulesPages(ctx: AppContext): Router {
       );
       return show(req, 400, res, { ...b, eligibleCrops: crops }, errors);
     }
-    const saved = await saveRuleVersion(ctx.db, contextOf(req).organisationId, parsed.value, contextOf(req).user);
+    let saved;
+    try {
+      saved = await saveRuleVersion(ctx.db, contextOf(req).organisationId, parsed.value, contextOf(req).user);
+    } catch (err) {
+      if (err instanceof HttpError && err.fields) return show(req, 400, res, { ...b, eligibleCrops: crops }, err.fields);
+      throw err;
+    }
     req.session.flash = { kind: 'info', text: `Rule version ${saved.version} saved, in effect from ${saved.effectiveFrom}.` };
     res.redirect('/admin/rules');
   });

@@ -1,3 +1,4 @@
+import { HttpError } from '../platform/errors';
 import type { Knex } from 'knex';
 import { DEMO_RULE, type CreditRule } from '../../shared/calc/rules';
 import { DEMO_VERDICT_RULE } from '../../shared/calc/verdict';
@@ -58,6 +59,13 @@ export async function creditRuleForYear(db: Knex, organisationId: string, year: 
  */
 export async function saveRuleVersion(db: Knex, organisationId: string, input: CreditRuleInput, author: { id: string; name: string } | null): Promise<StoredCreditRule> {
   const { effectiveFrom, notes, decisionBasis, confidence, minPlants, edgeMarginM, ...rule } = input;
+  // A back-dated version would silently change the drafts of years already reported on (each year
+  // uses the version in effect on its 1 January), so a new version starts today or later.
+  const today = todayIso();
+  if (effectiveFrom && effectiveFrom < today) {
+    const message = `A new rule version cannot start in the past: it would change registers already drafted for earlier dates. Choose today (${today}) or a later date.`;
+    throw new HttpError('invalid', message, { effectiveFrom: message });
+  }
   const current = await currentCreditRule(db, organisationId);
   return insertRuleVersion(
     db,
@@ -68,7 +76,7 @@ export async function saveRuleVersion(db: Knex, organisationId: string, input: C
       confidence: confidence ?? current.confidence,
       minPlants: minPlants ?? current.minPlants,
       edgeMarginM: edgeMarginM ?? current.edgeMarginM,
-      effectiveFrom: effectiveFrom ?? todayIso(),
+      effectiveFrom: effectiveFrom ?? today,
       notes,
     },
     author,

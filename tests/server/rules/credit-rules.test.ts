@@ -5,6 +5,7 @@ import { lbPerAcToKgPerHa } from '../../../shared/calc/units';
 import { DEMO_ORGANISATIONS } from '../../../seeds/demo-people';
 import { creditRuleForYear, currentCreditRule } from '../../../server/rules/service';
 import { insertRuleVersion } from '../../../server/rules/db';
+import { todayIso } from '../../../shared/registry/season';
 
 let t: TestApp;
 beforeEach(async () => {
@@ -48,7 +49,7 @@ describe('rule versions', () => {
 describe('PUT /api/rules/current', () => {
   it('saves a new version for an admin, leaving earlier ones', async () => {
     const { agent, csrf } = await signInApi(t.app, 'admin@crowntip.test');
-    const res = await agent.put('/api/rules/current').set('X-CSRF-Token', csrf).send({ ...RULE, effectiveFrom: '2026-01-01' });
+    const res = await agent.put('/api/rules/current').set('X-CSRF-Token', csrf).send({ ...RULE, effectiveFrom: todayIso() });
     expect(res.status).toBe(200);
     expect(res.body).toMatchObject({ version: 2, minDaysInWindow: 75, window: RULE.window, isDemo: false });
     const versions = await agent.get('/api/rules/versions');
@@ -90,7 +91,7 @@ describe('the rule page', () => {
       eligibleCrops: ['cereal_rye', 'barley'],
       credit: '45',
       maxDaysSampleBeforeTermination: '20',
-      effectiveFrom: '2026-01-01',
+      effectiveFrom: todayIso(), // a new version starts today or later (tests/server/rules/rule-back-dating.test.ts)
     });
     expect(res.status).toBe(302);
     const rule = await currentCreditRule(t.db, ORG);

@@ -4,6 +4,7 @@ import { DEMO_ORGANISATIONS } from '../../../seeds/demo-people';
 import { creditRuleInEffectSchema } from '../../../shared/schemas/rules';
 import { currentCreditRule } from '../../../server/rules/service';
 import { insertRuleVersion } from '../../../server/rules/db';
+import { todayIso } from '../../../shared/registry/season';
 
 /*
  * How a credit rule decides a walk's verdict: decision basis, confidence, minimum plants, and the
@@ -38,7 +39,7 @@ const form = {
   eligibleCrops: ['cereal_rye'],
   credit: '45',
   maxDaysSampleBeforeTermination: '20',
-  effectiveFrom: '2026-01-01',
+  effectiveFrom: todayIso(),
 };
 
 describe('decision basis on the rule', () => {
@@ -57,12 +58,13 @@ describe('decision basis on the rule', () => {
 
   it('PUT keeps the version in effect\'s choice when the fields are left out, and stores them when given', async () => {
     const { agent, csrf } = await signInApi(t.app, 'admin@crowntip.test');
-    const kept = await agent.put('/api/rules/current').set('X-CSRF-Token', csrf).send({ ...RULE, effectiveFrom: '2026-01-01' });
+    const kept = await agent.put('/api/rules/current').set('X-CSRF-Token', csrf).send({ ...RULE, effectiveFrom: todayIso() });
     expect(kept.body).toMatchObject({ version: 2, decisionBasis: 'point_with_borderline', confidence: 0.9, minPlants: 10 });
     const set = await agent
       .put('/api/rules/current')
       .set('X-CSRF-Token', csrf)
-      .send({ ...RULE, effectiveFrom: '2026-01-02', decisionBasis: 'lower_bound', confidence: 0.95, minPlants: 12, edgeMarginM: 15 });
+      // Same day as version 2: the higher version wins (server/rules/db.ts, ruleInEffect).
+      .send({ ...RULE, effectiveFrom: todayIso(), decisionBasis: 'lower_bound', confidence: 0.95, minPlants: 12, edgeMarginM: 15 });
     expect(set.status).toBe(200);
     expect(set.body).toMatchObject({ version: 3, decisionBasis: 'lower_bound', confidence: 0.95, minPlants: 12, edgeMarginM: 15 });
   });
