@@ -14,6 +14,7 @@ import * as m20261202030000 from './20261202030000_organisation_scoped_links';
 import * as m20261202040000 from './20261202040000_verdict_rule_fields_and_skipped_stops';
 import * as m20261202043000 from './20261202043000_users_session_version';
 import * as m20261202044500 from './20261202044500_register_signatures';
+import * as m20261202045000 from './20261202045000_walk_tissue_nitrogen';
 
 interface Migration {
   up: (knex: Knex) => Promise<void>;
@@ -38,6 +39,7 @@ const migrations: Record<string, Migration> = {
   '20261202040000_verdict_rule_fields_and_skipped_stops': m20261202040000,
   '20261202043000_users_session_version': m20261202043000,
   '20261202044500_register_signatures': m20261202044500,
+  '20261202045000_walk_tissue_nitrogen': m20261202045000,
 };
 
 export const migrationSource: Knex.MigrationSource<string> = {

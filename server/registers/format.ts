@@ -1,5 +1,9 @@
 import { KG_PER_LB, cmToIn, haToAc, kgPerHaToLbPerAc } from '../../shared/calc/units';
 import { CROP_LABELS } from '../../shared/registry/crops';
+import type { EligibilityReason } from '../../shared/calc/eligibility';
+import { DECISION_BASIS_WORDS, eligibilityReasonText } from '../../shared/format/messages';
+import { SHOOT_N_CAUTION, shootNitrogenText, verdictWord, walkBiomassText, walkVerdictReasonText, type WalkVerdictReasonData } from '../../shared/format/walk';
+import type { Verdict as WalkVerdictWord } from '../../shared/calc/verdict';
 import type { Units } from '../people/public';
 import type { FinalRegister, Register, RegisterRow, RegisterRule, Verdict } from './service';
 
@@ -56,11 +60,24 @@ export function registerUnits(units: Units, locale = 'en-US') {
         ? `${f.rate(row.walk.biomassKgHa)} (${f.rateNumber(row.walk.interval[0])}–${f.rateNumber(row.walk.interval[1])}, ${Math.round(row.walk.level * 100)} %)`
         : '—',
     verdict: (v: Verdict) => VERDICT_LABELS[v],
+    /** The walk's own verdict (meets / below / borderline) and how it was decided; null without a walk. */
+    walkVerdict: (row: RegisterRow, rule: RegisterRule) => walkVerdictOfRow(row, rule),
+    /** The walk's biomass exactly as the walk page, PDF, CSV and e-mail print it. */
+    walkBiomass: (row: RegisterRow, rule: RegisterRule) =>
+      row.walk ? walkBiomassText({ biomassKgHa: row.walk.biomassKgHa, thresholdKgHa: row.walk.thresholdKgHa ?? rule.thresholdKgHa }, units) : '—',
+    /** N in the shoots with its interval, or '—' without a lab value. */
+    shootNCaution: SHOOT_N_CAUTION.en,
+    shootN: (row: RegisterRow) => (row.walk?.shootN ? shootNitrogenText(row.walk.shootN.kgNPerHa, row.walk.shootN.interval, units) : '—'),
     /**
-     * A reason in the reader's units and crop names. The snapshot keeps the core's own words (SI
-     * units, crop codes); the two reasons that carry a number or a code are said again here.
+     * A reason in the reader's units and crop names, worded afresh from its code and numbers.
+     * Versions finalised before reasons kept their numbers fall back to what could be said then.
      */
-    reason: (reason: { code: string; message: string }, row: RegisterRow, rule: RegisterRule) => {
+    reason: (reason: { code: string; message: string; data?: Record<string, unknown> }, row: RegisterRow, rule: RegisterRule) => {
+      const reader = { lang: 'en' as const, units };
+      if ((reason.code === 'walk_borderline' || reason.code === 'walk_below') && reason.data) {
+        return walkVerdictReasonText(reason.data as unknown as WalkVerdictReasonData, reader);
+      }
+      if (reason.data) return eligibilityReasonText(reason as EligibilityReason, reader, cropLabel);
       if (reason.code === 'below_threshold' && row.walk) {
         return `The estimated biomass, ${f.rate(row.walk.biomassKgHa)}, is below the ${f.rate(rule.thresholdKgHa)} threshold.`;
       }
@@ -73,6 +90,26 @@ export function registerUnits(units: Units, locale = 'en-US') {
 }
 
 export type RegisterUnits = ReturnType<typeof registerUnits>;
+
+export interface RowWalkVerdict {
+  verdict: WalkVerdictWord;
+  word: string;
+  decisionBasis: string;
+  basisWords: string;
+  ruleVersionId: string | null;
+}
+
+/**
+ * A row's walk verdict. Versions finalised before walks carried their verdict fall back to the
+ * point estimate against the register's threshold, which is what those registers judged by.
+ */
+export function walkVerdictOfRow(row: RegisterRow, rule: RegisterRule): RowWalkVerdict | null {
+  const w = row.walk;
+  if (!w) return null;
+  const verdict: WalkVerdictWord = w.verdict ?? (w.biomassKgHa >= (w.thresholdKgHa ?? rule.thresholdKgHa) ? 'meets' : 'below');
+  const basis = w.decisionBasis ?? 'point';
+  return { verdict, word: verdictWord(verdict), decisionBasis: basis, basisWords: DECISION_BASIS_WORDS.en[basis], ruleVersionId: w.ruleVersionId ?? null };
+}
 
 export const shortId = (id: string) => id.slice(0, 8);
 
@@ -87,4 +124,17 @@ export function registerFileStem(doc: { ranch: { name: string }; year: number; s
     .replace(/-+/g, '-')
     .slice(0, 60);
   return `crowntip-register-${slug || 'ranch'}-${doc.year}-${doc.status === 'final' ? `v${doc.version}` : 'draft'}`;
+}
+
+/**
+ * One line per field with a walk, for the e-mail to the grower: the same verdict word and rounded
+ * biomass as the walk page, register page, PDF and CSV.
+ */
+export function registerFieldLines(doc: Pick<Register, 'rows' | 'rule'>, u: RegisterUnits): string[] {
+  return doc.rows.flatMap((r) => {
+    const wv = walkVerdictOfRow(r, doc.rule);
+    if (!r.walk || !wv) return [`${r.fieldName}: ${VERDICT_LABELS[r.verdict]}.`];
+    const n = r.walk.shootN ? `; N in the shoots ${u.shootN(r)} (estimate)` : '';
+    return [`${r.fieldName}: walk of ${r.walk.walkedOn} ${wv.word}, ${u.walkBiomass(r, doc.rule)}${n}; ${VERDICT_LABELS[r.verdict]}${r.creditKgN && r.verdict === 'eligible' ? `, ${u.massN(r.creditKgN)}` : ''}.`];
+  });
 }

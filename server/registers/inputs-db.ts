@@ -28,6 +28,8 @@ export interface ApprovedWalkInput {
   walkedOn: string;
   /** The estimate snapshot stored with the walk; null when no calibration was assigned. */
   estimate: WalkEstimate | null;
+  /** The lab's tissue N % the office entered for the walk, if any (information, never the verdict). */
+  tissueNPercent?: number | null;
 }
 
 /** Every field of the organisation (or of the given ranches) with its planting of `season`; used by registers and the season view. */
@@ -75,10 +77,10 @@ const ID_CHUNK = 500;
 export async function approvedWalksFor(db: Knex, organisationId: string, plantingIds: string[]): Promise<ApprovedWalkInput[]> {
   const out: ApprovedWalkInput[] = [];
   for (let i = 0; i < plantingIds.length; i += ID_CHUNK) {
-    const rows: Record<string, string | null>[] = await inOrganisation(db, 'field_walks', organisationId)
+    const rows: Record<string, string | number | null>[] = await inOrganisation(db, 'field_walks', organisationId)
       .where('field_walks.status', 'approved')
       .whereIn('field_walks.planting_id', plantingIds.slice(i, i + ID_CHUNK))
-      .select('field_walks.id', 'field_walks.planting_id', 'field_walks.walked_on', 'field_walks.estimate')
+      .select('field_walks.id', 'field_walks.planting_id', 'field_walks.walked_on', 'field_walks.estimate', 'field_walks.tissue_n_percent')
       .orderBy('field_walks.planting_id')
       .orderBy('field_walks.walked_on')
       .orderBy('field_walks.reviewed_at')
@@ -88,7 +90,8 @@ export async function approvedWalksFor(db: Knex, organisationId: string, plantin
         id: r.id as string,
         plantingId: r.planting_id as string,
         walkedOn: String(r.walked_on).slice(0, 10),
-        estimate: r.estimate ? (JSON.parse(r.estimate) as WalkEstimate) : null,
+        estimate: r.estimate ? (JSON.parse(String(r.estimate)) as WalkEstimate) : null,
+        tissueNPercent: r.tissue_n_percent == null ? null : Number(r.tissue_n_percent),
       });
     }
   }

@@ -130,7 +130,7 @@ export function createRegisterJobs(opts: RegisterJobsOptions) {
     job.fieldsTotal = Math.max(job.fieldsTotal, job.fieldsComputed);
 
     job.phase = 'writing';
-    const csv = registerCsv(docs);
+    const csv = registerCsv(docs, job.units);
     const totals = summarise(docs.flatMap((d) => d.rows));
     const u = registerUnits(job.units);
     const finalCount = docs.filter((d) => d.status === 'final').length;

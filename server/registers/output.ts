@@ -3,8 +3,9 @@ import path from 'node:path';
 import PDFDocument from 'pdfkit';
 import { KG_PER_LB, cmToIn, haToAc, kgPerHaToLbPerAc } from '../../shared/calc/units';
 import { toCsv } from '../platform/csv-safe';
+import { SHOOT_N_CAUTION } from '../../shared/format/walk';
 import type { Units } from '../people/public';
-import { CAUTIONS, VERDICT_LABELS, cropLabel, registerUnits, shortId, type RegisterDoc } from './format';
+import { CAUTIONS, VERDICT_LABELS, cropLabel, registerUnits, shortId, walkVerdictOfRow, type RegisterDoc, type RegisterUnits } from './format';
 import type { RegisterRow, RegisterTotals } from './service';
 
 /*
@@ -46,7 +47,18 @@ export const REGISTER_CSV_COLUMNS = [
   'calibration_id',
   'calibration_version',
   'extrapolated',
+  'biomass_shown',
   'verdict',
+  'decision_basis',
+  'rule_version',
+  'walk_threshold_kg_ha',
+  'tissue_n_percent',
+  'shoot_n_kg_ha',
+  'shoot_n_low_kg_ha',
+  'shoot_n_high_kg_ha',
+  'shoot_n_lb_ac',
+  'shoot_n_shown',
+  'credit_status',
   'eligible_area_ha',
   'credit_kg_n',
   'credit_lb_n',
@@ -55,8 +67,10 @@ export const REGISTER_CSV_COLUMNS = [
 
 const round = (n: number | null | undefined, digits: number) => (n == null ? null : Number(n.toFixed(digits)));
 
-function csvRow(doc: RegisterDoc, r: RegisterRow): unknown[] {
+function csvRow(doc: RegisterDoc, r: RegisterRow, u: RegisterUnits): unknown[] {
   const w = r.walk;
+  const wv = walkVerdictOfRow(r, doc.rule);
+  const n = w?.shootN ?? null;
   return [
     doc.ranch.name,
     doc.year,
@@ -88,11 +102,22 @@ function csvRow(doc: RegisterDoc, r: RegisterRow): unknown[] {
     w?.calibrationId ?? '',
     w ? String(w.calibrationVersion) : '',
     w ? w.extrapolated : '',
+    w ? u.walkBiomass(r, doc.rule) : '',
+    wv?.verdict ?? '',
+    wv?.decisionBasis ?? '',
+    wv?.ruleVersionId ?? '',
+    w ? round(w.thresholdKgHa ?? doc.rule.thresholdKgHa, 2) : null,
+    w?.tissueNPercent ?? null,
+    n ? round(n.kgNPerHa, 1) : null,
+    n?.interval ? round(n.interval[0], 1) : null,
+    n?.interval ? round(n.interval[1], 1) : null,
+    n ? round(kgPerHaToLbPerAc(n.kgNPerHa), 1) : null,
+    n ? u.shootN(r) : '',
     r.verdict,
     r.verdict === 'eligible' ? round(r.areaHa, 4) : 0,
     round(r.creditKgN, 3),
     round(r.creditKgN / KG_PER_LB, 3),
-    r.reasons.map((x) => x.message).join(' | '),
+    r.reasons.map((x) => u.reason(x, r, doc.rule)).join(' | '),
   ];
 }
 
@@ -108,24 +133,27 @@ function csvTotals(doc: RegisterDoc, t: RegisterTotals): unknown[] {
   set('field', 'TOTAL');
   set('area_ha', round(t.totalAreaHa, 4));
   set('area_ac', round(haToAc(t.totalAreaHa), 2));
-  set('verdict', `${t.eligibleFields} of ${t.fields} fields eligible`);
+  set('credit_status', `${t.eligibleFields} of ${t.fields} fields eligible`);
   set('eligible_area_ha', round(t.eligibleAreaHa, 4));
   set('credit_kg_n', round(t.creditKgN, 3));
   set('credit_lb_n', round(t.creditKgN / KG_PER_LB, 3));
-  set(
-    'reasons',
-    t.projectedFields
-      ? `${t.projectedFields} field(s) not yet terminated are projected and not counted; they would add ${round(t.projectedCreditKgN, 1)} kg N`
-      : '',
-  );
+  const notes = [
+    t.projectedFields ? `${t.projectedFields} field(s) not yet terminated are projected and not counted; they would add ${round(t.projectedCreditKgN, 1)} kg N` : '',
+    doc.rows.some((r) => r.walk?.shootN) ? SHOOT_N_CAUTION.en : '',
+  ];
+  set('reasons', notes.filter(Boolean).join(' | '));
   return row;
 }
 
-/** One CSV for one or many registers: each field's row, then that register's totals row. */
-export function registerCsv(docs: RegisterDoc[]): string {
+/**
+ * One CSV for one or many registers: each field's row, then that register's totals row. Stored
+ * values stay SI; `biomass_shown`, `shoot_n_shown` and the reasons are in the reader's units.
+ */
+export function registerCsv(docs: RegisterDoc[], units: Units = 'us'): string {
+  const u = registerUnits(units);
   const rows: unknown[][] = [];
   for (const d of docs) {
-    for (const r of d.rows) rows.push(csvRow(d, r));
+    for (const r of d.rows) rows.push(csvRow(d, r, u));
     rows.push(csvTotals(d, d.totals));
   }
   return toCsv(rows, REGISTER_CSV_COLUMNS);
@@ -150,6 +178,8 @@ export interface PdfOptions {
 }
 
 const INK = '#23201a';
+// Meets in the theme's shoot green, below in clay, borderline in plain ink: neither good nor bad.
+const WALK_VERDICT_INK = { meets: '#1f5f36', below: '#a63d1f', borderline: INK } as const;
 const MUTED = '#5b5446';
 const RULE = '#b9b2a3';
 const FIELD_ROW_FONT = 7.5;
@@ -159,6 +189,9 @@ interface Column {
   share: number;
   align?: 'left' | 'right';
   cell: (r: RegisterRow) => string;
+  /** Ink of the cell when it differs from the row's. */
+  color?: (r: RegisterRow) => string | null;
+  bold?: (r: RegisterRow) => boolean;
 }
 
 const yieldToLoop = () => new Promise<void>((resolve) => setImmediate(resolve));
@@ -202,8 +235,16 @@ export async function registerPdf(docs: RegisterDoc[], opts: PdfOptions): Promis
     { title: 'Days in window', share: 5.5, align: 'right', cell: (r) => (r.daysInWindow == null ? '—' : String(r.daysInWindow)) },
     { title: 'Approved walk', share: 12.5, cell: (r) => (r.walk ? (r.walkQualifies ? `${r.walk.walkedOn} · ${shortId(r.walk.id)}` : `${r.walk.walkedOn} (not usable)`) : '—') },
     { title: `Mean length`, share: 6, align: 'right', cell: (r) => (r.walk ? `${u.length(r.walk.meanLengthCm)}` : '—') },
-    { title: `Estimate, ${u.rateUnit} (interval)`, share: 12.5, cell: (r) => (r.walk ? `${u.rateNumber(r.walk.biomassKgHa)} (${u.rateNumber(r.walk.interval[0])}–${u.rateNumber(r.walk.interval[1])})` : '—') },
-    { title: 'Verdict', share: 10, cell: (r) => VERDICT_LABELS[r.verdict] },
+    { title: `Estimate (interval)`, share: 13.5, cell: (r) => (r.walk ? `${current ? u.walkBiomass(r, current.rule) : u.rate(r.walk.biomassKgHa)} (${u.rateNumber(r.walk.interval[0])}–${u.rateNumber(r.walk.interval[1])})` : '—') },
+    {
+      title: 'Walk verdict',
+      share: 6.5,
+      cell: (r) => (current && r.walk ? (walkVerdictOfRow(r, current.rule)?.word ?? '—') : '—'),
+      color: (r) => (current && r.walk ? WALK_VERDICT_INK[walkVerdictOfRow(r, current.rule)!.verdict] : null),
+      bold: (r) => Boolean(current && r.walk && walkVerdictOfRow(r, current.rule)!.verdict !== 'borderline'),
+    },
+    { title: `N in shoots* (${opts.units === 'us' ? 'lb N/ac' : 'kg N/ha'})`, share: 8, cell: (r) => (r.walk?.shootN ? u.shootN(r).replace(/ (lb|kg) N\/(ac|ha)/, '') : '—') },
+    { title: 'Credit status', share: 8.5, cell: (r) => VERDICT_LABELS[r.verdict] },
     { title: `Credit (${u.massUnit})`, share: 6.5, align: 'right', cell: (r) => (r.creditKgN ? `${r.verdict === 'projected_eligible' ? '(' : ''}${u.massNumber(r.creditKgN)}${r.verdict === 'projected_eligible' ? ')' : ''}` : '0') },
   ];
   const totalShare = columns.reduce((s, c) => s + c.share, 0);
@@ -293,7 +334,10 @@ export async function registerPdf(docs: RegisterDoc[], opts: PdfOptions): Promis
       ensure(rowH + 3, true);
       const y = pdf.y;
       pdf.font(r.verdict === 'eligible' ? 'Lato-Bold' : 'Lato').fontSize(FIELD_ROW_FONT).fillColor(INK);
+      const rowFont = r.verdict === 'eligible' ? 'Lato-Bold' : 'Lato';
       columns.forEach((c, i) => {
+        const bold = c.bold ? c.bold(r) : rowFont === 'Lato-Bold';
+        pdf.font(bold ? 'Lato-Bold' : 'Lato').fillColor(c.color?.(r) ?? INK);
         const text = fit(c.cell(r), xs[i].w - 4);
         pdf.text(text, xs[i].x + 2, y, { width: xs[i].w - 4, align: c.align ?? 'left', lineBreak: false });
       });
@@ -343,6 +387,7 @@ export async function registerPdf(docs: RegisterDoc[], opts: PdfOptions): Promis
     pdf.moveDown(0.6);
     heading('Cautions', 11);
     for (const c of CAUTIONS) para(c, 8.5);
+    if (doc.rows.some((r) => r.walk?.shootN)) para(`* ${SHOOT_N_CAUTION.en}`, 8.5);
     if (rule.isDemo) para('This register uses demo rule values that have not been confirmed with the local authority.', 8.5);
   }
 

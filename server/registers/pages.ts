@@ -11,7 +11,7 @@ import { organisationSummary } from './summary';
 import { registerRanches } from './service';
 import { todayIso } from '../../shared/registry/season';
 import { barChartSvg } from './chart';
-import { CAUTIONS, asDraft, asFinal, cropLabel, registerFileStem, registerUnits, shortId } from './format';
+import { CAUTIONS, asDraft, asFinal, cropLabel, registerFieldLines, registerFileStem, registerUnits, shortId } from './format';
 import { registerPdf } from './output';
 import { createRegisterJobs } from './jobs';
 import {
@@ -183,6 +183,9 @@ export function registerPages(ctx: AppContext): Router {
         '',
         `Fields: ${t.fields}; eligible: ${t.eligibleFields} (${rf.area(t.eligibleAreaHa)} of ${rf.area(t.totalAreaHa)}).`,
         `Credit total: ${rf.massN(t.creditKgN)} (${rf.num(t.creditKgN, 1)} kg N).`,
+        '',
+        ...registerFieldLines(final, rf),
+        ...(final.rows.some((r) => r.walk?.shootN) ? ['', rf.shootNCaution] : []),
         '',
         `Content hash (SHA-256): ${final.contentHash}`,
         '',

@@ -101,7 +101,7 @@ export function registersApi(ctx: AppContext): Router {
     res.setHeader('Content-Type', 'text/csv; charset=utf-8');
     res.setHeader('Content-Disposition', `attachment; filename="${registerFileStem(doc)}.csv"`);
     res.setHeader('X-Content-Hash', doc.contentHash!);
-    res.send(registerCsv([doc]));
+    res.send(registerCsv([doc], contextOf(req).units));
   };
 
   const pdf = async (req: Request<{ id: string }>, res: Response) => {

@@ -4,6 +4,10 @@ import type { Knex } from 'knex';
 import { CalcError } from '../../shared/calc/errors';
 import { creditEligibility } from '../../shared/calc/eligibility';
 import { daysBetween } from '../../shared/calc/dates';
+import { shootNitrogen } from '../../shared/calc/nitrogen';
+import type { DecisionBasis } from '../../shared/calc/rules';
+import type { MorePlantsAdvice, Verdict as WalkVerdictWord, VerdictReason } from '../../shared/calc/verdict';
+import { walkVerdictOf, type StoredEstimate } from '../../shared/format/walk';
 import { seasonStarting } from '../../shared/registry/season';
 import { CROP_LABELS } from '../../shared/registry/crops';
 import { HttpError } from '../platform/errors';
@@ -47,7 +51,10 @@ export type Verdict = 'eligible' | 'not_eligible' | 'projected_eligible' | 'no_p
 
 export interface RegisterReason {
   code: string;
+  /** English, SI: kept for old readers; pages, files and e-mails word the reason afresh from `data`. */
   message: string;
+  /** The numbers and dates behind the reason (absent in versions finalised before it existed). */
+  data?: Record<string, unknown>;
 }
 
 export interface RegisterWalk {
@@ -61,6 +68,21 @@ export interface RegisterWalk {
   calibrationId: string;
   calibrationVersion: number | string;
   extrapolated: boolean;
+  /*
+   * The fields below are absent in versions finalised before they existed; readers fall back to
+   * the point estimate against the register's threshold (server/registers/format.ts).
+   */
+  /** The walk's own verdict, read from its stored snapshot. */
+  verdict?: WalkVerdictWord;
+  decisionBasis?: DecisionBasis;
+  /** The credit rule version the walk was judged by; null for snapshots stored before it was recorded. */
+  ruleVersionId?: string | null;
+  combinedInterval?: [number, number] | null;
+  /** The threshold the walk was judged against (kg/ha), so its biomass prints the same everywhere. */
+  thresholdKgHa?: number;
+  /** The lab's tissue N % and the N held in the shoots (kg N/ha): information, never part of the verdict. */
+  tissueNPercent?: number | null;
+  shootN?: { kgNPerHa: number; interval: [number, number] | null } | null;
 }
 
 /** A field and its planting as the register reads them (the ranch is the register's own). */
@@ -155,6 +177,17 @@ export const projectionDateOf = (year: number, today: string) => (today < `${yea
 
 const toRegisterWalk = (w: ApprovedWalkInput): RegisterWalk => {
   const e = w.estimate!;
+  const v = walkVerdictOf(e as StoredEstimate);
+  let shootN: RegisterWalk['shootN'] = null;
+  if (w.tissueNPercent != null) {
+    try {
+      // The interval carried is the verdict's combined one when stored, else the snapshot's interval.
+      const n = shootNitrogen(e.biomassKgHa, w.tissueNPercent, v.combinedInterval ?? [e.interval[0], e.interval[1]]);
+      shootN = { kgNPerHa: n.kgNPerHa, interval: n.interval };
+    } catch (err) {
+      if (!(err instanceof CalcError)) throw err;
+    }
+  }
   return {
     id: w.id,
     walkedOn: w.walkedOn,
@@ -166,8 +199,30 @@ const toRegisterWalk = (w: ApprovedWalkInput): RegisterWalk => {
     calibrationId: e.calibrationId,
     calibrationVersion: e.calibrationVersion,
     extrapolated: e.extrapolated,
+    verdict: v.verdict,
+    decisionBasis: v.decisionBasis,
+    ruleVersionId: v.ruleVersionId,
+    combinedInterval: v.combinedInterval,
+    thresholdKgHa: e.thresholdKgHa,
+    tissueNPercent: w.tissueNPercent,
+    shootN,
   };
 };
+
+/** The walk's verdict as a register reason when it keeps a qualifying walk from earning the credit. */
+function walkVerdictReason(w: ApprovedWalkInput): RegisterReason | null {
+  const v = walkVerdictOf(w.estimate as StoredEstimate);
+  if (v.verdict === 'meets') return null;
+  const data: { walkedOn: string; verdict: WalkVerdictWord; reasons: VerdictReason[]; morePlants: MorePlantsAdvice | null } = {
+    walkedOn: w.walkedOn,
+    verdict: v.verdict,
+    reasons: v.reasons,
+    morePlants: v.morePlants,
+  };
+  return v.verdict === 'borderline'
+    ? { code: 'walk_borderline', message: `The approved walk of ${w.walkedOn} is borderline: it does not earn the credit until it is settled.`, data }
+    : { code: 'walk_below', message: `The approved walk of ${w.walkedOn} is below under the rule's decision basis.`, data };
+}
 
 /**
  * The walk a planting's verdict rests on: the latest approved walk on or before the end (termination
@@ -234,6 +289,16 @@ export function registerRow(field: FieldWithPlanting, walks: ApprovedWalkInput[]
       walk ? { biomassKgHa: walk.estimate!.biomassKgHa, walkedOn: walk.walkedOn } : null,
       { ...rule, today },
     );
+    const reasons: RegisterReason[] = result.reasons.map((r) => ({
+      code: r.code,
+      message: r.code === 'no_estimate' ? noEstimateMessage(walks, field.seededOn!, field.crop!) ?? r.message : r.message,
+      ...(r.data ? { data: { ...r.data } } : {}),
+    }));
+    // A borderline walk (or one below under a lower-bound rule) does not earn the credit, whatever
+    // its point estimate says; when the estimate is already below the threshold that reason says it.
+    const walkReason = walk && qualifies && !reasons.some((r) => r.code === 'below_threshold') ? walkVerdictReason(walk) : null;
+    if (walkReason) reasons.push(walkReason);
+    const eligible = result.eligible && !walkReason;
     return {
       ...base,
       projected: result.projected,
@@ -241,10 +306,10 @@ export function registerRow(field: FieldWithPlanting, walks: ApprovedWalkInput[]
       daysInWindow: result.daysInWindow,
       walk: walk ? toRegisterWalk(walk) : null,
       walkQualifies: qualifies,
-      verdict: result.eligible ? (result.projected ? 'projected_eligible' : 'eligible') : 'not_eligible',
-      eligible: result.eligible,
-      creditKgN: result.creditKgN,
-      reasons: result.reasons.map((r) => ({ code: r.code, message: r.code === 'no_estimate' ? noEstimateMessage(walks, field.seededOn!, field.crop!) ?? r.message : r.message })),
+      verdict: eligible ? (result.projected ? 'projected_eligible' : 'eligible') : 'not_eligible',
+      eligible,
+      creditKgN: eligible ? result.creditKgN : 0,
+      reasons,
     };
   } catch (err) {
     // Stored data the core refuses (e.g. termination before seeding): the row says so, the register still builds.

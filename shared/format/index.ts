@@ -2,3 +2,4 @@
 // the server. Values in SI; words in the reader's language ('en' | 'es') and units ('us' | 'metric').
 export * from './figures';
 export * from './messages';
+export * from './walk';

@@ -127,8 +127,8 @@ describe('the organisation’s register as a background job', () => {
     const fieldRows = records.filter((r) => r.field !== 'TOTAL');
     expect(fieldRows).toHaveLength(5000);
     expect(records.filter((r) => r.field === 'TOTAL')).toHaveLength(10);
-    expect(fieldRows.filter((r) => r.verdict === 'eligible')).toHaveLength(630);
-    expect(fieldRows.filter((r) => r.verdict === 'no_planting')).toHaveLength(2500);
+    expect(fieldRows.filter((r) => r.credit_status === 'eligible')).toHaveLength(630);
+    expect(fieldRows.filter((r) => r.credit_status === 'no_planting')).toHaveLength(2500);
     // Per ranch: f = 0, 8, …, 496 (63 fields); acres 5 + (f mod 20): each block of 40 fields gives
     // 5+13+21+9+17 = 65 ac; 12 blocks (f < 480) = 780 ac, plus f = 480, 488, 496 → 5+13+21 = 39 ac:
     // 819 ac per ranch × 10 ranches × 50 lb N/ac (the typical values: this organisation set no rule).

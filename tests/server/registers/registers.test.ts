@@ -296,7 +296,7 @@ describe('CSV and PDF', () => {
     expect(injected.variety).toBe("'-2+3");
     expect(text).not.toMatch(/(^|,)=cmd/m);
     const a = records.find((r) => r.field === 'A North')!;
-    expect(a).toMatchObject({ verdict: 'eligible', days_in_window: '156', walk_id: s.walks.aUsed, walk_qualifies: 'true', content_hash: v1.body.contentHash, version: '1', status: 'final' });
+    expect(a).toMatchObject({ credit_status: 'eligible', verdict: 'meets', decision_basis: 'point', days_in_window: '156', walk_id: s.walks.aUsed, walk_qualifies: 'true', content_hash: v1.body.contentHash, version: '1', status: 'final' });
     expect(Number(a.credit_lb_n)).toBeCloseTo(500, 3);
     expect(Number(a.area_ac)).toBe(10);
     const total = records[records.length - 1];
@@ -304,7 +304,7 @@ describe('CSV and PDF', () => {
     expect(Number(total.credit_kg_n)).toBeCloseTo(510.291, 3);
     expect(Number(total.credit_lb_n)).toBeCloseTo(1125, 3);
     expect(Number(total.eligible_area_ha)).toBeCloseTo(9.1054, 4);
-    expect(total.verdict).toBe('2 of 9 fields eligible');
+    expect(total.credit_status).toBe('2 of 9 fields eligible');
   });
 
   it('writes a PDF with Lato embedded whose text holds the totals and the content hash', async () => {
