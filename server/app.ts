@@ -96,7 +96,7 @@ export function createApp(deps: AppDeps): Express {
   app.use((req, res, next) => (req.method === 'GET' || req.method === 'HEAD' ? next() : json(req, res, next)));
   app.use((req, res, next) => (req.method === 'GET' || req.method === 'HEAD' ? next() : form(req, res, next)));
 
-  const passport = people.configurePassport(db, deps.fastReads);
+  const passport = people.configurePassport(db, config.BCRYPT_ROUNDS, deps.fastReads);
   app.use(
     session({
       name: 'crowntip.sid',

@@ -76,9 +76,10 @@ export function authPages(ctx: AppContext, pp: passport.PassportStatic, limits: 
     // The same answer, in the same time, whether or not the address has an account or is over
     // its limit: the message is sent after the answer.
     if (allowed && user && user.active) {
-      setImmediate(() => {
+      // A moment after the answer has gone out, so that its time does not depend on the sending.
+      setTimeout(() => {
         sendPasswordResetLink(ctx, user).catch((err) => ctx.logger.error({ err }, 'reset e-mail not sent'));
-      });
+      }, 20);
     }
     res.render('auth/forgot', { title: 'Forgotten password', email: parsed.value.email, sent: true, errors: {} });
   });

@@ -3,7 +3,7 @@ import { Strategy as LocalStrategy } from 'passport-local';
 import type { Knex } from 'knex';
 import { findUserById, findUserForSignIn, toUser, type UserRow } from './db';
 import type { FastReads } from '../platform/fast-reads';
-import { verifyPassword } from './passwords';
+import { makeStandInHash, verifyPassword } from './passwords';
 
 /** One message for an unknown address and a wrong password, so neither can be probed. */
 export const SIGN_IN_FAILED = 'That e-mail and password do not match an active account.';
@@ -11,13 +11,14 @@ export const SIGN_IN_FAILED = 'That e-mail and password do not match an active a
 /** What a session stores of its user (a plain id in sessions made before session versions). */
 type SessionUser = { id: string; v: number };
 
-export function configurePassport(db: Knex, fast?: FastReads): passport.PassportStatic {
+export function configurePassport(db: Knex, bcryptRounds: number, fast?: FastReads): passport.PassportStatic {
+  const standIn = makeStandInHash(bcryptRounds);
   const pp = new passport.Passport() as unknown as passport.PassportStatic;
   pp.use(
     new LocalStrategy({ usernameField: 'email', passwordField: 'password' }, async (email, password, done) => {
       try {
         const user = await findUserForSignIn(db, String(email));
-        const ok = await verifyPassword(String(password), user?.passwordHash);
+        const ok = await verifyPassword(String(password), user?.passwordHash, standIn);
         if (!user || !ok || !user.active) return done(null, false, { message: SIGN_IN_FAILED });
         const { passwordHash: _omit, ...safe } = user;
         return done(null, safe);

@@ -1,3 +1,4 @@
+import { randomBytes } from 'node:crypto';
 import bcrypt from 'bcryptjs';
 import { z } from 'zod';
 
@@ -8,13 +9,19 @@ export const passwordSchema = z
 
 export const hashPassword = (password: string, rounds: number) => bcrypt.hash(password, rounds);
 
-// A fixed hash to compare against when the address is unknown, so that both failures take the
-// same time and cannot be told apart.
-const DUMMY_HASH = '$2b$10$CwTycUXWue0Thq9StjUM0uJ8.2cQ7a3n/6kE1bPqVb5pV9eU7c0yS';
+/**
+ * A hash to compare against when the address is unknown (or has no password yet), made once at
+ * start-up with the configured cost, so that both failures take the time of a real comparison and
+ * cannot be told apart. A fixed hash of another cost would time differently (bcrypt's work
+ * doubles with each step of cost).
+ */
+export const makeStandInHash = (rounds: number) => bcrypt.hashSync(randomBytes(18).toString('base64'), rounds);
 
-export async function verifyPassword(password: string, hash: string | null | undefined): Promise<boolean> {
+let defaultStandIn: string | undefined;
+
+export async function verifyPassword(password: string, hash: string | null | undefined, standIn?: string): Promise<boolean> {
   if (!hash) {
-    await bcrypt.compare(password, DUMMY_HASH);
+    await bcrypt.compare(password, standIn ?? (defaultStandIn ??= makeStandInHash(10)));
     return false;
   }
   return bcrypt.compare(password, hash);
