@@ -8,6 +8,7 @@ export type ErrorCode =
   | 'invalid'
   | 'unauthenticated'
   | 'forbidden'
+  | 'own_walk'
   | 'csrf'
   | 'not_found'
   | 'conflict'
@@ -22,6 +23,7 @@ const statusOf: Record<ErrorCode, number> = {
   invalid: 400,
   unauthenticated: 401,
   forbidden: 403,
+  own_walk: 403,
   csrf: 403,
   not_found: 404,
   conflict: 409,
@@ -37,6 +39,7 @@ const defaultMessage: Record<ErrorCode, string> = {
   invalid: 'Some values are not valid.',
   unauthenticated: 'Please sign in.',
   forbidden: 'Your role does not allow this.',
+  own_walk: 'Another reviewer must approve this walk.',
   csrf: 'The form or request was missing its security token. Reload the page and try again.',
   not_found: 'Nothing was found here.',
   conflict: 'This conflicts with the stored record.',

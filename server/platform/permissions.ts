@@ -27,6 +27,8 @@ export const PERMISSIONS = {
   'walks.create': ['admin', 'clerk', 'sampler'],
   /** Approve or reject a submitted walk; change anyone's walk. */
   'walks.review': ['admin', 'clerk'],
+  /** Let the person who walked a field review that one walk themselves, with a reason (a one-person office). */
+  'walks.waiveOwnReview': ['admin'],
   /** Ask a sampler to walk a planting, or take the request back. */
   'walks.assign': ['admin', 'clerk'],
   /** May be asked to walk a planting, and gets the sampling reminders. */

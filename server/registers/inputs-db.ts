@@ -30,6 +30,8 @@ export interface ApprovedWalkInput {
   estimate: WalkEstimate | null;
   /** The lab's tissue N % the office entered for the walk, if any (information, never the verdict). */
   tissueNPercent?: number | null;
+  /** Set when an admin let the walker review this walk themselves. */
+  ownReviewWaiver?: { byName: string; reason: string };
 }
 
 /** Every field of the organisation (or of the given ranches) with its planting of `season`; used by registers and the season view. */
@@ -80,7 +82,8 @@ export async function approvedWalksFor(db: Knex, organisationId: string, plantin
     const rows: Record<string, string | number | null>[] = await inOrganisation(db, 'field_walks', organisationId)
       .where('field_walks.status', 'approved')
       .whereIn('field_walks.planting_id', plantingIds.slice(i, i + ID_CHUNK))
-      .select('field_walks.id', 'field_walks.planting_id', 'field_walks.walked_on', 'field_walks.estimate', 'field_walks.tissue_n_percent')
+      .leftJoin('users as waiver', 'waiver.id', 'field_walks.own_review_waived_by')
+      .select('field_walks.id', 'field_walks.planting_id', 'field_walks.walked_on', 'field_walks.estimate', 'field_walks.tissue_n_percent', 'field_walks.own_review_waiver_reason', 'waiver.name as waiver_name')
       .orderBy('field_walks.planting_id')
       .orderBy('field_walks.walked_on')
       .orderBy('field_walks.reviewed_at')
@@ -92,6 +95,7 @@ export async function approvedWalksFor(db: Knex, organisationId: string, plantin
         walkedOn: String(r.walked_on).slice(0, 10),
         estimate: r.estimate ? (JSON.parse(String(r.estimate)) as WalkEstimate) : null,
         tissueNPercent: r.tissue_n_percent == null ? null : Number(r.tissue_n_percent),
+        ...(r.own_review_waiver_reason ? { ownReviewWaiver: { byName: String(r.waiver_name ?? ''), reason: String(r.own_review_waiver_reason) } } : {}),
       });
     }
   }

@@ -83,6 +83,8 @@ export interface RegisterWalk {
   /** The lab's tissue N % and the N held in the shoots (kg N/ha): information, never part of the verdict. */
   tissueNPercent?: number | null;
   shootN?: { kgNPerHa: number; interval: [number, number] | null } | null;
+  /** Only when an admin let the walker review this walk themselves: who waived the rule and why. */
+  ownReviewWaiver?: { byName: string; reason: string };
 }
 
 /** A field and its planting as the register reads them (the ranch is the register's own). */
@@ -206,6 +208,7 @@ const toRegisterWalk = (w: ApprovedWalkInput): RegisterWalk => {
     thresholdKgHa: e.thresholdKgHa,
     tissueNPercent: w.tissueNPercent,
     shootN,
+    ...(w.ownReviewWaiver ? { ownReviewWaiver: { ...w.ownReviewWaiver } } : {}),
   };
 };
 

@@ -20,14 +20,24 @@ export interface WalkRecord {
   status: WalkStatus;
   contentHash: string;
   rejectReason: string | null;
+  /** An admin let the walker review this walk themselves. */
+  ownReviewWaived: boolean;
 }
 
 export async function findWalkRecord(db: Knex, organisationId: string, id: string): Promise<WalkRecord | undefined> {
   const r = await inOrganisation(db, 'field_walks', organisationId)
     .where('id', id)
-    .first('id', 'planting_id', 'sampler_id', 'status', 'content_hash', 'reject_reason');
+    .first('id', 'planting_id', 'sampler_id', 'status', 'content_hash', 'reject_reason', 'own_review_waived_by');
   if (!r) return undefined;
-  return { id: r.id, plantingId: r.planting_id, samplerId: r.sampler_id, status: r.status, contentHash: r.content_hash, rejectReason: r.reject_reason ?? null };
+  return {
+    id: r.id,
+    plantingId: r.planting_id,
+    samplerId: r.sampler_id,
+    status: r.status,
+    contentHash: r.content_hash,
+    rejectReason: r.reject_reason ?? null,
+    ownReviewWaived: r.own_review_waived_by != null,
+  };
 }
 
 /** Limits a walk query to what a sampler may see: walks they made, or of plantings assigned to them. */
@@ -58,6 +68,7 @@ const walkQuery = (db: Knex, organisationId: string) =>
     .join('ranches', 'ranches.id', 'fields.ranch_id')
     .join('users as sampler', 'sampler.id', 'field_walks.sampler_id')
     .leftJoin('users as reviewer', 'reviewer.id', 'field_walks.reviewed_by')
+    .leftJoin('users as waiver', 'waiver.id', 'field_walks.own_review_waived_by')
     .select(
       'field_walks.*',
       'plantings.field_id',
@@ -67,6 +78,7 @@ const walkQuery = (db: Knex, organisationId: string) =>
       'ranches.name as ranch_name',
       'sampler.name as sampler_name',
       'reviewer.name as reviewer_name',
+      'waiver.name as waiver_name',
     );
 
 export const photoUrl = (walkId: string, photoId: string) => `/api/walks/${walkId}/photos/${photoId}`;
@@ -110,6 +122,9 @@ async function assemble(db: Knex, organisationId: string, rows: Record<string, u
     submittedAt: iso(r.submitted_at),
     reviewedAt: iso(r.reviewed_at),
     reviewedBy: r.reviewed_by ? { id: r.reviewed_by as string, name: (r.reviewer_name as string) ?? '' } : null,
+    ownReviewWaiver: r.own_review_waived_by
+      ? { by: { id: r.own_review_waived_by as string, name: (r.waiver_name as string) ?? '' }, at: iso(r.own_review_waived_at)!, reason: r.own_review_waiver_reason as string }
+      : null,
   }));
 }
 
@@ -238,6 +253,15 @@ export async function changeWalkStatus(
   if (to.reviewedAt !== undefined) set.reviewed_at = to.reviewedAt;
   if (to.rejectReason !== undefined) set.reject_reason = to.rejectReason;
   const count = await inOrganisation(db, 'field_walks', organisationId).where({ id, status: from }).update(set);
+  return count === 1;
+}
+
+/** Records an admin's waiver of the own-walk rule on a walk still waiting for review; false when it no longer is, or is waived already. */
+export async function recordOwnReviewWaiver(db: Knex, organisationId: string, id: string, waiver: { by: string; at: string; reason: string }): Promise<boolean> {
+  const count = await inOrganisation(db, 'field_walks', organisationId)
+    .where({ id, status: 'submitted' })
+    .whereNull('own_review_waived_by')
+    .update({ own_review_waived_by: waiver.by, own_review_waived_at: waiver.at, own_review_waiver_reason: waiver.reason });
   return count === 1;
 }
 

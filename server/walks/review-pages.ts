@@ -13,7 +13,7 @@ import { listWalks } from './service';
 import * as service from './service';
 import { lengthForBiomass } from '../../shared/calc';
 import { WALK_FLAG_LABELS, explainWalkFlag, outlierStops, walkFlags } from '../../shared/registry/walk-flags';
-import { walkRejectSchema, type Walk, type WalkStatus } from '../../shared/schemas/walks';
+import { ownReviewWaiverSchema, walkRejectSchema, type Walk, type WalkStatus } from '../../shared/schemas/walks';
 import { dotPlotSvg, mapSketchSvg, mean, walkRow, walkUnits, walksCsv } from './output';
 
 /*
@@ -84,6 +84,16 @@ export function walkReviewPages(ctx: AppContext): Router {
     await review(req, res, { approve: false, reason: parsed.value.reason });
   });
 
+  router.post('/walks/:id/own-review-waiver', can('walks.waiveOwnReview'), async (req, res) => {
+    const parsed = parseForm(ownReviewWaiverSchema, req.body);
+    if (!parsed.ok) {
+      return res.status(400).render('walks/show', await detailView(req, res, { errors: parsed.errors, values: { reason: String(req.body?.reason ?? '') } }));
+    }
+    await service.waiveOwnReview(db, contextOf(req), String(req.params.id), parsed.value.reason);
+    req.session.flash = { kind: 'info', text: 'Waiver recorded: the person who walked this field may review this walk. The reason is kept with the walk and in the register.' };
+    res.redirect(303, `/walks/${encodeURIComponent(String(req.params.id))}`);
+  });
+
   /** Approve or reject through the walks service; a walk no longer waiting for review is a friendly message. */
   async function review(req: Request, res: Response, decision: { approve: true } | { approve: false; reason: string }) {
     const walkId = String(req.params.id);
@@ -95,6 +105,10 @@ export function walkReviewPages(ctx: AppContext): Router {
         : { kind: 'info', text: `Walk rejected: ${what}. ${walk.sampler.name} sees the reason in the capture app.` };
       res.redirect(303, '/walks');
     } catch (err) {
+      if (err instanceof HttpError && err.code === 'own_walk') {
+        req.session.flash = { kind: 'error', text: 'Another reviewer must approve this walk: you walked this field. Nothing was changed.' };
+        return res.redirect(303, `/walks/${encodeURIComponent(walkId)}`);
+      }
       if (!(err instanceof HttpError && err.code === 'conflict')) throw err;
       const current = await service.getWalkFor(db, contextOf(req), walkId);
       const by = current.reviewedBy ? ` by ${current.reviewedBy.name}` : '';
@@ -199,7 +213,12 @@ export function walkReviewPages(ctx: AppContext): Router {
           units: fmt.units,
         })
       : '';
-    const canReview = contextOf(req).can('walks.review') && walk.status === 'submitted';
+    const me = contextOf(req);
+    // Nobody reviews their own walk unless an admin waived that for this walk (README, "Walk review").
+    const ownWalk = walk.sampler.id === me.id && !walk.ownReviewWaiver;
+    const canReview = me.can('walks.review') && walk.status === 'submitted' && !ownWalk;
+    const ownWalkBlocked = me.can('walks.review') && walk.status === 'submitted' && ownWalk;
+    const canWaive = ownWalkBlocked && me.can('walks.waiveOwnReview');
     return {
       title: `Walk: ${walk.fieldName} · ${walk.ranchName}`,
       walk,
@@ -214,6 +233,8 @@ export function walkReviewPages(ctx: AppContext): Router {
       sketch,
       meanCm,
       canReview,
+      ownWalkBlocked,
+      canWaive,
       row: walkRow(walk, u),
       statusLabels: STATUS_LABELS,
       errors: form.errors ?? {},

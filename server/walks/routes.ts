@@ -11,7 +11,7 @@ import { HttpError } from '../platform/errors';
 import { validateBody, validateQuery } from '../platform/validation';
 import * as service from './service';
 import { pagingSchema } from '../../shared/schemas/registry';
-import { MAX_PLANTS, walkCreateSchema, walkRejectSchema, walkStatusSchema, type WalkCreate } from '../../shared/schemas/walks';
+import { MAX_PLANTS, ownReviewWaiverSchema, walkCreateSchema, walkRejectSchema, walkStatusSchema, type WalkCreate } from '../../shared/schemas/walks';
 import { idFilter, listQuery } from '../platform/query';
 
 /** Largest photo accepted; the capture app shrinks photos well below this before sending. */
@@ -106,6 +106,9 @@ export function walksApi(ctx: AppContext): Router {
   const reject = async (req: Request<{ id: string }>, res: Response) => {
     res.json(await service.reviewWalk(ctx.db, contextOf(req), req.params.id, { approve: false, reason: req.body.reason }));
   };
+  const waive = async (req: Request<{ id: string }>, res: Response) => {
+    res.json(await service.waiveOwnReview(ctx.db, contextOf(req), req.params.id, req.body.reason));
+  };
 
   router.get('/', can('walks.read'), validateQuery(listSchema), list);
   router.post('/', walkers, validateBody(walkCreateSchema), create);
@@ -116,5 +119,6 @@ export function walksApi(ctx: AppContext): Router {
   router.post('/:id/submit', walkers, submit);
   router.post('/:id/approve', reviewers, approve);
   router.post('/:id/reject', reviewers, validateBody(walkRejectSchema), reject);
+  router.post('/:id/own-review-waiver', can('walks.waiveOwnReview'), validateBody(ownReviewWaiverSchema), waive);
   return router;
 }

@@ -155,6 +155,8 @@ export async function reviewWalk(db: Knex, actor: WalkActor, id: string, decisio
   const target: WalkStatus = decision.approve ? 'approved' : 'rejected';
   for (let attempt = 0; attempt < 2; attempt++) {
     const walk = await readable(db, actor, id);
+    // Nobody approves or rejects their own walk, unless an admin waived that for this walk.
+    if (walk.samplerId === actor.id && !walk.ownReviewWaived) throw new HttpError('own_walk');
     if (walk.status === target) break;
     if (walk.status !== 'submitted') throw new HttpError('conflict', `Only a submitted walk can be ${target}; this one is ${walk.status}.`);
     const changed = await walks.changeWalkStatus(db, actor.organisationId, id, 'submitted', {
@@ -164,6 +166,22 @@ export async function reviewWalk(db: Knex, actor: WalkActor, id: string, decisio
       rejectReason: decision.approve ? null : decision.reason,
     });
     if (changed) break;
+  }
+  return stored(db, actor, id);
+}
+
+/**
+ * An admin lets the person who walked a field review that one walk themselves (an organisation
+ * with a single office person), with a reason kept on the walk and in the register's provenance.
+ * Only a submitted walk; waiving again answers the walk unchanged.
+ */
+export async function waiveOwnReview(db: Knex, actor: WalkActor, id: string, reason: string): Promise<Walk> {
+  const walk = await readable(db, actor, id);
+  if (walk.ownReviewWaived) return stored(db, actor, id);
+  if (walk.status !== 'submitted') throw new HttpError('conflict', `Only a walk waiting for review can be waived; this one is ${walk.status}.`);
+  if (!(await walks.recordOwnReviewWaiver(db, actor.organisationId, id, { by: actor.id, at: nowIso(), reason }))) {
+    const now = await walks.findWalkRecord(db, actor.organisationId, id);
+    if (!now?.ownReviewWaived) throw new HttpError('conflict', `Only a walk waiting for review can be waived; this one is ${now?.status}.`);
   }
   return stored(db, actor, id);
 }

@@ -94,7 +94,14 @@ export const walkSchema = z.object({
   submittedAt: z.string().nullable(),
   reviewedAt: z.string().nullable(),
   reviewedBy: z.object({ id: z.string(), name: z.string() }).nullable(),
+  /** An admin let the walker review this walk themselves (nobody approves their own walk otherwise). */
+  ownReviewWaiver: z.object({ by: z.object({ id: z.string(), name: z.string() }), at: z.string(), reason: z.string() }).nullable().optional(),
 });
+/** POST /api/walks/:id/own-review-waiver: why the walker may review this walk themselves. */
+export const ownReviewWaiverSchema = z.object({
+  reason: z.string({ message: 'Say why this walk may be reviewed by the person who walked it.' }).trim().min(10, 'Say why in a sentence (at least 10 characters).').max(500, 'Keep the reason under 500 characters.'),
+});
+
 export type Walk = z.infer<typeof walkSchema>;
 
 /** One planting on the sampler's "today" list (GET /api/today). */
