@@ -11,6 +11,7 @@ import type { FastReads } from './platform/fast-reads';
 import { ROLE_LABELS } from './platform/roles';
 import { CROP_LABELS } from '../shared/registry/crops';
 import { errorHandler, isApiRequest, notFound } from './platform/errors';
+import { viewPermissions } from './platform/permissions';
 import { csrfProtection, noStore, securityHeaders } from './platform/security';
 import { CLIENT_DIST, readOfficeAssets } from './platform/assets';
 import { makeFormatter } from './platform/format';
@@ -137,6 +138,7 @@ export function createApp(deps: AppDeps): Express {
     if (isApiRequest(req)) return next(); // JSON answers render no page
     const { user, units, locale } = req.context!;
     res.locals.user = user;
+    res.locals.can = viewPermissions(user?.role);
     res.locals.currentPath = req.path;
     res.locals.fmt = makeFormatter(units, locale);
     res.locals.csrfToken = '';

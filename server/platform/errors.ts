@@ -2,6 +2,7 @@ import type { ErrorRequestHandler, Request } from 'express';
 import { ZodError } from 'zod';
 import type { Logger } from 'pino';
 import { makeFormatter } from './format';
+import { viewPermissions } from './permissions';
 
 /** Stable error codes of the JSON API (README, "API"); tests assert these, not the wording. */
 export type ErrorCode =
@@ -128,6 +129,7 @@ export function errorHandler(logger: Logger): ErrorRequestHandler {
     const context = req.context;
     const pageDefaults: Record<string, unknown> = {
       user: context?.user ?? null,
+      can: viewPermissions(context?.user?.role),
       currentPath: req.path,
       fmt: makeFormatter(context?.units ?? 'us', false),
       csrfToken: '',

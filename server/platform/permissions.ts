@@ -68,6 +68,11 @@ export function rolesAllowed(action: Action): Role[] {
   return ROLES.filter((role) => allows(role, action));
 }
 
+/** What views call as `can('action')`: the signed-in role's permissions, nothing when signed out. */
+export function viewPermissions(role: Role | undefined): (action: Action) => boolean {
+  return (action) => role !== undefined && allows(role, action);
+}
+
 /** The role an invitation starts with. */
 export const DEFAULT_INVITE_ROLE: Role = 'sampler';
 
