@@ -63,6 +63,8 @@ export function sampleStats(lengthsCm: readonly number[]): SampleStats {
   for (const v of lengthsCm) sum += v;
   const mean = sum / n;
   if (n < 2) return { n, meanCm: mean, sdCm: null };
+  // Equal lengths have no spread; summing them can leave rounding dust (ten × 81.28 gives 1.5e-14).
+  if (lengthsCm.every((v) => v === lengthsCm[0])) return { n, meanCm: lengthsCm[0], sdCm: 0 };
   let ss = 0;
   for (const v of lengthsCm) ss += (v - mean) * (v - mean);
   return { n, meanCm: mean, sdCm: Math.sqrt(ss / (n - 1)) };

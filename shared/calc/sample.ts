@@ -26,7 +26,9 @@ export function summarizeSample(values: number[], level = 0.95): SampleSummary {
   // Two-pass (mean, then squared deviations): stable for lengths and biomass magnitudes alike.
   let sum = 0;
   for (const v of xs) sum += v;
-  const mean = sum / n;
+  // Equal values have no spread; their sum can leave rounding dust (ten × 81.28 gives sd 1.5e-14).
+  const equal = xs.every((v) => v === xs[0]);
+  const mean = equal ? xs[0] : sum / n;
   let ss = 0;
   for (const v of xs) ss += (v - mean) * (v - mean);
   const sd = Math.sqrt(ss / (n - 1));

@@ -12,6 +12,12 @@ function codeOf(f: () => unknown): string {
 }
 
 describe('summarizeSample', () => {
+  it('equal values have no spread, even when their sum is not exact in binary (10 × 81.28)', () => {
+    const s = summarizeSample(Array(10).fill(81.28));
+    expect(s.sd).toBe(0);
+    expect(s.mean).toBe(81.28);
+  });
+
   it('hand check: [2,4,4,4,5,5,7,9]', () => {
     // By hand: mean 5, Σ(x−x̄)² = 32, sd = √(32/7) = 2.138090, se = sd/√8 = 0.755929;
     // t(0.975, 7) = 2.365 (NIST e-Handbook 1.3.6.7.2) → half-width 1.7878.

@@ -114,6 +114,10 @@ describe('small samples say so', () => {
     expect(v.morePlants).toEqual({ kind: 'spread_unknown', more: 1 });
     const lb = decideVerdict(rye, Array(10).fill(120), rule('lower_bound'));
     expect(lb.verdict).toBe('borderline');
+    // Ten equal lengths whose sum is not exact in binary (10 × 81.28 cm = 32 in): still no spread.
+    const dust = decideVerdict(rye, Array(10).fill(81.28), rule('point_with_borderline'));
+    expect(codes(dust)).toContain('unknown_spread');
+    expect(dust.verdict).toBe('borderline');
     // Two identical lengths: too few and unknown.
     const two = decideVerdict(rye, [82, 82], rule('point_with_borderline'));
     expect(two.verdict).toBe('borderline');
