@@ -91,8 +91,8 @@ export default defineConfig({
           // Everything the first /capture screen imports statically goes in one chunk (the
           // default splits it into several shared chunks, and each file compresses on its own).
           // Later screens stay in their own lazy chunks and import from it.
-          // The field geometry (@turf) is reached from the first screen only through a schema
-          // module's unused helper: its own group keeps it with the plan screen.
+          // The field geometry (@turf) keeps a chunk of its own, loaded with the plan screen
+          // (tests/client/first-screen-imports.test.ts keeps it off the first screen).
           groups: [
             { name: 'geometry', test: /node_modules[\\/]@turf[\\/]/, priority: 2 },
             {
