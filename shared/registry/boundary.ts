@@ -45,6 +45,8 @@ export function boundaryFromGeoJson(input: unknown): { ok: true; boundary: Bound
   }
   const parsed = boundarySchema.safeParse(geometry);
   if (!parsed.success) return { ok: false, problem: parsed.error.issues[0]?.message ?? 'Not a GeoJSON polygon.' };
+  const valid = checkBoundary(parsed.data);
+  if (!valid.ok) return { ok: false, problem: boundaryProblemText(valid.problem) };
   return { ok: true, boundary: parsed.data };
 }
 
@@ -116,7 +118,7 @@ export function checkBoundary(boundary: Boundary, limits: BoundaryLimits = {}): 
 export function boundaryProblemText(problem: BoundaryProblem): string {
   switch (problem.code) {
     case 'too_many_parts':
-      return `The boundary has ${problem.parts} separate parts; at most ${problem.maxParts} are accepted. Upload one field at a time.`;
+      return `The boundary has ${problem.parts.toLocaleString('en-US')} separate parts; at most ${problem.maxParts} are accepted. Upload one field at a time.`;
     case 'too_many_vertices':
       return `The boundary has ${problem.vertices.toLocaleString('en-US')} corners; at most ${problem.maxVertices.toLocaleString('en-US')} are accepted. Simplify the outline and upload it again.`;
     case 'too_few_corners':
@@ -131,3 +133,9 @@ export function boundaryProblemText(problem: BoundaryProblem): string {
       return 'The outline is not a valid field shape: parts overlap or touch along an edge. Redraw it with separate parts.';
   }
 }
+
+/** The boundary schema with the validity check: what every input schema with a boundary uses. */
+export const checkedBoundarySchema = boundarySchema.superRefine((b, ctx) => {
+  const valid = checkBoundary(b);
+  if (!valid.ok) ctx.addIssue({ code: 'custom', message: boundaryProblemText(valid.problem) });
+});

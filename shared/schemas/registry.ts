@@ -1,15 +1,16 @@
 import { z } from 'zod';
 import { CROPS } from '../calc/rules';
-import { boundarySchema } from '../registry/boundary';
+import { checkedBoundarySchema } from '../registry/boundary';
 import { isSeason } from '../registry/season';
 
 import { isoDate } from './dates';
+import { plainText } from './text';
 
 export { isoDate };
 
-const text = (max: number) => z.string().trim().max(max, `Use at most ${max} characters.`);
-const optionalText = (max: number) =>
-  z.preprocess((v) => (typeof v === 'string' && v.trim() === '' ? null : v), text(max).nullable().optional());
+const text = (max: number) => plainText(max);
+const optionalText = (max: number, multiline = false) =>
+  z.preprocess((v) => (typeof v === 'string' && v.trim() === '' ? null : v), plainText(max, { multiline }).nullable().optional());
 
 export const cropSchema = z.enum(CROPS, { message: `Choose one of: ${CROPS.join(', ')}.` });
 
@@ -22,7 +23,7 @@ export const ranchInputSchema = z.object({
   name: text(200).min(1, 'Give the ranch a name.'),
   code: optionalText(40),
   county: optionalText(100),
-  notes: optionalText(2000),
+  notes: optionalText(2000, true),
   contactEmails: emails,
 });
 export type RanchInput = z.infer<typeof ranchInputSchema>;
@@ -38,13 +39,17 @@ export const fieldInputSchema = z.object({
   ranchId: z.string().min(1, 'Choose a ranch.'),
   name: text(200).min(1, 'Give the field a name.'),
   areaHa,
-  boundary: boundarySchema.nullable().optional(),
-  notes: optionalText(2000),
+  boundary: checkedBoundarySchema.nullable().optional(),
+  notes: optionalText(2000, true),
 });
 export type FieldInput = z.infer<typeof fieldInputSchema>;
 export const fieldPatchSchema = fieldInputSchema.partial();
 
-export const seasonSchema = z.string().refine(isSeason, 'Write the season as 2026-27.');
+export const seasonSchema = z
+  .string()
+  .refine(isSeason, 'Write the season as 2026-27.')
+  // The same century as every date (./dates.ts): 0000-01 or 9999-00 is a typo, not a season.
+  .refine((s) => !isSeason(s) || (s >= '2000-01' && s <= '2098-99'), 'Use a season between 2000-01 and 2098-99.');
 
 const plantingShape = z.object({
   fieldId: z.string().min(1, 'Choose a field.'),
@@ -55,7 +60,7 @@ const plantingShape = z.object({
   seedingRateKgHa: z.number().finite().positive('The seeding rate must be more than zero.').max(2000).nullable().optional(),
   plannedTerminationOn: isoDate.nullable().optional(),
   terminatedOn: isoDate.nullable().optional(),
-  notes: optionalText(2000),
+  notes: optionalText(2000, true),
 });
 
 type PlantingDates = { seededOn?: string; terminatedOn?: string | null; plannedTerminationOn?: string | null };

@@ -1,6 +1,7 @@
 import { z } from 'zod';
 import { CROPS, DECISION_BASES, type DecisionBasis } from '../calc/rules';
 import { isoDate } from './dates';
+import { plainText } from './text';
 
 const monthDay = z
   .string()
@@ -37,7 +38,7 @@ export const creditRuleInputSchema = z.object({
     .optional(),
   /** The day this version starts to apply; today when not given. */
   effectiveFrom: isoDate.optional(),
-  notes: z.string().trim().max(2000).nullable().optional(),
+  notes: plainText(2000, { multiline: true }).nullable().optional(),
 });
 export type CreditRuleInput = z.infer<typeof creditRuleInputSchema>;
 

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { plainText } from './text';
 import { boundarySchema } from '../registry/boundary';
 import { isoDate } from './dates';
 
@@ -30,8 +31,8 @@ export const walkCreateSchema = z.object({
   plantingId: z.string().min(1, 'Choose the planting walked.'),
   walkedOn: isoDate,
   /** Growth stage as the sampler wrote it, e.g. "Z31" (Zadoks) or "F6" (Feekes). */
-  stage: z.string().trim().max(20).nullable().optional(),
-  notes: z.string().trim().max(2000).nullable().optional(),
+  stage: plainText(20).nullable().optional(),
+  notes: plainText(2000, { multiline: true }).nullable().optional(),
   plants: z
     .array(walkPlantSchema)
     .min(1, 'Measure at least one plant.')
@@ -44,7 +45,7 @@ export const walkCreateSchema = z.object({
 });
 export type WalkCreate = z.infer<typeof walkCreateSchema>;
 
-export const walkRejectSchema = z.object({ reason: z.string().trim().min(1, 'Say why the walk is rejected.').max(1000) });
+export const walkRejectSchema = z.object({ reason: plainText(1000, { multiline: true }).pipe(z.string().min(1, 'Say why the walk is rejected.')) });
 
 /** The estimate snapshot stored with a walk: later calibration versions never change it. */
 export const walkEstimateSchema = z.object({
