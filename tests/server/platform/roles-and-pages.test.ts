@@ -20,7 +20,7 @@ const ROLE_EMAILS = {
 
 // Expected status of a GET for each role. 200 = allowed; 403 = forbidden page.
 const MATRIX: { path: string; admin: number; clerk: number; sampler: number; auditor: number }[] = [
-  { path: '/office', admin: 200, clerk: 200, sampler: 403, auditor: 200 },
+  { path: '/office', admin: 200, clerk: 200, sampler: 302, auditor: 200 }, // a sampler is sent to /capture
   { path: '/admin/users', admin: 200, clerk: 403, sampler: 403, auditor: 403 },
   { path: '/admin/users/invite', admin: 200, clerk: 403, sampler: 403, auditor: 403 },
   { path: '/admin/outbox', admin: 200, clerk: 403, sampler: 403, auditor: 403 },
