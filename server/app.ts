@@ -166,6 +166,7 @@ export function createApp(deps: AppDeps): Express {
     ['/api/crops', registry.cropsApi(ctx)],
     ['/api/history', registry.historyApi(ctx)],
     ['/api/calibrations', calibrations.calibrationsApi(ctx)],
+    ['/api/walks', walks.tissueNApi(ctx)],
     ['/api/walks', walks.walksApi(ctx)],
     ['/api/today', walks.todayApi(ctx)],
     ['/api/rules', rules.rulesApi(ctx)],

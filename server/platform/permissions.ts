@@ -29,6 +29,8 @@ export const PERMISSIONS = {
   'walks.review': ['admin', 'clerk'],
   /** Let the person who walked a field review that one walk themselves, with a reason (a one-person office). */
   'walks.waiveOwnReview': ['admin'],
+  /** Enter or clear a walk's lab tissue N % (information beside the verdict, any walk status). */
+  'walks.tissueN': ['admin', 'clerk'],
   /** Ask a sampler to walk a planting, or take the request back. */
   'walks.assign': ['admin', 'clerk'],
   /** May be asked to walk a planting, and gets the sampling reminders. */

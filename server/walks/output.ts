@@ -6,6 +6,7 @@ import type { Boundary } from '../../shared/registry/boundary';
 import { boundaryOutline } from '../../shared/registry/outline';
 import { WALK_FLAG_LABELS, walkFlags, type WalkFlag } from '../../shared/registry/walk-flags';
 import { type Walk } from '../../shared/schemas/walks';
+import { SHOOT_N_CAUTION, shootNitrogenText, walkBiomassText, walkVerdictOf, type StoredEstimate } from '../../shared/format/walk';
 
 /** What the walk review pages print: figures in the reader's units, the CSV export, and the SVG dot plot and field sketch. */
 // ---- numbers in the reader's units ----
@@ -17,6 +18,9 @@ export function walkUnits(fmt: Formatter) {
   const lengthValue = (cm: number) => (us ? cmToIn(cm) : cm);
   const bioValue = (kg: number) => (us ? kgPerHaToLbPerAc(kg) : kg);
   return {
+    units: fmt.units,
+    shootN: (n: { kgNPerHa: number; interval: [number, number] | null }) => shootNitrogenText(n.kgNPerHa, n.interval, fmt.units),
+    shootNCaution: SHOOT_N_CAUTION.en,
     lengthUnit: us ? 'in' : 'cm',
     lengthWord: us ? 'inches' : 'centimetres',
     rateUnit: fmt.rateUnit,
@@ -43,9 +47,10 @@ export function walkRow(w: Walk, u: WalkUnits) {
     status: w.status,
     n: w.plants.length,
     meanLength: Number.isFinite(meanCm) ? u.len(meanCm) : '—',
-    estimate: e ? u.bio(e.biomassKgHa) : null,
+    // The same figure and word as the register page, PDF, CSV and e-mail (shared/format/walk.ts).
+    estimate: e ? walkBiomassText(e, u.units) : null,
     interval: e ? `${Math.round(e.level * 100)} %: ${u.range(e.interval)}` : null,
-    verdict: e ? (e.meetsThreshold ? 'meets' : 'below') : null,
+    verdict: e ? walkVerdictOf(e as StoredEstimate).verdict : null,
     flags: flags.map((f) => ({ code: f.code, label: WALK_FLAG_LABELS[f.code] })),
     photos: w.photos.length,
   };

@@ -13,7 +13,8 @@ import { listWalks } from './service';
 import * as service from './service';
 import { lengthForBiomass } from '../../shared/calc';
 import { WALK_FLAG_LABELS, explainWalkFlag, outlierStops, walkFlags } from '../../shared/registry/walk-flags';
-import { ownReviewWaiverSchema, walkRejectSchema, type Walk, type WalkStatus } from '../../shared/schemas/walks';
+import { ownReviewWaiverSchema, tissueNSchema, walkRejectSchema, type Walk, type WalkStatus } from '../../shared/schemas/walks';
+import { setTissueN, tissueNView } from './tissue-n-service';
 import { dotPlotSvg, mapSketchSvg, mean, walkRow, walkUnits, walksCsv } from './output';
 
 /*
@@ -92,6 +93,20 @@ export function walkReviewPages(ctx: AppContext): Router {
     await service.waiveOwnReview(db, contextOf(req), String(req.params.id), parsed.value.reason);
     req.session.flash = { kind: 'info', text: 'Waiver recorded: the person who walked this field may review this walk. The reason is kept with the walk and in the register.' };
     res.redirect(303, `/walks/${encodeURIComponent(String(req.params.id))}`);
+  });
+
+  // The lab's tissue N %: any walk status, since it never changes the verdict.
+  router.post('/walks/:id/tissue-n', can('walks.tissueN'), async (req, res) => {
+    const walkId = String(req.params.id);
+    const raw = String(req.body?.tissueN ?? '').trim();
+    const parsed = parseForm(tissueNSchema, { percent: raw === '' ? null : Number(raw) });
+    if (!parsed.ok) {
+      return res.status(400).render('walks/show', await detailView(req, res, { errors: { tissueN: parsed.errors.percent ?? Object.values(parsed.errors)[0] }, values: { tissueN: raw } }));
+    }
+    await service.getWalkFor(db, contextOf(req), walkId); // 404 for another organisation's walk
+    await setTissueN(db, contextOf(req), walkId, parsed.value.percent);
+    req.session.flash = { kind: 'info', text: parsed.value.percent === null ? 'Lab tissue N cleared.' : `Lab tissue N saved: ${parsed.value.percent} %.` };
+    res.redirect(303, `/walks/${encodeURIComponent(walkId)}#tissue-n`);
   });
 
   /** Approve or reject through the walks service; a walk no longer waiting for review is a friendly message. */
@@ -219,6 +234,7 @@ export function walkReviewPages(ctx: AppContext): Router {
     const canReview = me.can('walks.review') && walk.status === 'submitted' && !ownWalk;
     const ownWalkBlocked = me.can('walks.review') && walk.status === 'submitted' && ownWalk;
     const canWaive = ownWalkBlocked && me.can('walks.waiveOwnReview');
+    const tissueN = await tissueNView(db, orgId, walk.id);
     return {
       title: `Walk: ${walk.fieldName} · ${walk.ranchName}`,
       walk,
@@ -235,6 +251,8 @@ export function walkReviewPages(ctx: AppContext): Router {
       canReview,
       ownWalkBlocked,
       canWaive,
+      tissueN,
+      canSetTissueN: contextOf(req).can('walks.tissueN'),
       row: walkRow(walk, u),
       statusLabels: STATUS_LABELS,
       errors: form.errors ?? {},

@@ -130,3 +130,12 @@ export const todayItemSchema = z.object({
 export type TodayItem = z.infer<typeof todayItemSchema>;
 
 export const todayResponseSchema = z.object({ items: z.array(todayItemSchema), total: z.number() });
+
+/** PUT /api/walks/:id/tissue-n: the lab's tissue N % of the walk's shoots, or null to clear it. */
+const TISSUE_N_MESSAGE = 'Enter the lab’s tissue nitrogen as a percentage above 0 and at most 10, for example 2.4.';
+export const tissueNSchema = z.object({
+  percent: z
+    .union([z.number({ message: TISSUE_N_MESSAGE }), z.null()], { message: TISSUE_N_MESSAGE })
+    .refine((v) => v === null || (Number.isFinite(v) && v > 0 && v <= 10), { message: TISSUE_N_MESSAGE }),
+});
+export type TissueNInput = z.infer<typeof tissueNSchema>;

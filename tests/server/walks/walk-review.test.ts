@@ -178,7 +178,7 @@ describe('the queue', () => {
     expect(cells).toContain('32.2 in'); // mean of the demo lengths, 81.85 cm
     expect(cells).toMatch(/[\d,]+ lb\/ac/);
     expect(cells).toMatch(/90 %: [\d,]+–[\d,]+ lb\/ac/);
-    expect(cells).toContain('meets threshold');
+    expect(cells).toMatch(/data-walk-verdict="(meets|below|borderline)">(Meets|Below|Borderline)</);
 
     await t.db('users').where({ id: userId('clerk@crowntip.test') }).update({ units: 'metric' });
     const metric = await (await pages('clerk@crowntip.test')).get('/walks');
