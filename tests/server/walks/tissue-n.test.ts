@@ -44,10 +44,10 @@ describe('PUT /api/walks/:id/tissue-n', () => {
       expect(res.body.error.fields.percent).toMatch(/above 0 and at most 10/);
     }
     // Another organisation's walk: 404, and nothing written.
-    const otherRanch = await insertRanch(t.db, 'Elsewhere', [], OTHER_ORG);
-    const otherField = await insertField(t.db, otherRanch, 'X', 5, OTHER_ORG);
-    const otherPlanting = await insertPlanting(t.db, otherField, { crop: 'cereal_rye', seededOn: '2024-10-15' }, OTHER_ORG);
-    const otherWalk = await insertWalk(t.db, otherPlanting, '2025-03-01', 6000, 'approved', OTHER_ORG);
+    const otherRanch = await insertRanch(t.db, 'Elsewhere', [], OTHER_ORG as never);
+    const otherField = await insertField(t.db, otherRanch, 'X', 5, OTHER_ORG as never);
+    const otherPlanting = await insertPlanting(t.db, otherField, { crop: 'cereal_rye', seededOn: '2024-10-15' }, OTHER_ORG as never);
+    const otherWalk = await insertWalk(t.db, otherPlanting, '2025-03-01', 6000, 'approved', OTHER_ORG as never);
     expect((await put(agent, csrf, otherWalk, { percent: 2 })).status).toBe(404);
     expect(await t.db('walk_tissue_n_log').count({ n: '*' }).first()).toMatchObject({ n: 0 });
 
