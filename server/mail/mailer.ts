@@ -16,6 +16,8 @@ export interface Mail {
   text: string;
   html?: string;
   attachments?: MailAttachment[];
+  /** Live one-time links in the text: kept out of the stored copy when the mail really goes out. */
+  secrets?: string[];
 }
 
 export interface Mailer {
@@ -27,11 +29,22 @@ export interface Mailer {
  * message without sending it (the local stand-in for development and tests). Either way the
  * message is recorded in the outbox table that the admin Outbox page lists.
  */
-export function createMailer(db: Knex, opts: { smtpUrl?: string; from: string; logger: Logger }): Mailer {
+export const REDACTED_LINK = '[link removed: it works only for the recipient]';
+
+/**
+ * With real mail, the outbox keeps a copy without the live links (their tokens are stored only
+ * as hashes; a readable copy would undo that). In capture mode the outbox is the only way to
+ * reach the message, so the link stays.
+ */
+const redact = (text: string, secrets: string[]) => secrets.reduce((t, s) => (s ? t.split(s).join(REDACTED_LINK) : t), text);
+
+export function createMailer(
+  db: Knex,
+  opts: { smtpUrl?: string; from: string; logger: Logger; transport?: Pick<Transporter, 'sendMail'> },
+): Mailer {
   const capture = !opts.smtpUrl;
-  const transport: Transporter = capture
-    ? nodemailer.createTransport({ streamTransport: true, buffer: true, newline: 'unix' })
-    : nodemailer.createTransport(opts.smtpUrl);
+  const transport: Pick<Transporter, 'sendMail'> =
+    opts.transport ?? (capture ? nodemailer.createTransport({ streamTransport: true, buffer: true, newline: 'unix' }) : nodemailer.createTransport(opts.smtpUrl));
 
   return {
     async send(mail) {
@@ -40,11 +53,12 @@ export function createMailer(db: Knex, opts: { smtpUrl?: string; from: string; l
         contentType: a.contentType,
         size: a.content.length,
       }));
+      const secrets = capture ? [] : (mail.secrets ?? []);
       const base = {
         to: mail.to,
         subject: mail.subject,
-        text: mail.text,
-        html: mail.html ?? null,
+        text: redact(mail.text, secrets),
+        html: mail.html ? redact(mail.html, secrets) : null,
         attachments: attachmentsMeta,
       };
       try {

@@ -31,7 +31,12 @@ export function outboxPages(ctx: AppContext): Router {
     const message = await getOutboxMessage(ctx.db, contextOf(req).organisationId, req.params.id);
     if (!message) throw new HttpError('not_found');
     // Links in the text become clickable so an invitation can be followed from here in development.
-    res.render('admin/outbox-message', { title: message.subject, message, links: message.text.match(/https?:\/\/\S+/g) ?? [] });
+    res.render('admin/outbox-message', {
+      title: message.subject,
+      message,
+      links: message.text.match(/https?:\/\/\S+/g) ?? [],
+      capturing: message.status === 'captured',
+    });
   });
 
   return router;

@@ -11,6 +11,7 @@ export async function sendPasswordResetLink(ctx: AppContext, user: Pick<User, 'i
   await ctx.mailer.send({
     organisationId: user.organisationId,
     to: user.email,
+    secrets: [link],
     subject: 'Crowntip: choose a new password',
     text: [
       `Hello ${user.name},`,
@@ -36,6 +37,7 @@ export async function sendInvitation(
   await ctx.mailer.send({
     organisationId: user.organisationId,
     to: user.email,
+    secrets: [link],
     subject: `Crowntip: ${invitedBy.name} invited you to ${invitedBy.organisationName}`,
     text: [
       `Hello ${user.name},`,
