@@ -66,9 +66,12 @@ describe('health checks', () => {
 });
 
 /** An HTTP server whose /slow answers after `ms`, and a request to it already in flight. */
-async function serverWithSlowRoute(ms: number) {
+async function serverWithSlowRoute(ms: number, events: string[] = []) {
   const app = express();
-  app.get('/slow', (_req, res) => void setTimeout(() => res.send('finished'), ms));
+  app.get('/slow', (_req, res) => {
+    res.on('finish', () => events.push('answered'));
+    setTimeout(() => res.send('finished'), ms);
+  });
   const server = http.createServer(app);
   await new Promise<void>((r) => server.listen(0, '127.0.0.1', r));
   const { port } = server.address() as net.AddressInfo;
@@ -87,16 +90,15 @@ async function serverWithSlowRoute(ms: number) {
 
 describe('shutting down', () => {
   it('finishes a request in flight, refuses new connections, then releases the database', async () => {
-    const { server, get } = await serverWithSlowRoute(400);
+    const events: string[] = [];
+    const { server, get } = await serverWithSlowRoute(400, events);
     const inFlight = get('/slow');
     await new Promise((r) => setTimeout(r, 100)); // the request has reached the handler
     const lifecycle: Lifecycle = { draining: false };
-    const events: string[] = [];
     const done = shutDown(server, { lifecycle, graceMs: 5000, release: async () => void events.push('released') });
     expect(lifecycle.draining).toBe(true);
     await expect(get('/slow')).rejects.toThrow(/ECONNREFUSED|ECONNRESET|socket hang up/);
     const answer = await inFlight;
-    events.push('answered');
     expect(answer).toEqual({ status: 200, body: 'finished' });
     expect(await done).toBe('drained');
     expect(events).toEqual(['answered', 'released']);
