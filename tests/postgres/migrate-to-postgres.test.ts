@@ -9,6 +9,7 @@ import { createApp } from '../../server/app';
 import { loadConfig } from '../../server/platform/config';
 import { migrateLatest, openDatabase } from '../../server/platform/database';
 import { finaliseRegister, reportingYearOf } from '../../server/registers/service';
+import { keyringOf } from '../../server/registers/signing';
 import { todayIso } from '../../shared/registry/season';
 import { seedDemoScenario } from '../../seeds/01_demo_scenario';
 import { DEMO_ORGANISATIONS, DEMO_USERS } from '../../seeds/demo-people';
@@ -44,9 +45,9 @@ beforeAll(async () => {
   await seedDemoScenario(src, { password: DEMO_PASSWORD, bcryptRounds: 4, history: true });
   const year = reportingYearOf(todayIso()) - 1;
   const ranches: { id: string }[] = await src('ranches').where('organisation_id', ORG).select('id');
-  for (const r of ranches) await finaliseRegister(src, ORG, r.id, year, { id: clerk.id, name: clerk.name }, todayIso());
-  // One change in the registry, so that the change history (numbered by a sequence) has a row.
   const config = loadConfig({ NODE_ENV: 'test', PUBLIC_URL: 'http://crowntip.test:3000' }, { BCRYPT_ROUNDS: 4 });
+  for (const r of ranches) await finaliseRegister(src, ORG, r.id, year, { id: clerk.id, name: clerk.name }, todayIso(), keyringOf(config));
+  // One change in the registry, so that the change history (numbered by a sequence) has a row.
   const office = await signInApi(createApp({ config, db: src, sessionSecret: TEST_SESSION_SECRET }), 'clerk@crowntip.test');
   expect((await office.agent.post('/api/ranches').set('X-CSRF-Token', office.csrf).send({ name: 'Before The Copy' })).status).toBe(201);
   await new Promise((r) => setTimeout(r, 100)); // the session write after the answer
