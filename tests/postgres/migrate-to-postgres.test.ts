@@ -13,7 +13,7 @@ import { keyringOf } from '../../server/registers/signing';
 import { todayIso } from '../../shared/registry/season';
 import { seedDemoScenario } from '../../seeds/01_demo_scenario';
 import { DEMO_ORGANISATIONS, DEMO_USERS } from '../../seeds/demo-people';
-import { DEMO_PASSWORD, signInApi, TEST_SESSION_SECRET } from '../helpers/app';
+import { DEMO_PASSWORD, signInApi, TEST_SESSION_SECRET, TEST_SIGNING_KEY } from '../helpers/app';
 import { createThrowawayDatabase, dropDatabase } from '../helpers/postgres';
 
 /*
@@ -45,7 +45,7 @@ beforeAll(async () => {
   await seedDemoScenario(src, { password: DEMO_PASSWORD, bcryptRounds: 4, history: true });
   const year = reportingYearOf(todayIso()) - 1;
   const ranches: { id: string }[] = await src('ranches').where('organisation_id', ORG).select('id');
-  const config = loadConfig({ NODE_ENV: 'test', PUBLIC_URL: 'http://crowntip.test:3000' }, { BCRYPT_ROUNDS: 4 });
+  const config = loadConfig({ NODE_ENV: 'test', PUBLIC_URL: 'http://crowntip.test:3000' }, { BCRYPT_ROUNDS: 4, REGISTER_SIGNING_KEY: TEST_SIGNING_KEY });
   for (const r of ranches) await finaliseRegister(src, ORG, r.id, year, { id: clerk.id, name: clerk.name }, todayIso(), keyringOf(config));
   // One change in the registry, so that the change history (numbered by a sequence) has a row.
   const office = await signInApi(createApp({ config, db: src, sessionSecret: TEST_SESSION_SECRET }), 'clerk@crowntip.test');
@@ -80,7 +80,7 @@ describe('npm run migrate-to-postgres', () => {
     expect(Number(registers[0].n)).toBeGreaterThan(0);
 
     // The same questions to an app on each database get the same answers.
-    const config = loadConfig({ NODE_ENV: 'test', PUBLIC_URL: 'http://crowntip.test:3000' }, { BCRYPT_ROUNDS: 4 });
+    const config = loadConfig({ NODE_ENV: 'test', PUBLIC_URL: 'http://crowntip.test:3000' }, { BCRYPT_ROUNDS: 4, REGISTER_SIGNING_KEY: TEST_SIGNING_KEY });
     const onSqlite = await signInApi(createApp({ config, db: src, sessionSecret: TEST_SESSION_SECRET }), 'clerk@crowntip.test');
     const onPostgres = await signInApi(createApp({ config, db: dest, sessionSecret: TEST_SESSION_SECRET }), 'clerk@crowntip.test');
     const [{ id: registerId }] = await src('registers').select('id').orderBy('id').limit(1);
