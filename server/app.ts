@@ -184,6 +184,7 @@ export function createApp(deps: AppDeps): Express {
     ['/admin/outbox', mail.outboxPages(ctx)],
     ['/', registry.registryPages(ctx)],
     ['/', registry.seasonPages(ctx)],
+    ['/', registry.assignmentPages(ctx)],
     ['/', registry.historyPages(ctx)],
     ['/registry/import', registry.registryImportPages(ctx)],
     ['/', rules.rulesPages(ctx)],

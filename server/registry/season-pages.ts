@@ -10,6 +10,7 @@ import { ranchOptions } from './service';
 import { currentCreditRule } from '../rules/public';
 import { seasonRows } from './season-view';
 import { toCsv } from '../platform/csv-safe';
+import { samplerOptions } from './assignment-pages';
 
 const seasonQuery = z.object({
   season: seasonSchema.optional().catch(undefined),
@@ -45,6 +46,9 @@ export function seasonPages(ctx: AppContext): Router {
       crops: CROPS,
       rule,
       today,
+      samplers: await samplerOptions(ctx.db, contextOf(req).organisationId),
+      assignedCount: Number(req.query.assigned) || 0,
+      currentUrl: req.originalUrl.replace(/[?&]assigned=\d+/, ''),
       csvHref: `/registry/season.csv?${new URLSearchParams(Object.entries({ season, ranchId: q.ranchId ?? '', crop: q.crop ?? '' }).filter(([, v]) => v))}`,
     });
   });
