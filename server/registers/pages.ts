@@ -70,6 +70,7 @@ export function registerPages(ctx: AppContext): Router {
           title: `Credit by ranch, ${year}`,
           description: summary.ranches.map((r) => `${r.ranchName}: ${rf.massN(r.shown.creditKgN)}${r.final ? ` (version ${r.final.version})` : ' (draft)'}`).join('; '),
           axisLabel: `Credit (${rf.massUnit}); hatched bars are drafts, solid bars finalised versions`,
+          emptyNote: `No credit yet in ${year}: no field has earned any ${rf.massUnit}.`,
           formatTick: (n) => rf.num(n, 0),
           bars: summary.ranches.map((r) => ({ label: r.ranchName, value: rf.massValue(r.shown.creditKgN), valueText: rf.massN(r.shown.creditKgN, 0), muted: !r.final })),
         })

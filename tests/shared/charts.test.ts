@@ -1,6 +1,6 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
-import { escapeXml, niceStep, niceTicks, renderChart, tickLabel, type ChartSpec } from '../../shared/charts/svg';
+import { barChartSvg, escapeXml, niceStep, niceTicks, renderChart, tickLabel, type ChartSpec } from '../../shared/charts/svg';
 
 // Tick steps of 1, 2 and 5 × 10^k, rounded as in P. Heckbert, "Nice numbers for graph labels",
 // Graphics Gems (1990): f < 1.5 → 1, < 3 → 2, < 7 → 5, else 10.
@@ -87,5 +87,32 @@ describe('renderChart', () => {
 
   it('escapes text for XML', () => {
     expect(escapeXml(`<a href='x'>&</a>`)).toBe('&lt;a href=&#39;x&#39;&gt;&amp;&lt;/a&gt;');
+  });
+});
+
+describe('barChartSvg', () => {
+  const chart = (values: number[]) =>
+    barChartSvg({
+      id: 'c',
+      title: 'Credit by ranch',
+      description: 'd',
+      axisLabel: 'Credit (lb N)',
+      formatTick: (n) => String(n),
+      emptyNote: 'No credit yet',
+      bars: values.map((v, i) => ({ label: `Ranch ${i}`, value: v, valueText: `${v} lb N` })),
+    });
+
+  it('draws no numeric axis when every value is 0 (no invented 0–4 lb N scale)', () => {
+    const svg = chart([0, 0]);
+    const ticks = [...svg.matchAll(/text-anchor="middle" fill="#23201a">([^<]*)</g)].map((m) => m[1]);
+    expect(ticks).toEqual(['No credit yet']);
+    expect(svg).not.toContain('Credit (lb N)');
+    expect(svg).toContain('0 lb N');
+  });
+
+  it('ticks 0–1,000 by 500 for a largest bar of 900 (steps of 1, 2 or 5 × 10^k, about four)', () => {
+    // By hand: 900 / 4 = 225; magnitude 100, f = 2.25, so f ≤ 5 gives a step of 500; the end is ⌈900 / 500⌉ × 500 = 1,000.
+    const ticks = [...chart([900, 300]).matchAll(/text-anchor="middle" fill="#23201a">([^<]*)</g)].map((m) => m[1]);
+    expect(ticks).toEqual(['0', '500', '1000', 'Credit (lb N)']);
   });
 });
