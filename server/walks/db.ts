@@ -1,6 +1,6 @@
 import type { Knex } from 'knex';
 import type { Boundary } from '../../shared/registry/boundary';
-import type { Walk, WalkEstimate, WalkPlant, WalkStatus } from '../../shared/schemas/walks';
+import { readWalkEstimate, type Walk, type WalkEstimate, type WalkPlant, type WalkStatus } from '../../shared/schemas/walks';
 import { inOrganisation, nowIso } from '../platform/scope';
 
 /*
@@ -117,7 +117,8 @@ async function assemble(db: Knex, organisationId: string, rows: Record<string, u
     sampler: { id: r.sampler_id as string, name: r.sampler_name as string },
     plants: plantsOf.get(r.id as string) ?? [],
     photos: photosOf.get(r.id as string) ?? [],
-    estimate: r.estimate ? (JSON.parse(r.estimate as string) as WalkEstimate) : null,
+    skippedStops: r.skipped_stops ? (JSON.parse(r.skipped_stops as string) as number[]) : [],
+    estimate: r.estimate ? readWalkEstimate(JSON.parse(r.estimate as string) as WalkEstimate) : null,
     createdAt: iso(r.created_at)!,
     submittedAt: iso(r.submitted_at),
     reviewedAt: iso(r.reviewed_at),
@@ -206,6 +207,8 @@ export interface WalkInsert {
   contentHash: string;
   estimate: WalkEstimate | null;
   plants: WalkPlant[];
+  /** Ascending, without repeats; empty or absent stores null. */
+  skippedStops?: number[];
   createdAt?: string;
   submittedAt?: string | null;
   reviewedBy?: string | null;
@@ -226,6 +229,7 @@ export async function insertWalk(db: Knex, organisationId: string, w: WalkInsert
     reject_reason: null,
     content_hash: w.contentHash,
     estimate: w.estimate ? JSON.stringify(w.estimate) : null,
+    skipped_stops: w.skippedStops?.length ? JSON.stringify(w.skippedStops) : null,
     created_at: w.createdAt ?? nowIso(),
     submitted_at: w.submittedAt ?? null,
     reviewed_by: w.reviewedBy ?? null,

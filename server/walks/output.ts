@@ -4,6 +4,7 @@ import { cmToIn, kgPerHaToLbPerAc } from '../../shared/calc/units';
 import { escapeXml, niceTicks, tickLabel } from '../../shared/charts/svg';
 import type { Boundary } from '../../shared/registry/boundary';
 import { boundaryOutline } from '../../shared/registry/outline';
+import { biomass, length } from '../../shared/format';
 import { WALK_FLAG_LABELS, walkFlags, type WalkFlag } from '../../shared/registry/walk-flags';
 import { type Walk } from '../../shared/schemas/walks';
 import { SHOOT_N_CAUTION, shootNitrogenText, walkBiomassText, walkVerdictOf, type StoredEstimate } from '../../shared/format/walk';
@@ -25,9 +26,10 @@ export function walkUnits(fmt: Formatter) {
     lengthWord: us ? 'inches' : 'centimetres',
     rateUnit: fmt.rateUnit,
     lengthValue,
-    len: (cm: number) => `${fmt.number(lengthValue(cm), 1)} ${us ? 'in' : 'cm'}`,
-    bio: (kg: number) => fmt.rate(kg),
-    range: (r: readonly [number, number]) => `${fmt.number(bioValue(r[0]), 0)}–${fmt.number(bioValue(r[1]), 0)} ${fmt.rateUnit}`,
+    // Figures through the one formatter (shared/format), as on the phone, the register and the PDF.
+    len: (cm: number) => length(cm, fmt.units).full,
+    bio: (kg: number) => biomass(kg, fmt.units).full,
+    range: (r: readonly [number, number]) => `${biomass(r[0], fmt.units).text}–${biomass(r[1], fmt.units).full}`,
     date: fmt.date,
   };
 }
@@ -49,7 +51,7 @@ export function walkRow(w: Walk, u: WalkUnits) {
     meanLength: Number.isFinite(meanCm) ? u.len(meanCm) : '—',
     // The same figure and word as the register page, PDF, CSV and e-mail (shared/format/walk.ts).
     estimate: e ? walkBiomassText(e, u.units) : null,
-    interval: e ? `${Math.round(e.level * 100)} %: ${u.range(e.interval)}` : null,
+    interval: e ? (e.combinedInterval ? `${Math.round((e.confidence ?? e.level) * 100)} % combined: ${u.range(e.combinedInterval)}` : e.verdict && !e.judgedBeforeDecisionBases ? 'spread unknown' : `${Math.round(e.level * 100)} %: ${u.range(e.interval)}`) : null,
     verdict: e ? walkVerdictOf(e as StoredEstimate).verdict : null,
     flags: flags.map((f) => ({ code: f.code, label: WALK_FLAG_LABELS[f.code] })),
     photos: w.photos.length,

@@ -13,8 +13,9 @@ import { listWalks } from './service';
 import * as service from './service';
 import { lengthForBiomass } from '../../shared/calc';
 import { WALK_FLAG_LABELS, explainWalkFlag, outlierStops, walkFlags } from '../../shared/registry/walk-flags';
-import { ownReviewWaiverSchema, tissueNSchema, walkRejectSchema, type Walk, type WalkStatus } from '../../shared/schemas/walks';
+import { ownReviewWaiverSchema, tissueNSchema, walkRejectSchema, type Walk, type WalkEstimate, type WalkStatus } from '../../shared/schemas/walks';
 import { setTissueN, tissueNView } from './tissue-n-service';
+import { DECISION_BASIS_NAMES, adviceText, biomassAgainstThreshold, percent, reasonText, type UnitSystem } from '../../shared/format';
 import { dotPlotSvg, mapSketchSvg, mean, walkRow, walkUnits, walksCsv } from './output';
 
 /*
@@ -41,6 +42,33 @@ type ListQuery = z.infer<typeof listQuery>;
 
 
 /** Clerks and admins land on the review queue; auditors on what counts in registers. */
+/**
+ * The stored verdict in words for the walk page, from its codes and SI numbers in the reader's
+ * units (shared/format). An old snapshot keeps its stored note, shown as stored.
+ */
+export function verdictView(e: WalkEstimate, units: UnitSystem) {
+  const reader = { lang: 'en' as const, units };
+  const compared = biomassAgainstThreshold(e.biomassKgHa, e.thresholdKgHa, units);
+  const legacy = Boolean(e.judgedBeforeDecisionBases) || !e.verdictReasons;
+  const basis = e.decisionBasis ?? 'point';
+  return {
+    verdict: e.verdict ?? (e.meetsThreshold ? 'meets' : 'below'),
+    legacy,
+    basis: legacy
+      ? 'Judged before decision bases existed: the point estimate against the threshold.'
+      : `Decided by the ${DECISION_BASIS_NAMES.en[basis]} at ${percent(e.confidence ?? e.level)} confidence, at least ${e.minPlants} plants.`,
+    rule: e.ruleVersion != null ? `Credit rule version ${e.ruleVersion}` : legacy ? 'Not stored (walks stored before rule versions were kept with the estimate)' : 'Typical values (no rule version saved)',
+    biomass: compared.value.full,
+    threshold: compared.threshold.full,
+    nearness: compared.nearness,
+    combined: e.combinedInterval ? `${biomassAgainstThreshold(e.combinedInterval[0], e.thresholdKgHa, units).value.text}–${biomassAgainstThreshold(e.combinedInterval[1], e.thresholdKgHa, units).value.full}` : null,
+    confidence: percent(e.confidence ?? e.level),
+    reasons: (e.verdictReasons ?? []).map((r) => reasonText(r, reader)),
+    cautions: (e.verdictCautions ?? []).map((r) => reasonText(r, reader)),
+    advice: e.morePlants ? adviceText(e.morePlants, reader) : null,
+  };
+}
+
 const defaultTab = (req: Request): Tab => (contextOf(req).can('walks.review') ? 'submitted' : 'approved');
 
 export function walkReviewPages(ctx: AppContext): Router {
@@ -239,7 +267,8 @@ export function walkReviewPages(ctx: AppContext): Router {
       title: `Walk: ${walk.fieldName} · ${walk.ranchName}`,
       walk,
       field: field ?? null,
-      flags: flags.map((f) => ({ code: f.code, label: WALK_FLAG_LABELS[f.code], text: explainWalkFlag(f, { length: u.len, biomass: u.bio }) })),
+      flags: flags.map((f) => ({ code: f.code, label: WALK_FLAG_LABELS[f.code], text: explainWalkFlag(f, { length: u.len, biomass: u.bio, system: fmt.units }) })),
+      verdict: e ? verdictView(e, fmt.units) : null,
       outliers: odd,
       threshold,
       calibration: calibration ? { id: calibration.id, version: calibration.version, label: calibration.label, status: calibration.status } : null,

@@ -33,14 +33,23 @@ function isUniqueViolation(err: unknown): boolean {
   return code === 'SQLITE_CONSTRAINT_PRIMARYKEY' || code === 'SQLITE_CONSTRAINT_UNIQUE' || code === '23505';
 }
 
-/** Canonical hash of what a client posts, so a re-post of the same walk can be told from a different one. */
+/** The skipped stops as stored: ascending, each once. */
+const skippedOf = (input: WalkCreate): number[] => [...new Set(input.skippedStops ?? [])].sort((a, b) => a - b);
+
+/**
+ * Canonical hash of what a client posts, so a re-post of the same walk can be told from a different
+ * one. Skipped stops count only when there are some, so walks stored before phones sent them (and
+ * re-posts from older phones) keep their hash.
+ */
 export function walkContentHash(input: WalkCreate): string {
+  const skipped = skippedOf(input);
   const canonical = {
     plantingId: input.plantingId,
     walkedOn: input.walkedOn,
     stage: blankToNull(input.stage),
     notes: blankToNull(input.notes),
     plants: [...input.plants].sort((a, b) => a.stop - b.stop).map((p) => [p.stop, p.lengthCm, p.lat ?? null, p.lon ?? null]),
+    ...(skipped.length && { skippedStops: skipped }),
   };
   return createHash('sha256').update(JSON.stringify(canonical)).digest('hex');
 }
@@ -103,6 +112,11 @@ export async function createWalk(db: Knex, actor: WalkActor, input: WalkCreate):
   if (!planting) throw invalid('plantingId', 'That planting was not found.');
   // A phone's date may run a day ahead of the server's UTC date, never more.
   if (input.walkedOn > addDaysIso(todayIso(), 1)) throw invalid('walkedOn', 'The walk date is in the future.');
+  const measured = new Set(input.plants.map((p) => p.stop));
+  const both = skippedOf(input).filter((s) => measured.has(s));
+  if (both.length) {
+    throw invalid('skippedStops', `Stop${both.length === 1 ? '' : 's'} ${both.join(', ')} ${both.length === 1 ? 'has' : 'have'} a plant measured, so ${both.length === 1 ? 'it was' : 'they were'} not skipped.`);
+  }
   const before = await walks.findWalkRecord(db, actor.organisationId, input.id);
   if (before) return existing(before);
 
@@ -125,6 +139,7 @@ export async function createWalk(db: Knex, actor: WalkActor, input: WalkCreate):
         contentHash: hash,
         estimate,
         plants: input.plants,
+        skippedStops: skippedOf(input),
       });
     });
   } catch (err) {

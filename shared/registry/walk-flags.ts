@@ -1,11 +1,15 @@
 import { USUAL_SAMPLE_SIZE } from '../calc/estimate';
 import { OUTLIER_Z, median, outlierIndexes, robustZ } from '../calc/outliers';
+import type { MorePlantsAdvice, VerdictReason } from '../calc/verdict';
+import type { UnitSystem } from '../format/figures';
+import { adviceText, reasonText } from '../format/messages';
 import type { WalkEstimate } from '../schemas/walks';
 
 /*
  * What a reviewer should look at twice before approving a field walk: plants far from the
  * others, an estimate outside the calibrated lengths, no estimate at all, fewer plants than the
- * usual sample, and a verdict the sampling uncertainty could still turn. Pure: the office pages
+ * rule's minimum, and a borderline verdict (decided when the walk was stored, under the rule's
+ * decision basis: shared/calc/verdict.ts; never re-judged here). Pure: the office pages
  * (and later the phone) put the words in the reader's units.
  */
 
@@ -20,7 +24,7 @@ export type WalkFlag =
   | { code: 'extrapolated'; meanLengthCm: number }
   | { code: 'no_calibration' }
   | { code: 'few_plants'; n: number; usual: number }
-  | { code: 'borderline'; range: [number, number]; thresholdKgHa: number; level: number; morePlants: number | null };
+  | { code: 'borderline'; reasons: VerdictReason[]; morePlants: MorePlantsAdvice | null };
 
 /** Short badge words, in the order flags are listed. */
 export const WALK_FLAG_LABELS: Record<WalkFlagCode, string> = {
@@ -43,11 +47,11 @@ export function walkFlags(walk: { plants: readonly { stop: number; lengthCm: num
   const e = walk.estimate;
   if (e?.extrapolated) flags.push({ code: 'extrapolated', meanLengthCm: e.meanLengthCm });
   if (!e) flags.push({ code: 'no_calibration' });
-  if (walk.plants.length < USUAL_SAMPLE_SIZE) flags.push({ code: 'few_plants', n: walk.plants.length, usual: USUAL_SAMPLE_SIZE });
-  // As the estimation core says it: the sampling range straddles the threshold (ends excluded).
-  if (e?.samplingRange && e.samplingRange[0] < e.thresholdKgHa && e.thresholdKgHa < e.samplingRange[1]) {
-    flags.push({ code: 'borderline', range: e.samplingRange, thresholdKgHa: e.thresholdKgHa, level: e.level, morePlants: e.morePlantsSuggested });
-  }
+  // The rule's minimum the walk was judged by; the usual sample for walks stored before it existed.
+  const usual = e?.minPlants ?? USUAL_SAMPLE_SIZE;
+  if (walk.plants.length < usual) flags.push({ code: 'few_plants', n: walk.plants.length, usual });
+  // The stored verdict, as the phone showed it; snapshots from before decision bases have none.
+  if (e?.verdict === 'borderline') flags.push({ code: 'borderline', reasons: e.verdictReasons ?? [], morePlants: e.morePlants ?? null });
   return flags;
 }
 
@@ -55,8 +59,11 @@ export function walkFlags(walk: { plants: readonly { stop: number; lengthCm: num
 export const outlierStops = (flags: readonly WalkFlag[]): Set<number> =>
   new Set(flags.flatMap((f) => (f.code === 'outlier' ? f.plants.map((p) => p.stop) : [])));
 
-/** Plain words for a flag; `length` and `biomass` format SI values in the reader's units. */
-export function explainWalkFlag(flag: WalkFlag, units: { length: (cm: number) => string; biomass: (kgHa: number) => string }): string {
+/**
+ * Plain words for a flag; `length` and `biomass` format SI values in the reader's units, and
+ * `system` names those units for the verdict's reasons (shared/format; US customary if not given).
+ */
+export function explainWalkFlag(flag: WalkFlag, units: { length: (cm: number) => string; biomass: (kgHa: number) => string; system?: UnitSystem }): string {
   switch (flag.code) {
     case 'outlier': {
       const list = flag.plants.map((p) => `stop ${p.stop} (${units.length(p.lengthCm)})`).join(', ');
@@ -73,12 +80,9 @@ export function explainWalkFlag(flag: WalkFlag, units: { length: (cm: number) =>
     case 'few_plants':
       return `${flag.n} plant${flag.n === 1 ? '' : 's'} measured; the usual sample is ${flag.usual}, one per stop. The estimate is less certain.`;
     case 'borderline': {
-      const pct = Math.round(flag.level * 100);
-      const more =
-        flag.morePlants == null
-          ? 'More plants are unlikely to settle it.'
-          : `About ${flag.morePlants} more plant${flag.morePlants === 1 ? '' : 's'} would likely settle it.`;
-      return `The ${pct} % sampling range (${units.biomass(flag.range[0])} to ${units.biomass(flag.range[1])}) spans the ${units.biomass(flag.thresholdKgHa)} threshold: another walk of the same field could give the other verdict. ${more}`;
+      const reader = { lang: 'en' as const, units: units.system ?? 'us' };
+      const why = flag.reasons.filter((r) => r.code !== 'point_meets' && r.code !== 'point_below').map((r) => reasonText(r, reader));
+      return ['Borderline: this walk does not count until it is walked again or more plants are measured.', ...why, ...(flag.morePlants ? [adviceText(flag.morePlants, reader)] : [])].join(' ');
     }
   }
 }

@@ -1,5 +1,7 @@
 import { z } from 'zod';
 import { plainText } from './text';
+import { DECISION_BASES } from '../calc/rules';
+import type { MorePlantsAdvice, VerdictReason } from '../calc/verdict';
 import { boundarySchema } from '../registry/boundary';
 import { isoDate } from './dates';
 
@@ -47,23 +49,66 @@ export type WalkCreate = z.infer<typeof walkCreateSchema>;
 
 export const walkRejectSchema = z.object({ reason: plainText(1000, { multiline: true }).pipe(z.string().min(1, 'Say why the walk is rejected.')) });
 
-/** The estimate snapshot stored with a walk: later calibration versions never change it. */
+/** A verdict reason or caution as stored: a code and the SI numbers its words need (shared/calc/verdict.ts). */
+const verdictReasonSchema = z.custom<VerdictReason>((v) => typeof v === 'object' && v !== null && typeof (v as { code?: unknown }).code === 'string');
+const morePlantsSchema = z.custom<MorePlantsAdvice>((v) => typeof v === 'object' && v !== null && typeof (v as { kind?: unknown }).kind === 'string');
+
+/**
+ * The estimate snapshot stored with a walk: later calibration or rule versions never change it.
+ * Numbers and codes only; screens word them in the reader's units (shared/format). Snapshots stored
+ * before decision bases existed have no `verdict` in storage: they are read with `verdict` from
+ * `meetsThreshold`, basis `point` and `judgedBeforeDecisionBases: true`, and keep their stored
+ * English `note` (new snapshots store no words).
+ */
 export const walkEstimateSchema = z.object({
   calibrationId: z.string(),
   calibrationVersion: z.union([z.number(), z.string()]),
   n: z.number(),
   meanLengthCm: z.number(),
   biomassKgHa: z.number(),
+  /** Single-plot prediction interval at the mean length, at `level`. */
   interval: z.tuple([z.number(), z.number()]),
   samplingRange: z.tuple([z.number(), z.number()]).nullable(),
   level: z.number(),
   thresholdKgHa: z.number(),
+  /** The point estimate at or above the threshold (unrounded), whatever the decision basis. */
   meetsThreshold: z.boolean(),
   extrapolated: z.boolean(),
   morePlantsSuggested: z.number().nullable(),
-  note: z.string(),
+  /** Stored words of snapshots made before decision bases (US customary units); absent on new ones. */
+  note: z.string().optional(),
+  /** Always present in answers (old snapshots are read as said above); optional for what is stored. */
+  verdict: z.enum(['meets', 'below', 'borderline']).optional(),
+  decisionBasis: z.enum(DECISION_BASES).optional(),
+  /** True for a snapshot stored before decision bases: its verdict is the point estimate's. */
+  judgedBeforeDecisionBases: z.boolean().optional(),
+  /** What decided the verdict, and what did not (cautions); absent on old snapshots. */
+  verdictReasons: z.array(verdictReasonSchema).optional(),
+  verdictCautions: z.array(verdictReasonSchema).optional(),
+  /** The rule's confidence (two-sided interval, one-sided bound). */
+  confidence: z.number().optional(),
+  minPlants: z.number().optional(),
+  /** The credit rule version the walk was judged by (null: no version saved, typical values used). */
+  ruleVersionId: z.string().nullable().optional(),
+  ruleVersion: z.number().nullable().optional(),
+  /** Calibration and sampling uncertainty combined (README, "Verdicts"), kg/ha; null when the spread between plants is unknown. */
+  combinedInterval: z.tuple([z.number(), z.number()]).nullable().optional(),
+  lowerBoundKgHa: z.number().nullable().optional(),
+  /** Sample standard deviation of the lengths, cm; null with one plant. */
+  sdLengthCm: z.number().nullable().optional(),
+  /** Advice when borderline (measure_more with its power, reach_minimum, spread_unknown, walk_again, calibration_spans_threshold). */
+  morePlants: morePlantsSchema.nullable().optional(),
 });
 export type WalkEstimate = z.infer<typeof walkEstimateSchema>;
+
+/** A snapshot with its verdict, as every answer carries it. */
+export type JudgedWalkEstimate = WalkEstimate & Required<Pick<WalkEstimate, 'verdict' | 'decisionBasis'>>;
+
+/** A stored snapshot as read: one stored before decision bases gets the point estimate's verdict, labelled so. */
+export function readWalkEstimate(stored: WalkEstimate): JudgedWalkEstimate {
+  if (stored.verdict && stored.decisionBasis) return stored as JudgedWalkEstimate;
+  return { ...stored, verdict: stored.meetsThreshold ? 'meets' : 'below', decisionBasis: 'point', judgedBeforeDecisionBases: true };
+}
 
 export const walkPhotoSchema = z.object({
   id: z.string(),
@@ -89,6 +134,8 @@ export const walkSchema = z.object({
   sampler: z.object({ id: z.string(), name: z.string() }),
   plants: z.array(walkPlantSchema),
   photos: z.array(walkPhotoSchema),
+  /** Stops the sampler chose to skip, ascending; empty when none. */
+  skippedStops: z.array(z.number().int()).optional(),
   /** null when no published calibration is assigned for the planting's crop. */
   estimate: walkEstimateSchema.nullable(),
   createdAt: z.string(),

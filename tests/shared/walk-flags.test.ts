@@ -98,15 +98,25 @@ describe('walkFlags', () => {
     expect(codes(walkFlags({ plants: tenPlants, estimate: estimate() }))).toEqual([]);
   });
 
-  it('flags a borderline verdict when the sampling range straddles the threshold (ends excluded)', () => {
-    expect(codes(walkFlags({ plants: tenPlants, estimate: estimate({ samplingRange: [4800, 5300], morePlantsSuggested: 6 }) }))).toEqual(['borderline']);
-    expect(codes(walkFlags({ plants: tenPlants, estimate: estimate({ samplingRange: [5044, 5300] }) }))).toEqual([]);
-    expect(codes(walkFlags({ plants: tenPlants, estimate: estimate({ samplingRange: null }) }))).toEqual([]);
+  it('flags borderline exactly when the stored verdict is borderline, not from the old sampling range', () => {
+    const reasons = [{ code: 'interval_spans_threshold' as const, lowKgHa: 4800, highKgHa: 5300, thresholdKgHa: 5044, level: 0.9 }];
+    const borderline = estimate({ verdict: 'borderline', decisionBasis: 'point_with_borderline', verdictReasons: reasons, morePlants: { kind: 'calibration_spans_threshold' } });
+    const flags = walkFlags({ plants: tenPlants, estimate: borderline });
+    expect(flags).toEqual([{ code: 'borderline', reasons, morePlants: { kind: 'calibration_spans_threshold' } }]);
+    // A range across the threshold under the point basis is a meets verdict: no borderline flag beside it.
+    expect(codes(walkFlags({ plants: tenPlants, estimate: estimate({ samplingRange: [4800, 5300], verdict: 'meets', decisionBasis: 'point' }) }))).toEqual([]);
+    // An old snapshot (no verdict stored) is never flagged borderline from its sampling range.
+    expect(codes(walkFlags({ plants: tenPlants, estimate: estimate({ samplingRange: [4800, 5300], morePlantsSuggested: 6 }) }))).toEqual([]);
+  });
+
+  it('few plants: against the rule\'s minimum the walk was judged by, when stored', () => {
+    expect(codes(walkFlags({ plants: tenPlants, estimate: estimate({ minPlants: 12 }) }))).toEqual(['few_plants']);
+    expect(codes(walkFlags({ plants: tenPlants.slice(0, 5), estimate: estimate({ minPlants: 5 }) }))).toEqual([]);
   });
 
   it('lists several flags in a fixed order', () => {
     const plants = [{ stop: 1, lengthCm: 80 }, { stop: 2, lengthCm: 81 }, { stop: 3, lengthCm: 79 }, { stop: 4, lengthCm: 80.5 }, { stop: 5, lengthCm: 200 }];
-    const e = estimate({ extrapolated: true, samplingRange: [3000, 9000], morePlantsSuggested: null });
+    const e = estimate({ extrapolated: true, verdict: 'borderline', decisionBasis: 'point_with_borderline', verdictReasons: [{ code: 'too_few_plants', n: 5, minPlants: 10 }] });
     expect(codes(walkFlags({ plants, estimate: e }))).toEqual(['outlier', 'extrapolated', 'few_plants', 'borderline']);
   });
 });
@@ -118,11 +128,23 @@ describe('explainWalkFlag', () => {
     expect(text).toContain('stop 4 (8 cm)');
     expect(text).toContain('median of 81 cm');
   });
-  it('says how many more plants would settle a borderline verdict, or that none would', () => {
-    const f = { code: 'borderline' as const, range: [4800, 5300] as [number, number], thresholdKgHa: 5044, level: 0.9 };
-    expect(explainWalkFlag({ ...f, morePlants: 6 }, units)).toContain('About 6 more plants');
-    expect(explainWalkFlag({ ...f, morePlants: null }, units)).toContain('unlikely to settle');
-    expect(explainWalkFlag({ ...f, morePlants: 1 }, units)).toContain('90 % sampling range (4800 kg/ha to 5300 kg/ha)');
+  it('words a borderline verdict from its stored reasons and stated-power advice, in the reader\'s units', () => {
+    // 4,800 and 5,300 kg/ha ÷ 1.12085 (kg/ha per lb/ac, NIST SP 811) = 4,282 and 4,729 lb/ac; 5,044 kg/ha = 4,500 lb/ac.
+    const f = {
+      code: 'borderline' as const,
+      reasons: [
+        { code: 'too_few_plants' as const, n: 6, minPlants: 10 },
+        { code: 'interval_spans_threshold' as const, lowKgHa: 4800, highKgHa: 5300, thresholdKgHa: 5044, level: 0.9 },
+      ],
+      morePlants: { kind: 'measure_more' as const, more: 14, total: 20, power: 0.8, alpha: 0.1, sided: 'two' as const },
+    };
+    const text = explainWalkFlag(f, { ...units, system: 'us' });
+    expect(text).toContain('Only 6 plants measured; the rule asks for at least 10.');
+    expect(text).toContain('The 90% range (4,282–4,729 lb/ac) spans the 4,500 lb/ac threshold');
+    expect(text).toContain('About 14 more plants would give an 80% chance of settling it.');
+    expect(text).not.toMatch(/likely/);
+    expect(explainWalkFlag(f, { ...units, system: 'metric' })).toContain('(4,800–5,300 kg/ha) spans the 5,044 kg/ha threshold');
+    expect(explainWalkFlag({ ...f, morePlants: { kind: 'calibration_spans_threshold' } }, units)).toContain('more plants will not settle it');
   });
   it('words every other flag', () => {
     expect(explainWalkFlag({ code: 'extrapolated', meanLengthCm: 150 }, units)).toContain('150 cm');

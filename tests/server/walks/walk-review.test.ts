@@ -177,8 +177,10 @@ describe('the queue', () => {
     expect(cells).toContain('Teo Marquenda');
     expect(cells).toContain('32.2 in'); // mean of the demo lengths, 81.85 cm
     expect(cells).toMatch(/[\d,]+ lb\/ac/);
-    expect(cells).toMatch(/90 %: [\d,]+–[\d,]+ lb\/ac/);
+    expect(cells).toMatch(/90 % combined: [\d,]+–[\d,]+ lb\/ac/);
     expect(cells).toMatch(/data-walk-verdict="(meets|below|borderline)">(Meets|Below|Borderline)</);
+    expect(cells).toContain('data-walk-verdict="borderline"'); // the demo rye walk: see the flags test below
+    expect(cells).not.toContain('✓');
 
     await t.db('users').where({ id: userId('clerk@crowntip.test') }).update({ units: 'metric' });
     const metric = await (await pages('clerk@crowntip.test')).get('/walks');
@@ -200,11 +202,14 @@ describe('the queue', () => {
       return [...row.slice(0, row.indexOf('</tr>')).matchAll(/data-flag="([a-z_]+)"/g)].map((m) => m[1]);
     };
     expect(flagsOf(outlier)).toContain('outlier');
-    expect(flagsOf(few)).toEqual(['few_plants']);
+    // Six plants under the demo rule's minimum of 10: borderline (too few plants) as well.
+    expect(flagsOf(few)).toEqual(['few_plants', 'borderline']);
     expect(flagsOf(extrapolated)).toContain('extrapolated');
     expect(flagsOf(borderline)).toEqual(['borderline']);
     expect(flagsOf(noCalibration)).toEqual(['no_calibration']);
-    expect(flagsOf(SUBMITTED)).toEqual([]);
+    // The demo rye walk (10 plants, mean 32.2 in) is the issue's example: the calibration's own scatter
+    // spans 4,500 lb/ac from about 25 to 39 in, so under the demo rule it is borderline.
+    expect(flagsOf(SUBMITTED)).toEqual(['borderline']);
 
     // The detail page says what each flag means, and marks the odd plant.
     const detail = (await agent.get(`/walks/${outlier}`)).text;
@@ -247,8 +252,9 @@ describe('a walk’s evidence', () => {
     expect(sketch.match(/<title>Stop \d+/g)).toHaveLength(9);
     expect(sketch).not.toContain('<title>Stop 3:');
     expect(html).toContain('9 of 10 with GPS, on the field’s boundary outline');
-    // Estimate block with its note, calibration and version.
-    expect(html).toContain('data-estimate-note');
+    // Estimate block: the verdict's reasons worded from the stored numbers (no stored note), calibration and version.
+    expect(html).toContain('data-verdict-reasons');
+    expect(html).not.toContain('data-estimate-note');
     expect(html).toMatch(/version 1 <span[^>]*>\(id [^)]+\)/);
   });
 
