@@ -196,6 +196,6 @@ export function createApp(deps: AppDeps): Express {
   for (const [prefix, router] of pages) app.use(prefix, router);
 
   app.use(notFound);
-  app.use(errorHandler(logger));
+  app.use(errorHandler(logger, viewPermissions));
   return app;
 }

@@ -2,7 +2,7 @@ import type { ErrorRequestHandler, Request } from 'express';
 import { ZodError } from 'zod';
 import type { Logger } from 'pino';
 import { makeFormatter } from './format';
-import { viewPermissions } from './permissions';
+import type { Role } from './roles';
 
 /** Stable error codes of the JSON API (README, "API"); tests assert these, not the wording. */
 export type ErrorCode =
@@ -101,7 +101,8 @@ export function toHttpError(err: unknown, statusSoFar: number): HttpError {
  * The one error middleware: JSON `{error: {code, message, fields?}}` under /api, a friendly page
  * elsewhere; a signed-out visitor to an office page goes to the sign-in page and back.
  */
-export function errorHandler(logger: Logger): ErrorRequestHandler {
+/** `permissionsFor` gives an error page the signed-in role's `can` (passed in: the permissions map's guards throw these errors). */
+export function errorHandler(logger: Logger, permissionsFor: (role: Role | undefined) => (action: never) => boolean): ErrorRequestHandler {
   return (err, req, res, _next) => {
     const httpError = toHttpError(err, res.statusCode);
     if (httpError.code === 'internal') logger.error({ err, url: req.originalUrl }, 'unhandled error');
@@ -129,7 +130,7 @@ export function errorHandler(logger: Logger): ErrorRequestHandler {
     const context = req.context;
     const pageDefaults: Record<string, unknown> = {
       user: context?.user ?? null,
-      can: viewPermissions(context?.user?.role),
+      can: permissionsFor(context?.user?.role),
       currentPath: req.path,
       fmt: makeFormatter(context?.units ?? 'us', false),
       csrfToken: '',

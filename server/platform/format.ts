@@ -1,5 +1,5 @@
 import { haToAc, kgPerHaToLbPerAc } from '../../shared/calc/units';
-import type { Units } from '../people/public';
+import type { Units } from '../../shared/schemas/session';
 
 /**
  * Numbers and dates as one user reads them: their units (SI is what is stored) and their
