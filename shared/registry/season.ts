@@ -17,7 +17,7 @@ export function seasonOfDate(isoDate: string): string {
   return seasonStarting(start);
 }
 
-export const seasonStarting = (year: number) => `${year}-${String((year + 1) % 100).padStart(2, '0')}`;
+export const seasonStarting = (year: number) => `${String(year).padStart(4, '0')}-${String((year + 1) % 100).padStart(2, '0')}`;
 
 export const seasonStartYear = (season: string) => Number(season.slice(0, 4));
 
@@ -29,3 +29,17 @@ export const todayIso = (now = new Date()) => now.toISOString().slice(0, 10);
 /** The ISO date `days` days after (or before) an ISO date, in whole UTC days. */
 export const addDaysIso = (isoDate: string, days: number) =>
   new Date(Date.parse(`${isoDate.slice(0, 10)}T00:00:00Z`) + days * 86_400_000).toISOString().slice(0, 10);
+
+const MONTHS = ['Jan', 'Feb', 'Mar', 'Apr', 'May', 'Jun', 'Jul', 'Aug', 'Sep', 'Oct', 'Nov', 'Dec'];
+
+/**
+ * The one season rule of the planting form, the API and the CSV import: a planting belongs to the
+ * season its seeding date falls in. Null when they agree, else the words shown beside the season.
+ */
+export function seasonMismatch(season: string, seededOn: string): string | null {
+  if (!isSeason(season) || !/^\d{4}-\d{2}-\d{2}$/.test(seededOn)) return null;
+  const belongs = seasonOfDate(seededOn);
+  if (belongs === season) return null;
+  const [y, m, d] = seededOn.split('-').map(Number);
+  return `Seeded on ${MONTHS[m - 1]} ${d}, ${y} belongs to season ${belongs}, not ${season} (seasons run July to June).`;
+}

@@ -1,7 +1,7 @@
 import { z } from 'zod';
 import { CROPS } from '../calc/rules';
 import { checkedBoundarySchema } from '../registry/boundary';
-import { isSeason } from '../registry/season';
+import { isSeason, seasonMismatch } from '../registry/season';
 
 import { isoDate } from './dates';
 import { plainText } from './text';
@@ -63,8 +63,10 @@ const plantingShape = z.object({
   notes: optionalText(2000, true),
 });
 
-type PlantingDates = { seededOn?: string; terminatedOn?: string | null; plannedTerminationOn?: string | null };
+type PlantingDates = { season?: string; seededOn?: string; terminatedOn?: string | null; plannedTerminationOn?: string | null };
 const datesInOrder = (v: PlantingDates, ctx: z.RefinementCtx) => {
+  const mismatch = v.season && v.seededOn ? seasonMismatch(v.season, v.seededOn) : null;
+  if (mismatch) ctx.addIssue({ code: 'custom', path: ['season'], message: mismatch });
   if (v.seededOn && v.terminatedOn && v.terminatedOn < v.seededOn) {
     ctx.addIssue({ code: 'custom', path: ['terminatedOn'], message: 'Termination cannot come before seeding.' });
   }

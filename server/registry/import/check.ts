@@ -206,9 +206,7 @@ export function createChecker(opts: CheckOptions) {
     if (raw.season) {
       season = parseSeason(raw.season);
       if (!season) add('season', `“${raw.season}” is not a season. Write it as 2026-27.`);
-      else if (seededOn && seasonOfDate(seededOn) !== season) {
-        add('season', `Seeded on ${seededOn} belongs to season ${seasonOfDate(seededOn)}, not ${season} (seasons run July to June).`);
-      }
+      // A season that contradicts the seeding date is the shared schema's rule (below), as on the form.
     } else if (seededOn) {
       season = seasonOfDate(seededOn);
       seasonFromDate = true;
@@ -257,11 +255,12 @@ export function createChecker(opts: CheckOptions) {
         plantingInputSchema,
         {
           fieldId: 'import',
-          season: season ?? '2000-01',
+          // Placeholders agree with each other, so the season rule speaks only of the values typed.
+          season: seededOn ? (season ?? seasonOfDate(seededOn)) : '2000-01',
           crop: crop ?? 'other',
           variety: raw.variety || null,
           // A date that failed above is replaced by one that cannot put the others out of order.
-          seededOn: seededOn ?? '0001-01-01',
+          seededOn: seededOn ?? '2000-07-01',
           seedingRateKgHa: seedingRateKgHa !== null && seedingRateKgHa <= 2000 ? seedingRateKgHa : null,
           plannedTerminationOn,
           terminatedOn,
