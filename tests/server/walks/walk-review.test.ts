@@ -141,8 +141,13 @@ describe('the queue', () => {
     // The demo's submitted walk was walked two days ago; this one today.
     const fresh = await postWalk((await duePlanting('cereal_rye')).plantingId, ORDINARY);
     const clerk = await pages('clerk@crowntip.test');
-    expect(listed((await clerk.get('/walks?status=submitted')).text)).toEqual([SUBMITTED, fresh]);
-    expect(listed((await clerk.get('/walks?status=all')).text).slice(0, 2)).toEqual([fresh, SUBMITTED]);
+    const queue = (await clerk.get('/walks?status=submitted')).text;
+    expect(listed(queue)).toEqual([SUBMITTED, fresh]);
+    const all = (await clerk.get('/walks?status=all')).text;
+    expect(listed(all).slice(0, 2)).toEqual([fresh, SUBMITTED]);
+    // The captions say the order each list really has.
+    expect(queue).toMatch(/<caption>[^<]*oldest walk first[^<]*<\/caption>/);
+    expect(all).toMatch(/<caption>[^<]*newest walk first[^<]*<\/caption>/);
   });
 
   it('filters by status, ranch and sampler', async () => {
