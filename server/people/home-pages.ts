@@ -5,7 +5,7 @@ import { can, homeFor } from '../platform/permissions';
 import { ROLE_SUMMARIES } from '../platform/roles';
 import { countUsers } from './service';
 import { todayIso } from '../../shared/registry/season';
-import { workQueue } from './work-queue';
+import { workQueue } from './service';
 
 export function homePages(ctx: AppContext): Router {
   const router = Router();

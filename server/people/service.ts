@@ -19,3 +19,4 @@ export {
   type UserListQuery,
 } from './db';
 export { checkUserToken, spendUserToken, type TokenPurpose } from './tokens-db';
+export { DUE_SOON_DAYS, workQueue, type WorkQueue } from './work-queue-db';

@@ -7,7 +7,7 @@ import { HttpError } from '../platform/errors';
 import { can, rolesAllowed } from '../platform/permissions';
 import { addDaysIso, todayIso } from '../../shared/registry/season';
 import { currentCreditRule } from '../rules/public';
-import { assignWalk } from '../walks/public';
+import { assignWalk, listActiveAssignees, listAssignmentsBySampler, plannedTerminationOf, type AssignmentRow } from '../walks/public';
 
 /*
  * Clerks ask samplers to walk plantings from the office: several at once from the season view,
@@ -33,8 +33,8 @@ const bulkSchema = z.object({
   back: z.string().optional(),
 });
 
-export async function samplerOptions(db: Knex, organisationId: string) {
-  return db('users').where({ organisation_id: organisationId, active: true }).whereIn('role', rolesAllowed('walks.assignee')).orderBy('name').select('id', 'name');
+export function samplerOptions(db: Knex, organisationId: string) {
+  return listActiveAssignees(db, organisationId, rolesAllowed('walks.assignee'));
 }
 
 export function assignmentPages(ctx: AppContext): Router {
@@ -57,9 +57,9 @@ export function assignmentPages(ctx: AppContext): Router {
     // All or nothing: one unknown planting or a refused sampler leaves every assignment as it was.
     await ctx.db.transaction(async (trx) => {
       for (const id of ids) {
-        const p = await trx('plantings').where({ organisation_id: orgId, id }).first('planned_termination_on');
-        if (!p) throw new HttpError('not_found', 'One of the selected plantings does not exist (it may have been deleted). Reload the season view.');
-        const due = dueOn ?? defaultDueOn(p.planned_termination_on ? String(p.planned_termination_on).slice(0, 10) : null, rule.maxDaysSampleBeforeTermination, today);
+        const planned = await plannedTerminationOf(trx, orgId, id);
+        if (planned === undefined) throw new HttpError('not_found', 'One of the selected plantings does not exist (it may have been deleted). Reload the season view.');
+        const due = dueOn ?? defaultDueOn(planned, rule.maxDaysSampleBeforeTermination, today);
         await assignWalk(trx, actor, id, { samplerId: body.samplerId!, dueOn: due });
       }
     });
@@ -70,36 +70,12 @@ export function assignmentPages(ctx: AppContext): Router {
   router.get('/registry/assignments', can('office.use'), async (req, res) => {
     const orgId = contextOf(req).organisationId;
     const today = todayIso();
-    const rows = await ctx.db('walk_assignments')
-      .join('users', 'users.id', 'walk_assignments.sampler_id')
-      .join('plantings', 'plantings.id', 'walk_assignments.planting_id')
-      .join('fields', 'fields.id', 'plantings.field_id')
-      .join('ranches', 'ranches.id', 'fields.ranch_id')
-      .where('walk_assignments.organisation_id', orgId)
-      .select(
-        'users.id as samplerId',
-        'users.name as samplerName',
-        'plantings.id as plantingId',
-        'plantings.season',
-        'plantings.crop',
-        'plantings.terminated_on as terminatedOn',
-        'fields.id as fieldId',
-        'fields.name as fieldName',
-        'ranches.name as ranchName',
-        'walk_assignments.due_on as dueOn',
-        ctx.db.raw(`exists(select 1 from field_walks w where w.planting_id = plantings.id and w.status in ('submitted','approved')) as walked`),
-      )
-      .orderBy('users.name')
-      .orderBy('walk_assignments.due_on')
-      .orderBy('ranches.name')
-      .orderBy('fields.name');
-    const bySampler = new Map<string, { name: string; items: typeof rows }>();
+    const rows = await listAssignmentsBySampler(ctx.db, orgId);
+    const bySampler = new Map<string, { name: string; items: (AssignmentRow & { overdue: boolean })[] }>();
     for (const r of rows) {
-      r.dueOn = r.dueOn ? String(r.dueOn).slice(0, 10) : null;
-      r.walked = Boolean(Number(r.walked)) || r.walked === true;
-      r.overdue = !r.walked && !r.terminatedOn && r.dueOn !== null && r.dueOn < today;
+      const overdue = !r.walked && !r.terminatedOn && r.dueOn !== null && r.dueOn < today;
       if (!bySampler.has(r.samplerId)) bySampler.set(r.samplerId, { name: r.samplerName, items: [] });
-      bySampler.get(r.samplerId)!.items.push(r);
+      bySampler.get(r.samplerId)!.items.push({ ...r, overdue });
     }
     res.render('registry/assignments', { title: 'Assignments', samplers: [...bySampler.values()], today });
   });

@@ -1,2 +1,3 @@
 /** What other resources may use of field walks. */
 export { assignWalk, unassignWalk } from './service';
+export { listActiveAssignees, listAssignmentsBySampler, plannedTerminationOf, type AssignmentRow } from './assignments-db';

@@ -1,6 +1,6 @@
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import { createTestApp, signInPages, type TestApp } from '../../helpers/app';
-import { workQueue } from '../../../server/people/work-queue';
+import { workQueue } from '../../../server/people/work-queue-db';
 import { DEMO_ORGANISATIONS, DEMO_USERS } from '../../../seeds/demo-people';
 import { addDaysIso } from '../../../shared/registry/season';
 

@@ -1,0 +1,65 @@
+import type { Knex } from 'knex';
+import type { Role } from '../platform/roles';
+
+/*
+ * Reads behind the office's assignment pages: who can be asked to walk, a planting's planned
+ * termination (for the default due date), and every assignment of the organisation by sampler.
+ */
+
+/** Active users of the organisation who hold one of the roles, by name. */
+export function listActiveAssignees(db: Knex, organisationId: string, roles: Role[]): Promise<{ id: string; name: string }[]> {
+  return db('users').where({ organisation_id: organisationId, active: true }).whereIn('role', roles).orderBy('name').select('id', 'name');
+}
+
+/** The planting's planned termination date (YYYY-MM-DD or null), or undefined when it is not the organisation's. */
+export async function plannedTerminationOf(db: Knex, organisationId: string, plantingId: string): Promise<string | null | undefined> {
+  const p = await db('plantings').where({ organisation_id: organisationId, id: plantingId }).first('planned_termination_on');
+  if (!p) return undefined;
+  return p.planned_termination_on ? String(p.planned_termination_on).slice(0, 10) : null;
+}
+
+export interface AssignmentRow {
+  samplerId: string;
+  samplerName: string;
+  plantingId: string;
+  season: string;
+  crop: string;
+  terminatedOn: string | null;
+  fieldId: string;
+  fieldName: string;
+  ranchName: string;
+  dueOn: string | null;
+  walked: boolean;
+}
+
+/** Every assignment of the organisation with its field, by sampler name then due date. */
+export async function listAssignmentsBySampler(db: Knex, organisationId: string): Promise<AssignmentRow[]> {
+  const rows = await db('walk_assignments')
+    .join('users', 'users.id', 'walk_assignments.sampler_id')
+    .join('plantings', 'plantings.id', 'walk_assignments.planting_id')
+    .join('fields', 'fields.id', 'plantings.field_id')
+    .join('ranches', 'ranches.id', 'fields.ranch_id')
+    .where('walk_assignments.organisation_id', organisationId)
+    .select(
+      'users.id as samplerId',
+      'users.name as samplerName',
+      'plantings.id as plantingId',
+      'plantings.season',
+      'plantings.crop',
+      'plantings.terminated_on as terminatedOn',
+      'fields.id as fieldId',
+      'fields.name as fieldName',
+      'ranches.name as ranchName',
+      'walk_assignments.due_on as dueOn',
+      db.raw(`exists(select 1 from field_walks w where w.planting_id = plantings.id and w.status in ('submitted','approved')) as walked`),
+    )
+    .orderBy('users.name')
+    .orderBy('walk_assignments.due_on')
+    .orderBy('ranches.name')
+    .orderBy('fields.name');
+  return rows.map((r) => ({
+    ...r,
+    dueOn: r.dueOn ? String(r.dueOn).slice(0, 10) : null,
+    walked: r.walked === true || Boolean(Number(r.walked)),
+  }));
+}
