@@ -8,6 +8,7 @@ import {
   QUESTION_ABOVE_CM,
 } from '../../client/features/entry/validation';
 import { MAX_LENGTH_CM } from '../../shared/schemas/walks';
+import { outlierIndexes } from '../../shared/calc/outliers';
 
 describe('parseLength', () => {
   it.each([
@@ -74,25 +75,42 @@ describe('checkLength: question, do not refuse', () => {
     expect(checkLength(String(QUESTION_ABOVE_CM), 'cm', []).kind).toBe('ok');
   });
 
-  const others = [72, 75, 70, 78, 74]; // median 74, MAD 2 → robust SD max(2.97, 3.7, 1) = 3.7
+  // The shared rule (shared/calc/outliers.ts): modified z = |x − median|/(1.4826·MAD) among all six
+  // plants, above 3.5 (Iglewicz and Hoaglin, 1993). Worked by hand:
+  //   x = 60: sorted 60 70 72 74 75 78, median 73; deviations 13 3 1 1 2 5 → MAD 2.5, scale 3.7065;
+  //           z = 13/3.7065 = 3.507 > 3.5 → question;  x = 61: 12/3.7065 = 3.24 → ok; x = 63: ok.
+  //   x = 90: sorted 70 72 74 75 78 90, median 74.5; deviations 2.5 0.5 4.5 3.5 0.5 15.5 → MAD 3,
+  //           scale 4.4478; z = 15.5/4.4478 = 3.48 → ok;  x = 91: 16.5/4.4478 = 3.71 → question.
+  //   x = 8: median 73, MAD 2.5; z = 65/3.7065 = 17.5 → question.
+  const others = [72, 75, 70, 78, 74];
   it.each([
     ['8', 'question'],
-    ['60', 'question'], // 14 below the median: > 3 × 3.7 = 11.1
-    ['63', 'ok'], // 11 below: within
-    ['85', 'ok'],
-    ['86', 'question'],
-  ] as const)('%j cm among %j others → %s', (text, kind) => {
+    ['60', 'question'],
+    ['61', 'ok'],
+    ['63', 'ok'],
+    ['90', 'ok'],
+    ['91', 'question'],
+  ] as const)('%j cm among the five others → %s', (text, kind) => {
     const r = checkLength(text, 'cm', others);
     expect(r.kind).toBe(kind);
     if (r.kind === 'question') {
       expect(r.reasons).toEqual(['far_from_others']);
-      expect(r.medianCm).toBe(74);
+      expect(r.medianCm).toBe(74); // the median of the others, shown to the sampler
     }
   });
 
-  it('the outlier check waits for four other plants', () => {
-    expect(checkLength('8', 'cm', [72, 75, 70]).kind).toBe('ok');
-    expect(checkLength('8', 'cm', [72, 75, 70, 71]).kind).toBe('question');
+  it('the outlier check starts at four plants in all (three others), as in review', () => {
+    // [72, 75] + 8: three plants, no test. [72, 75, 70] + 8: sorted 8 70 72 75, median 71,
+    // deviations 63 1 1 4 → MAD 2.5; z = 63/3.7065 = 17 → question.
+    expect(checkLength('8', 'cm', [72, 75]).kind).toBe('ok');
+    expect(checkLength('8', 'cm', [72, 75, 70]).kind).toBe('question');
+  });
+
+  it('is the very rule the office review uses (same plant, same answer)', () => {
+    const lengths = [72, 75, 70, 78, 74, 91];
+    expect(outlierIndexes(lengths)).toEqual([5]);
+    expect(isFarFromOthers(91, lengths.slice(0, 5))).toBe(true);
+    expect(isFarFromOthers(74, [72, 75, 70, 78, 91])).toBe(false);
   });
 
   it('works in inches against lengths stored in cm', () => {
@@ -101,9 +119,11 @@ describe('checkLength: question, do not refuse', () => {
     expect(checkLength('3', 'in', othersCm).kind).toBe('question');
   });
 
-  it('a run of identical lengths does not flag every small difference (MAD = 0)', () => {
-    expect(isFarFromOthers(76, [75, 75, 75, 75])).toBe(false);
-    expect(isFarFromOthers(90, [75, 75, 75, 75])).toBe(true);
+  it('identical lengths: the mean absolute deviation stands in for a MAD of 0', () => {
+    // 75 75 75 75 76: median 75, MAD 0; mean absolute deviation 0.2 → scale 1.253314·0.2 = 0.2507;
+    // z(76) = 1/0.2507 = 3.99 > 3.5, so the phone asks, as review would flag it.
+    expect(isFarFromOthers(76, [75, 75, 75, 75])).toBe(true);
+    expect(isFarFromOthers(75, [75, 75, 75, 75])).toBe(false);
   });
 
   it('both reasons together', () => {

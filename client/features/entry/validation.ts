@@ -1,4 +1,5 @@
 import { MAX_LENGTH_CM } from '../../../shared/schemas/walks';
+import { OUTLIER_MIN_N, outlierIndexes } from '../../../shared/calc/outliers';
 
 /**
  * Checks one main shoot length as the sampler types it. Pure (no DOM, no React) so it is
@@ -14,12 +15,8 @@ export type LengthUnit = 'in' | 'cm';
 
 /** Above this a cereal main shoot is very tall: ask, do not refuse (issue 6). */
 export const QUESTION_ABOVE_CM = 250;
-/** Robust z above which a value is "far from the others". */
-export const OUTLIER_ROBUST_Z = 3;
-/** The outlier test starts once this many other plants are measured. */
-export const OUTLIER_MIN_OTHERS = 4;
-/** 1.4826 × MAD estimates the standard deviation for normally distributed data. */
-const MAD_TO_SD = 1.4826;
+/** The outlier test starts once this many other plants are measured (the shared rule's 4 plants in all). */
+export const OUTLIER_MIN_OTHERS = OUTLIER_MIN_N - 1;
 
 export type RefuseReason = 'not_number' | 'not_positive' | 'too_long';
 export type QuestionReason = 'very_long' | 'far_from_others';
@@ -59,19 +56,13 @@ export function median(values: readonly number[]): number {
 }
 
 /**
- * Is `x` far from the `others`? Uses the median and the median absolute deviation (MAD) rather
- * than the mean and SD, because one wrong entry would drag the mean and inflate the SD enough to
- * hide itself. More than 3 robust SDs (1.4826 × MAD) from the median, once at least 4 other plants
- * are in, is a common practice rule for flagging outliers (no published source for this use).
- * The robust SD is floored at 5 % of the median (and 1 cm) so that a run of identical lengths
- * (MAD = 0) does not flag every other value.
+ * Is `x` far from the `others`? The one outlier rule of the phone and the office review
+ * (shared/calc/outliers.ts: modified z-score above 3.5 among all the plants, from 4 plants on), so
+ * the plant questioned here is the plant flagged in review.
  */
 export function isFarFromOthers(xCm: number, othersCm: readonly number[]): boolean {
   if (othersCm.length < OUTLIER_MIN_OTHERS) return false;
-  const med = median(othersCm);
-  const mad = median(othersCm.map((v) => Math.abs(v - med)));
-  const robustSd = Math.max(MAD_TO_SD * mad, 0.05 * med, 1);
-  return Math.abs(xCm - med) > OUTLIER_ROBUST_Z * robustSd;
+  return outlierIndexes([...othersCm, xCm]).includes(othersCm.length);
 }
 
 /** Checks the text typed for one stop against the lengths already entered at the other stops (cm). */
