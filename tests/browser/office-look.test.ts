@@ -134,15 +134,20 @@ describe('cautions and chips', () => {
     expect(await page.locator('.caution li').count()).toBeGreaterThanOrEqual(1);
     await screenshot(page, 'look-register-draft-clerk');
 
-    // The demo's approved walk is below the threshold: its chip on the walks list, beside the
-    // chip the flags use (views/walks/_flags.ejs; the demo walks carry no flag, so a probe).
+    // The verdict chips of views/walks/_verdict.ejs (probes: the demo walks may not show every
+    // verdict), beside the chip the flags use (views/walks/_flags.ejs).
     await page.goto(`${suite.server.url}/walks?status=all`);
-    const belowChip = page.getByText('below threshold', { exact: true }).first();
-    const meetsChip = page.getByText('meets threshold', { exact: true }).first();
-    const read = (l: Locator) => l.evaluate((el) => {
+    const verdictClass = (verdict: string) => new RegExp(`class="([^"]+)" data-walk-verdict="${verdict}"`).exec(readFileSync('views/walks/_verdict.ejs', 'utf8'))![1];
+    const probe = (cls: string) => page.evaluate((c) => {
+      const el = document.createElement('span');
+      el.className = c;
+      el.textContent = 'probe';
+      document.querySelector('main')!.append(el);
       const cs = getComputedStyle(el);
-      return { bg: cs.backgroundColor, border: cs.borderTopColor, color: cs.color };
-    });
+      const out = { bg: cs.backgroundColor, border: cs.borderTopColor, color: cs.color };
+      el.remove();
+      return out;
+    }, cls);
     const flagClass = /class="([^"]+)" data-flag/.exec(readFileSync('views/walks/_flags.ejs', 'utf8'))![1];
     const flag = await page.evaluate((cls) => {
       const el = document.createElement('span');
@@ -154,7 +159,7 @@ describe('cautions and chips', () => {
       el.remove();
       return out;
     }, flagClass);
-    const chips = { flag, below: await read(belowChip), meets: await read(meetsChip) };
+    const chips = { flag, below: await probe(verdictClass('below')), meets: await probe(verdictClass('meets')) };
     expect(chips.flag.bg).not.toBe(chips.below.bg);
     expect(chips.flag.border).not.toBe(chips.below.border);
     expect(chips.flag.color).not.toBe(chips.below.color);

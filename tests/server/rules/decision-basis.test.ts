@@ -84,7 +84,7 @@ describe('the rule page', () => {
   it('shows each basis in plain words with the local authority caution, and saves a new version from a percentage and feet', async () => {
     const admin = await signInPages(t.app, 'admin@crowntip.test');
     const page = await admin.get('/admin/rules');
-    expect(page.text).toContain('Agree the choice with the local authority');
+    expect(page.text).toContain('Agree the choice of decision basis with the local authority');
     for (const basis of ['point', 'lower_bound', 'point_with_borderline']) expect(page.text).toContain(`name="decisionBasis" value="${basis}"`);
     expect(page.text).toMatch(/value="point_with_borderline"\s+checked/);
     expect(page.text).toContain('Safest for the water');
