@@ -62,8 +62,17 @@ describe('walk review in the browser', () => {
     expect(await page.getByRole('img', { name: /Main shoot lengths of the 10 plants/ }).count()).toBe(1);
     expect(await page.getByRole('img', { name: /with the 9 stops where GPS was recorded/ }).count()).toBe(1);
     expect(await page.getByRole('img', { name: 'Photo of stop 8' }).count()).toBe(1);
-    // The thumbnail really loaded (the photo route answers the signed-in clerk).
-    expect(await page.getByRole('img', { name: 'Photo of stop 8' }).evaluate((img: HTMLImageElement) => img.complete && img.naturalWidth > 0)).toBe(true);
+    // The thumbnail really loaded (the photo route answers the signed-in clerk). It loads lazily,
+    // far down the page: bring it into view and wait for it.
+    const thumb = page.getByRole('img', { name: 'Photo of stop 8' });
+    await thumb.scrollIntoViewIfNeeded();
+    expect(await thumb.evaluate((img: HTMLImageElement) =>
+      img.complete && img.naturalWidth > 0
+        ? true
+        : new Promise<boolean>((resolve) => {
+            img.onload = () => resolve(img.naturalWidth > 0);
+            img.onerror = () => resolve(false);
+          }))).toBe(true);
     expect(await page.getByText(/One plant is far from the others: stop 8/).count()).toBe(1);
     await screenshot(page, 'walk-review-evidence');
 
