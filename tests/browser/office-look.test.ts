@@ -149,16 +149,7 @@ describe('cautions and chips', () => {
       return out;
     }, cls);
     const flagClass = /class="([^"]+)" data-flag/.exec(readFileSync('views/walks/_flags.ejs', 'utf8'))![1];
-    const flag = await page.evaluate((cls) => {
-      const el = document.createElement('span');
-      el.className = cls;
-      el.textContent = 'outlier';
-      document.querySelector('main')!.append(el);
-      const cs = getComputedStyle(el);
-      const out = { bg: cs.backgroundColor, border: cs.borderTopColor, color: cs.color };
-      el.remove();
-      return out;
-    }, flagClass);
+    const flag = await probe(flagClass);
     const chips = { flag, below: await probe(verdictClass('below')), meets: await probe(verdictClass('meets')) };
     expect(chips.flag.bg).not.toBe(chips.below.bg);
     expect(chips.flag.border).not.toBe(chips.below.border);
