@@ -76,11 +76,11 @@ export function modelSlopeAt(fit: Fit, x: number): number {
   switch (fit.model) {
     case 'linear':
     case 'exponential':
-      return c[1];
+      return c[1]!;
     case 'quadratic':
-      return c[1] + 2 * c[2] * x;
+      return c[1]! + 2 * c[2]! * x;
     case 'power':
-      return c[1] / x;
+      return c[1]! / x;
   }
 }
 

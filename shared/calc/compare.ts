@@ -69,7 +69,7 @@ export function compareModels(points: CalibrationPoint[]): ModelComparison {
       );
     }
     if (best.model === 'quadratic') {
-      const [, b, c] = best.fit.coefficients;
+      const [, b = 0, c = 0] = best.fit.coefficients; // a quadratic has three
       const v = -b / (2 * c);
       if (v > best.fit.xRange[0] && v < best.fit.xRange[1]) {
         parts.push('Caution: this quadratic turns over inside the measured lengths, so it would give taller plants less biomass there.');

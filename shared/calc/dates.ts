@@ -16,7 +16,9 @@ export function isLeapYear(y: number): boolean {
 const MONTH_DAYS = [31, 28, 31, 30, 31, 30, 31, 31, 30, 31, 30, 31];
 
 export function daysInMonth(y: number, m: number): number {
-  return m === 2 && isLeapYear(y) ? 29 : MONTH_DAYS[m - 1];
+  const days = MONTH_DAYS[m - 1];
+  if (days === undefined) throw new RangeError(`There is no month ${m}.`);
+  return m === 2 && isLeapYear(y) ? 29 : days;
 }
 
 /** Day number of a proleptic Gregorian date (1970-01-01 → 0). */
@@ -68,7 +70,7 @@ function parseMonthDay(s: unknown, field: string): MonthDay {
   const match = typeof s === 'string' ? /^(\d{2})-(\d{2})$/.exec(s) : null;
   if (!match) throw new CalcError('bad_window', `${field} must be a month and day written MM-DD, e.g. 10-01.`, field);
   const m = Number(match[1]), d = Number(match[2]);
-  if (m < 1 || m > 12 || d < 1 || d > (m === 2 ? 29 : MONTH_DAYS[m - 1])) {
+  if (m < 1 || m > 12 || d < 1 || d > (m === 2 ? 29 : MONTH_DAYS[m - 1]!)) {
     throw new CalcError('bad_window', `${field} (${s}) is not a real month and day.`, field);
   }
   return { m, d };

@@ -31,17 +31,17 @@ function backSolve(R: number[][], b: number[]): number[] {
   const p = b.length;
   const x = new Array<number>(p).fill(0);
   for (let i = p - 1; i >= 0; i--) {
-    let s = b[i];
-    for (let j = i + 1; j < p; j++) s -= R[i][j] * x[j];
-    x[i] = s / R[i][i];
+    let s = b[i]!;
+    for (let j = i + 1; j < p; j++) s -= R[i]![j]! * x[j]!;
+    x[i] = s / R[i]![i]!;
   }
   return x;
 }
 
 function mulTCTt(T: number[][], C: number[][]): number[][] {
   const p = T.length;
-  const TC = T.map((row) => C[0].map((_, j) => row.reduce((s, t, k) => s + t * C[k][j], 0)));
-  return TC.map((row) => T.map((trow) => row.reduce((s, v, k) => s + v * trow[k], 0))).slice(0, p);
+  const TC = T.map((row) => C[0]!.map((_, j) => row.reduce((s, t, k) => s + t * C[k]![j]!, 0)));
+  return TC.map((row) => T.map((trow) => row.reduce((s, v, k) => s + v * trow[k]!, 0))).slice(0, p);
 }
 
 function equationOf(model: ModelKind, c: number[], cf: number): string {
@@ -49,13 +49,13 @@ function equationOf(model: ModelKind, c: number[], cf: number): string {
   const plus = (v: number) => (v < 0 ? ` − ${s(-v)}` : ` + ${s(v)}`);
   switch (model) {
     case 'linear':
-      return `y = ${s(c[0])}${plus(c[1])}·x`;
+      return `y = ${s(c[0]!)}${plus(c[1]!)}·x`;
     case 'quadratic':
-      return `y = ${s(c[0])}${plus(c[1])}·x${plus(c[2])}·x²`;
+      return `y = ${s(c[0]!)}${plus(c[1]!)}·x${plus(c[2]!)}·x²`;
     case 'power':
-      return `y = ${s(c[0])} · x^${s(c[1])} × ${s(cf)}`;
+      return `y = ${s(c[0]!)} · x^${s(c[1]!)} × ${s(cf)}`;
     case 'exponential':
-      return `y = ${s(c[0])} · e^(${s(c[1])}·x) × ${s(cf)}`;
+      return `y = ${s(c[0]!)} · e^(${s(c[1]!)}·x) × ${s(cf)}`;
   }
 }
 
@@ -98,14 +98,14 @@ export function fitCalibration(points: CalibrationPoint[], model: ModelKind): Fi
   const t = new Float64Array(n);
   const r = new Float64Array(n);
   for (let i = 0; i < n; i++) {
-    t[i] = model === 'power' ? Math.log(pts[i].x) : pts[i].x;
-    r[i] = log ? Math.log(pts[i].y) : pts[i].y;
+    t[i] = model === 'power' ? Math.log(pts[i]!.x) : pts[i]!.x;
+    r[i] = log ? Math.log(pts[i]!.y) : pts[i]!.y;
   }
   let tSum = 0;
-  for (let i = 0; i < n; i++) tSum += t[i];
+  for (let i = 0; i < n; i++) tSum += t[i]!;
   const centre = tSum / n;
   let tss = 0;
-  for (let i = 0; i < n; i++) tss += (t[i] - centre) ** 2;
+  for (let i = 0; i < n; i++) tss += (t[i]! - centre) ** 2;
   const scale = Math.sqrt(tss / (n - 1));
   if (!(scale > 0)) {
     throw new CalcError('x_all_equal', 'All lengths are equal, so no curve can be fitted through them.', 'points');
@@ -113,14 +113,14 @@ export function fitCalibration(points: CalibrationPoint[], model: ModelKind): Fi
 
   const Z: number[][] = new Array(n);
   for (let i = 0; i < n; i++) {
-    const u = (t[i] - centre) / scale;
+    const u = (t[i]! - centre) / scale;
     Z[i] = p === 2 ? [1, u] : [1, u, u * u];
   }
   const qr = new QrDecomposition(new Matrix(Z));
   const Q = qr.orthogonalMatrix; // n×p, orthonormal columns
   const R = qr.upperTriangularMatrix.to2DArray();
-  const rMax = Math.max(...R.map((row, i) => Math.abs(row[i])));
-  if (R.some((row, i) => !(Math.abs(row[i]) > 1e-10 * rMax))) {
+  const rMax = Math.max(...R.map((row, i) => Math.abs(row[i]!)));
+  if (R.some((row, i) => !(Math.abs(row[i]!) > 1e-10 * rMax))) {
     throw new CalcError('too_few_distinct_x', `The lengths do not spread enough to fit the ${model} model.`, 'points');
   }
 
@@ -131,7 +131,7 @@ export function fitCalibration(points: CalibrationPoint[], model: ModelKind): Fi
     let hi = 0;
     for (let j = 0; j < p; j++) {
       const q = Q.get(i, j);
-      Qtr[j] += q * r[i];
+      Qtr[j]! += q * r[i]!;
       hi += q * q;
     }
     h[i] = hi;
@@ -144,23 +144,23 @@ export function fitCalibration(points: CalibrationPoint[], model: ModelKind): Fi
     const e = new Array<number>(p).fill(0);
     e[k] = 1;
     const col = backSolve(R, e);
-    for (let i = 0; i < p; i++) Rinv[i][k] = col[i];
+    for (let i = 0; i < p; i++) Rinv[i]![k] = col[i]!;
   }
-  const C = Rinv.map((ri) => Rinv.map((rj) => ri.reduce((s, v, k) => s + v * rj[k], 0)));
+  const C = Rinv.map((ri) => Rinv.map((rj) => ri.reduce((s, v, k) => s + v * rj[k]!, 0)));
 
   // Residuals on the fitted scale, from the centred basis (best precision).
   const e = new Float64Array(n);
   let sse = 0;
   let rSum = 0;
-  for (let i = 0; i < n; i++) rSum += r[i];
+  for (let i = 0; i < n; i++) rSum += r[i]!;
   const rMean = rSum / n;
   let sst = 0;
   for (let i = 0; i < n; i++) {
-    const u = (t[i] - centre) / scale;
-    const fitted = p === 2 ? gamma[0] + gamma[1] * u : gamma[0] + u * (gamma[1] + gamma[2] * u);
-    e[i] = r[i] - fitted;
-    sse += e[i] * e[i];
-    sst += (r[i] - rMean) ** 2;
+    const u = (t[i]! - centre) / scale;
+    const fitted = p === 2 ? gamma[0]! + gamma[1]! * u : gamma[0]! + u * (gamma[1]! + gamma[2]! * u);
+    e[i] = r[i]! - fitted;
+    sse += e[i]! * e[i]!;
+    sst += (r[i]! - rMean) ** 2;
   }
   const df = n - p;
   const sigma2 = sse / df;
@@ -171,15 +171,15 @@ export function fitCalibration(points: CalibrationPoint[], model: ModelKind): Fi
     p === 2
       ? [[1, -m / s], [0, 1 / s]]
       : [[1, -m / s, (m * m) / (s * s)], [0, 1 / s, (-2 * m) / (s * s)], [0, 0, 1 / (s * s)]];
-  const beta = T.map((row) => row.reduce((acc, v, k) => acc + v * gamma[k], 0));
+  const beta = T.map((row) => row.reduce((acc, v, k) => acc + v * gamma[k]!, 0));
   const covRaw = mulTCTt(T, C);
-  const standardErrors = covRaw.map((row, i) => Math.sqrt(Math.max(0, sigma2 * row[i])));
+  const standardErrors = covRaw.map((row, i) => Math.sqrt(Math.max(0, sigma2 * row[i]!)));
 
   // Duan (1983) smearing for the log models.
   let cf = 1;
   if (log) {
     let acc = 0;
-    for (let i = 0; i < n; i++) acc += Math.exp(e[i]);
+    for (let i = 0; i < n; i++) acc += Math.exp(e[i]!);
     cf = acc / n;
   }
 
@@ -195,28 +195,28 @@ export function fitCalibration(points: CalibrationPoint[], model: ModelKind): Fi
   const u = new Float64Array(n);
   const w = new Float64Array(n);
   for (let i = 0; i < n; i++) {
-    u[i] = (t[i] - centre) / scale;
-    w[i] = Math.exp(e[i]);
+    u[i] = (t[i]! - centre) / scale;
+    w[i] = Math.exp(e[i]!);
   }
   const smearSum = log ? looSmearingSums(u, w) : undefined;
   for (let i = 0; i < n; i++) {
-    const denom = 1 - h[i];
+    const denom = 1 - h[i]!;
     if (denom < 1e-10) {
       looOk = false;
       break;
     }
-    const shift = e[i] / denom;
-    const rLoo = r[i] - shift;
+    const shift = e[i]! / denom;
+    const rLoo = r[i]! - shift;
     let yLoo = rLoo;
     if (smearSum) {
-      const c = (shift * u[i]) / (n - 1);
-      const others = Math.exp(shift / n) * (smearSum(c) - w[i] * Math.exp(c * u[i]));
+      const c = (shift * u[i]!) / (n - 1);
+      const others = Math.exp(shift / n) * (smearSum(c) - w[i]! * Math.exp(c * u[i]!));
       yLoo = Math.exp(rLoo) * (others / (n - 1));
     }
-    looSS += (pts[i].y - yLoo) ** 2;
+    looSS += (pts[i]!.y - yLoo) ** 2;
   }
 
-  const coefficients = log ? [Math.exp(beta[0]), beta[1]] : beta.slice();
+  const coefficients = log ? [Math.exp(beta[0]!), beta[1]!] : beta.slice();
   // A Fit must survive JSON (which turns Infinity into null): refuse numbers too large to store.
   if (![...coefficients, ...beta, ...standardErrors, cf, sigma2].every(Number.isFinite)) {
     throw new CalcError('bad_fit', `The ${model} model gives numbers too large to represent for these points; try another model.`, 'points');
@@ -252,21 +252,21 @@ function looSmearingSums(u: Float64Array, w: Float64Array): (c: number) => numbe
   const moments = new Float64Array(K + 1);
   let uMax = 0;
   for (let j = 0; j < u.length; j++) {
-    let term = w[j];
+    let term = w[j]!;
     for (let k = 0; k <= K; k++) {
-      moments[k] += term;
-      term *= u[j];
+      moments[k]! += term;
+      term *= u[j]!;
     }
-    uMax = Math.max(uMax, Math.abs(u[j]));
+    uMax = Math.max(uMax, Math.abs(u[j]!));
   }
   return (c) => {
     if (Math.abs(c) * uMax > 1) {
       let acc = 0;
-      for (let j = 0; j < u.length; j++) acc += w[j] * Math.exp(c * u[j]);
+      for (let j = 0; j < u.length; j++) acc += w[j]! * Math.exp(c * u[j]!);
       return acc;
     }
     let acc = 0;
-    for (let k = K; k >= 0; k--) acc = acc * (c / (k + 1)) + moments[k];
+    for (let k = K; k >= 0; k--) acc = acc * (c / (k + 1)) + moments[k]!;
     return acc;
   };
 }

@@ -15,7 +15,7 @@ export function fmt(v: number, decimals = 0): string {
   if (!Number.isFinite(v)) return String(v);
   const neg = v < 0 ? '-' : '';
   const fixed = Math.abs(v).toFixed(decimals);
-  const [int, frac] = fixed.split('.');
+  const [int = '', frac] = fixed.split('.');
   const grouped = int.replace(/\B(?=(\d{3})+(?!\d))/g, ',');
   return neg + grouped + (frac ? `.${frac}` : '');
 }

@@ -37,16 +37,16 @@ export function lengthForBiomass(fit: Fit, y: number, options: LengthForBiomassO
 
   switch (fit.model) {
     case 'linear':
-      if (c[1] !== 0) x = (y - c[0]) / c[1];
+      if (c[1] !== 0) x = (y - c[0]!) / c[1]!;
       break;
     case 'quadratic': {
       if (c[2] === 0) {
-        if (c[1] !== 0) x = (y - c[0]) / c[1];
+        if (c[1] !== 0) x = (y - c[0]!) / c[1]!;
         break;
       }
       // c·x² + b·x + (a − y) = 0, pick the root on the monotone piece. The stable form avoids
       // cancellation when b² ≫ 4ac.
-      const A = c[2], B = c[1], Cc = c[0] - y;
+      const A = c[2]!, B = c[1]!, Cc = c[0]! - y;
       let disc = B * B - 4 * A * Cc;
       // At the vertex the discriminant is 0 up to rounding; a tiny negative value still has a root.
       if (disc < 0 && disc > -1e-12 * (B * B + Math.abs(4 * A * Cc))) disc = 0;
@@ -62,8 +62,8 @@ export function lengthForBiomass(fit: Fit, y: number, options: LengthForBiomassO
     case 'power':
     case 'exponential': {
       if (y <= 0 || c[1] === 0) break;
-      const eta = Math.log(y / fit.biasCorrection) - fit.fittedScaleCoefficients[0];
-      x = fit.model === 'power' ? Math.exp(eta / c[1]) : eta / c[1];
+      const eta = Math.log(y / fit.biasCorrection) - fit.fittedScaleCoefficients[0]!;
+      x = fit.model === 'power' ? Math.exp(eta / c[1]!) : eta / c[1]!;
       break;
     }
   }

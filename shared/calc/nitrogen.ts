@@ -22,7 +22,8 @@ export function shootNitrogen(biomassKgHa: number, tissueNPercent: number, bioma
   }
   let interval: [number, number] | null = null;
   if (biomassIntervalKgHa !== null) {
-    const [lo, hi] = biomassIntervalKgHa.map((v) => requireNonNegative(v, 'biomassIntervalKgHa'));
+    const lo = requireNonNegative(biomassIntervalKgHa[0], 'biomassIntervalKgHa');
+    const hi = requireNonNegative(biomassIntervalKgHa[1], 'biomassIntervalKgHa');
     if (lo > hi) throw new CalcError('bad_option', 'The biomass interval must run from low to high.', 'biomassIntervalKgHa');
     interval = [(lo * pct) / 100, (hi * pct) / 100];
   }

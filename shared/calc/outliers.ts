@@ -19,7 +19,7 @@ export function median(values: readonly number[]): number {
   if (!values.length) return NaN;
   const s = [...values].sort((a, b) => a - b);
   const mid = s.length >> 1;
-  return s.length % 2 ? s[mid] : (s[mid - 1] + s[mid]) / 2;
+  return s.length % 2 ? s[mid]! : (s[mid - 1]! + s[mid]!) / 2;
 }
 
 /**

@@ -47,17 +47,17 @@ export function linearPredictor(fit: Fit, x: number): number {
   const c = fit.coefficients;
   switch (fit.model) {
     case 'linear':
-      return c[0] + c[1] * x;
+      return c[0]! + c[1]! * x;
     case 'quadratic': {
       const g = fit.centredCoefficients;
-      if (!g) return c[0] + x * (c[1] + c[2] * x);
+      if (!g) return c[0]! + x * (c[1]! + c[2]! * x);
       const u = (x - fit.basis.centre) / fit.basis.scale;
-      return g[0] + u * (g[1] + g[2] * u);
+      return g[0]! + u * (g[1]! + g[2]! * u);
     }
     case 'power':
-      return fit.fittedScaleCoefficients[0] + c[1] * Math.log(x);
+      return fit.fittedScaleCoefficients[0]! + c[1]! * Math.log(x);
     case 'exponential':
-      return fit.fittedScaleCoefficients[0] + c[1] * x;
+      return fit.fittedScaleCoefficients[0]! + c[1]! * x;
   }
 }
 
@@ -82,10 +82,10 @@ export function leverageAt(fit: Fit, x: number): number {
   const u = (t - fit.basis.centre) / fit.basis.scale;
   const C = fit.covUnscaled;
   if (C.length === 2) {
-    return C[0][0] + 2 * u * C[0][1] + u * u * C[1][1];
+    return C[0]![0]! + 2 * u * C[0]![1]! + u * u * C[1]![1]!;
   }
   const u2 = u * u;
-  return C[0][0] + u2 * C[1][1] + u2 * u2 * C[2][2] + 2 * (u * C[0][1] + u2 * C[0][2] + u * u2 * C[1][2]);
+  return C[0]![0]! + u2 * C[1]![1]! + u2 * u2 * C[2]![2]! + 2 * (u * C[0]![1]! + u2 * C[0]![2]! + u * u2 * C[1]![2]!);
 }
 
 /**
@@ -125,14 +125,14 @@ export function monotoneDomain(fit: Fit): { lo: number; hi: number; increasing: 
   const c = fit.coefficients;
   const minX = fit.model === 'power' ? 0 : -Infinity;
   if (fit.model !== 'quadratic' || c[2] === 0) {
-    return { lo: minX, hi: Infinity, increasing: c[1] >= 0 };
+    return { lo: minX, hi: Infinity, increasing: c[1]! >= 0 };
   }
-  const vertex = -c[1] / (2 * c[2]);
+  const vertex = -c[1]! / (2 * c[2]!);
   const [x0, x1] = fit.xRange;
-  if (vertex <= x0) return { lo: vertex, hi: Infinity, increasing: c[2] > 0 };
-  if (vertex >= x1) return { lo: -Infinity, hi: vertex, increasing: c[2] < 0 };
+  if (vertex <= x0) return { lo: vertex, hi: Infinity, increasing: c[2]! > 0 };
+  if (vertex >= x1) return { lo: -Infinity, hi: vertex, increasing: c[2]! < 0 };
   // The vertex lies inside the calibrated range: keep the rising piece.
-  return c[2] < 0 ? { lo: -Infinity, hi: vertex, increasing: true } : { lo: vertex, hi: Infinity, increasing: true };
+  return c[2]! < 0 ? { lo: -Infinity, hi: vertex, increasing: true } : { lo: vertex, hi: Infinity, increasing: true };
 }
 
 /** min and max of predict over [lo, hi] (the quadratic can peak inside). */
@@ -141,7 +141,7 @@ export function curveRange(fit: Fit, lo: number, hi: number): [number, number] {
   let b = predict(fit, hi);
   if (a > b) [a, b] = [b, a];
   if (fit.model === 'quadratic' && fit.coefficients[2] !== 0) {
-    const v = -fit.coefficients[1] / (2 * fit.coefficients[2]);
+    const v = -fit.coefficients[1]! / (2 * fit.coefficients[2]!);
     if (v > lo && v < hi) {
       const pv = predict(fit, v);
       a = Math.min(a, pv);

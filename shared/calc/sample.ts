@@ -28,7 +28,7 @@ export function summarizeSample(values: number[], level = 0.95): SampleSummary {
   for (const v of xs) sum += v;
   // Equal values have no spread; their sum can leave rounding dust (ten × 81.28 gives sd 1.5e-14).
   const equal = xs.every((v) => v === xs[0]);
-  const mean = equal ? xs[0] : sum / n;
+  const mean = equal ? xs[0]! : sum / n; // n ≥ 2 (checked above)
   let ss = 0;
   for (const v of xs) ss += (v - mean) * (v - mean);
   const sd = Math.sqrt(ss / (n - 1));

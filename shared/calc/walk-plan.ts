@@ -9,6 +9,7 @@ import {
   edgesOf,
   isConvexRing,
   localFrame,
+  lonLatOf,
   openRing,
   reflexCorners,
   ringArea,
@@ -168,8 +169,8 @@ function validParts(boundary: unknown): Position[][][] {
           typeof pos[1] === 'number' && Number.isFinite(pos[1]) && Math.abs(pos[1]) <= 90;
         if (!ok) bad('Every boundary position must be [longitude, latitude] in degrees.');
       }
-      const first = (ring as number[][])[0];
-      const last = (ring as number[][])[(ring as number[][]).length - 1];
+      const first = (ring as number[][])[0]!;
+      const last = (ring as number[][])[(ring as number[][]).length - 1]!;
       if (first[0] !== last[0] || first[1] !== last[1]) bad(`Boundary ring ${r + 1} is not closed (its last position must repeat the first).`);
     });
     const outer = (part[0] as number[][]).slice(0, -1);
@@ -280,14 +281,14 @@ interface Layout {
 function convexLayout(ring: XY[], margin: number): Layout | null {
   const shrunk = margin > 0 ? shrinkConvex(ring, margin) : ring;
   if (shrunk.length < 3) return null;
-  let best: [XY, XY] = [shrunk[0], shrunk[1]];
+  let best: [XY, XY] = [shrunk[0]!, shrunk[1]!];
   let bestLen = -1;
   for (let i = 0; i < shrunk.length; i++) {
     for (let j = i + 1; j < shrunk.length; j++) {
-      const d = dist(shrunk[i], shrunk[j]);
+      const d = dist(shrunk[i]!, shrunk[j]!);
       if (d > bestLen) {
         bestLen = d;
-        best = [shrunk[i], shrunk[j]];
+        best = [shrunk[i]!, shrunk[j]!];
       }
     }
   }
@@ -327,8 +328,8 @@ function sweepLayout(edges: Edge[], theta: number, margin: number, checkMargin: 
     for (const c of chords) {
       const prev = open.filter((p) => overlaps(p, c));
       let cell: Level[] | null = null;
-      if (prev.length === 1 && chords.filter((c2) => overlaps(prev[0], c2)).length === 1) {
-        const p = prev[0];
+      if (prev.length === 1 && chords.filter((c2) => overlaps(prev[0]!, c2)).length === 1) {
+        const p = prev[0]!;
         const tol = Math.max(3 * h, 0.25 * Math.min(p.r - p.l, c[1] - c[0]));
         if (Math.abs(c[0] - p.l) <= tol && Math.abs(c[1] - p.r) <= tol) cell = p.cell;
       }
@@ -347,16 +348,16 @@ function sweepLayout(edges: Edge[], theta: number, margin: number, checkMargin: 
   for (const cell of cells) {
     const area = areaOf(cell);
     if (area < SLIVER_SHARE * walkableArea) continue;
-    const f = cell[0];
-    const l = cell[cell.length - 1];
-    const m = cell[Math.floor(cell.length / 2)];
+    const f = cell[0]!;
+    const l = cell[cell.length - 1]!;
+    const m = cell[Math.floor(cell.length / 2)]!;
     const candidates: Array<[XY, XY]> = [
       [[m.l, m.y], [m.r, m.y]],
       [[f.l, f.y], [l.r, l.y]],
       [[f.r, f.y], [l.l, l.y]],
       [[(f.l + f.r) / 2, f.y], [(l.l + l.r) / 2, l.y]],
     ];
-    let best = candidates[0];
+    let best = candidates[0]!;
     let bestLen = -1;
     for (const [a, b] of candidates) {
       const len = dist(a, b);
@@ -379,10 +380,10 @@ function sweepLayout(edges: Edge[], theta: number, margin: number, checkMargin: 
 
 /** Sweep directions worth trying: along and across the longest sides of the largest part. */
 function sweepAngles(field: PlaneField): number[] {
-  const largest = field.reduce((p, q) => (Math.abs(ringArea(q[0])) > Math.abs(ringArea(p[0])) ? q : p));
-  const ring = largest[0];
+  const largest = field.reduce((p, q) => (Math.abs(ringArea(q[0]!)) > Math.abs(ringArea(p[0]!)) ? q : p));
+  const ring = largest[0]!;
   const sides = ring.map((a, i) => {
-    const b = ring[(i + 1) % ring.length];
+    const b = ring[(i + 1) % ring.length]!;
     return { len: dist(a, b), angle: (Math.atan2(b[1] - a[1], b[0] - a[0]) + Math.PI) % Math.PI };
   });
   sides.sort((p, q) => q.len - p.len);
@@ -416,11 +417,11 @@ function bestSweep(field: PlaneField, edges: Edge[], margin: number, checkMargin
 
 /** Walking order: nearest next leg, each entered at its nearer end. */
 function orderLegs(legs: PlaneLeg[]): PlaneLeg[] {
-  if (legs.length <= 1) return legs;
-  const left = legs.slice(1);
-  const out = [legs[0]];
+  const [first, ...left] = legs;
+  if (!first || left.length === 0) return legs;
+  const out: PlaneLeg[] = [first];
   while (left.length) {
-    const at = out[out.length - 1].b;
+    const at = out[out.length - 1]!.b;
     let k = 0;
     let flip = false;
     let bestD = Infinity;
@@ -433,7 +434,7 @@ function orderLegs(legs: PlaneLeg[]): PlaneLeg[] {
         flip = db < da;
       }
     });
-    const g = left.splice(k, 1)[0];
+    const g = left.splice(k, 1)[0]!;
     out.push(flip ? { a: g.b, b: g.a, area: g.area } : g);
   }
   return out;
@@ -492,7 +493,7 @@ export function walkPlan(boundary: Boundaryish | null, options: WalkPlanOptions 
     const parts = validParts(boundary);
     let minLon = Infinity, maxLon = -Infinity, minLat = Infinity, maxLat = -Infinity; // prettier-ignore
     for (const part of parts) {
-      for (const [lon, lat] of part[0]) {
+      for (const [lon, lat] of part[0]!.map(lonLatOf)) {
         minLon = Math.min(minLon, lon);
         maxLon = Math.max(maxLon, lon);
         minLat = Math.min(minLat, lat);
@@ -502,9 +503,9 @@ export function walkPlan(boundary: Boundaryish | null, options: WalkPlanOptions 
     frame = localFrame((minLon + maxLon) / 2, (minLat + maxLat) / 2);
     const f = frame;
     const field: PlaneField = parts.map((part) => part.map((ring) => openRing(ring.map((p) => toXY(f, p)))));
-    for (const part of field) if (ringArea(part[0]) < 0) part[0].reverse();
+    for (const part of field) if (ringArea(part[0]!) < 0) part[0]!.reverse();
     edges = edgesOf(field);
-    areaM2 = field.reduce((s, part) => s + Math.abs(ringArea(part[0])) - part.slice(1).reduce((t, r) => t + Math.abs(ringArea(r)), 0), 0);
+    areaM2 = field.reduce((s, part) => s + Math.abs(ringArea(part[0]!)) - part.slice(1).reduce((t, r) => t + Math.abs(ringArea(r)), 0), 0);
     const across = dist(toXY(f, [minLon, minLat]), toXY(f, [maxLon, maxLat]));
     if (!(across >= 1)) throw new CalcError('boundary_too_small', 'The field boundary is too small to walk (under 1 m across).', 'boundary');
 
@@ -521,10 +522,10 @@ export function walkPlan(boundary: Boundaryish | null, options: WalkPlanOptions 
         }),
       );
       const simpleEdges = edgesOf(simple);
-      const convex = simple.length === 1 && holes === 0 && isConvexRing(simple[0][0]);
+      const convex = simple.length === 1 && holes === 0 && isConvexRing(simple[0]![0]!);
       for (const m of marginSteps(asked)) {
         const inner = m + error + (m > 0 ? SAFETY_M : 0);
-        const l = convex ? convexLayout(simple[0][0], inner) : bestSweep(simple, simpleEdges, inner, m + error);
+        const l = convex ? convexLayout(simple[0]![0]!, inner) : bestSweep(simple, simpleEdges, inner, m + error);
         if (l && l.legs.length > 0 && (l.walkableArea >= MIN_BUFFERED_SHARE * areaM2 || m === 0)) return { layout: l, used: m, convex, simple };
       }
       return null;
@@ -538,7 +539,7 @@ export function walkPlan(boundary: Boundaryish | null, options: WalkPlanOptions 
     if (!found) bad('No walking line fits inside this boundary; check that it is a simple (non-crossing) outline.');
     const { layout, convex } = found;
     used = found.used;
-    const reflex = field.reduce((s, part) => s + reflexCorners(part[0]), 0);
+    const reflex = field.reduce((s, part) => s + reflexCorners(part[0]!), 0);
     legs = layout.legs;
     walkableM2 = layout.walkableArea;
     pattern = convex ? 'diagonal' : 'legs';
@@ -551,7 +552,7 @@ export function walkPlan(boundary: Boundaryish | null, options: WalkPlanOptions 
       sweepDeg: layout.sweepDeg,
       walkableShare: walkableM2 / areaM2,
     };
-    seedBasis = parts.flat(2).map((p) => `${p[0].toFixed(7)},${p[1].toFixed(7)}`).join(';');
+    seedBasis = parts.flat(2).map((p) => `${p[0]!.toFixed(7)},${p[1]!.toFixed(7)}`).join(';');
   }
 
   const seed = givenSeed ?? hash32(`${seedBasis}|${stops}|${asked}`).toString(36);
@@ -563,13 +564,13 @@ export function walkPlan(boundary: Boundaryish | null, options: WalkPlanOptions 
   const share = totalArea / stops;
   const offset = uniformFromSeed(seed) * share;
   const lengths = legs.map((g) => dist(g.a, g.b));
-  const transfers = legs.map((g, i) => (i === 0 ? 0 : dist(legs[i - 1].b, g.a)));
+  const transfers = legs.map((g, i) => (i === 0 ? 0 : dist(legs[i - 1]!.b, g.a)));
   const legStart: number[] = [];
   let route = 0;
   legs.forEach((_, i) => {
-    route += transfers[i];
+    route += transfers[i]!;
     legStart.push(route);
-    route += lengths[i];
+    route += lengths[i]!;
   });
   const counts = legs.map(() => 0);
   const stopList: WalkStop[] = [];
@@ -577,16 +578,16 @@ export function walkPlan(boundary: Boundaryish | null, options: WalkPlanOptions 
   let leg = 0;
   for (let k = 0; k < stops; k++) {
     const at = offset + k * share;
-    while (leg < legs.length - 1 && at >= cumulative + legs[leg].area) {
-      cumulative += legs[leg].area;
+    while (leg < legs.length - 1 && at >= cumulative + legs[leg]!.area) {
+      cumulative += legs[leg]!.area;
       leg++;
     }
-    const t = Math.min(1, Math.max(0, (at - cumulative) / legs[leg].area));
-    const g = legs[leg];
+    const t = Math.min(1, Math.max(0, (at - cumulative) / legs[leg]!.area));
+    const g = legs[leg]!;
     const p: XY = [g.a[0] + t * (g.b[0] - g.a[0]), g.a[1] + t * (g.b[1] - g.a[1])];
     const ll = frame ? toLngLat(frame, p) : null;
-    const d = legStart[leg] + t * lengths[leg];
-    counts[leg]++;
+    const d = legStart[leg]! + t * lengths[leg]!;
+    counts[leg]!++;
     stopList.push({
       index: k + 1,
       distanceM: d,
@@ -595,24 +596,24 @@ export function walkPlan(boundary: Boundaryish | null, options: WalkPlanOptions 
       lng: ll ? ll[0] : null,
       lat: ll ? ll[1] : null,
       leg: leg + 1,
-      legDistanceM: t * lengths[leg],
+      legDistanceM: t * lengths[leg]!,
     });
   }
 
-  const spacings = legs.map((g, i) => (share * lengths[i]) / g.area);
+  const spacings = legs.map((g, i) => (share * lengths[i]!) / g.area);
   const busiest = counts.indexOf(Math.max(...counts));
-  const spacingM = stops === 1 ? 0 : spacings[busiest];
+  const spacingM = stops === 1 ? 0 : spacings[busiest]!;
   const lngLat = (p: XY) => (frame ? toLngLat(frame, p) : null);
   const legList: WalkLeg[] = legs.map((g, i) => ({
     index: i + 1,
     start: lngLat(g.a),
     end: lngLat(g.b),
-    lengthM: lengths[i],
+    lengthM: lengths[i]!,
     areaHa: g.area / 10_000,
-    stops: counts[i],
-    spacingM: spacings[i],
-    transferM: transfers[i],
-    transferInside: i === 0 || transfers[i] === 0 || (frame !== null && segmentInBuffer(edges, legs[i - 1].b, g.a, used)),
+    stops: counts[i]!,
+    spacingM: spacings[i]!,
+    transferM: transfers[i]!,
+    transferInside: i === 0 || transfers[i] === 0 || (frame !== null && segmentInBuffer(edges, legs[i - 1]!.b, g.a, used)),
   }));
   reason.legs = legList.length;
 
@@ -633,8 +634,8 @@ export function walkPlan(boundary: Boundaryish | null, options: WalkPlanOptions 
     spacingPaces: spacingM / PACE_LENGTH_M,
     edgeMarginM: used,
     edgeMarginAskedM: asked,
-    start: legList[0].start,
-    end: legList[legList.length - 1].end,
+    start: legList[0]!.start,
+    end: legList[legList.length - 1]!.end,
     legs: legList,
     stops: stopList,
     areaHa: areaM2 / 10_000,

@@ -84,7 +84,7 @@ export function niceTicks(min: number, max: number, count = 6): { min: number; m
 export function tickLabel(value: number, step: number): string {
   const decimals = Math.max(0, Math.min(6, -Math.floor(Math.log10(step) + 1e-9)));
   const fixed = Math.abs(value).toFixed(decimals);
-  const [int, frac] = fixed.split('.');
+  const [int = '', frac] = fixed.split('.');
   const sign = value < 0 && Number(fixed) !== 0 ? '−' : '';
   return sign + int.replace(/\B(?=(\d{3})+(?!\d))/g, ',') + (frac ? `.${frac}` : '');
 }

@@ -44,7 +44,7 @@ export function formatNumber(v: number, decimals = 0, _lang: Lang = 'en'): strin
   if (!Number.isFinite(v)) return '—';
   const r = roundTo(v, decimals);
   const neg = r < 0 ? '-' : '';
-  const [int, frac] = Math.abs(r).toFixed(decimals).split('.');
+  const [int = '', frac] = Math.abs(r).toFixed(decimals).split('.');
   const grouped = int.replace(/\B(?=(\d{3})+(?!\d))/g, ',');
   return neg + grouped + (frac ? `.${frac}` : '');
 }
@@ -94,7 +94,7 @@ const MONTHS: Record<Lang, string[]> = {
 /** 'YYYY-MM-DD' → "Dec 2, 2026" (en) or "2 dic 2026" (es). The date is a calendar day: no time zone. */
 export function date(iso: string, lang: Lang = 'en'): string {
   parseIsoDate(iso, 'date');
-  const [y, m, d] = iso.split('-').map(Number);
+  const [y = 0, m = 0, d = 0] = iso.split('-').map(Number);
   const mon = MONTHS[lang][m - 1];
   return lang === 'es' ? `${d} ${mon} ${y}` : `${mon} ${d}, ${y}`;
 }

@@ -33,11 +33,19 @@ export function localFrame(lon0: number, lat0: number): LocalFrame {
   return { lon0, lat0, kx: n * Math.cos(lat0 * RAD) * RAD, ky: m * RAD };
 }
 
+/** Longitude and latitude of a GeoJSON position (boundaries are checked to hold both when read). */
+export function lonLatOf(p: Position): [number, number] {
+  const [lon, lat] = p;
+  if (lon === undefined || lat === undefined) throw new RangeError('A position needs longitude and latitude.');
+  return [lon, lat];
+}
+
 export function toXY(f: LocalFrame, p: Position): XY {
-  let dl = p[0] - f.lon0;
+  const [lon, lat] = lonLatOf(p);
+  let dl = lon - f.lon0;
   if (dl > 180) dl -= 360;
   if (dl < -180) dl += 360;
-  return [dl * f.kx, (p[1] - f.lat0) * f.ky];
+  return [dl * f.kx, (lat - f.lat0) * f.ky];
 }
 
 export function toLngLat(f: LocalFrame, p: XY): [number, number] {
@@ -62,8 +70,8 @@ export function pointSegmentDistance(p: XY, a: XY, b: XY): number {
 export function ringArea(ring: XY[]): number {
   let s = 0;
   for (let i = 0; i < ring.length; i++) {
-    const a = ring[i];
-    const b = ring[(i + 1) % ring.length];
+    const a = ring[i]!;
+    const b = ring[(i + 1) % ring.length]!;
     s += a[0] * b[1] - b[0] * a[1];
   }
   return s / 2;
@@ -76,7 +84,7 @@ export function openRing(ring: XY[]): XY[] {
     const q = out[out.length - 1];
     if (!q || q[0] !== p[0] || q[1] !== p[1]) out.push(p);
   }
-  while (out.length > 1 && out[0][0] === out[out.length - 1][0] && out[0][1] === out[out.length - 1][1]) out.pop();
+  while (out.length > 1 && out[0]![0] === out[out.length - 1]![0] && out[0]![1] === out[out.length - 1]![1]) out.pop();
   return out;
 }
 
@@ -86,7 +94,7 @@ export function edgesOf(field: PlaneField): Edge[] {
   const edges: Edge[] = [];
   for (const part of field) {
     for (const ring of part) {
-      for (let i = 0; i < ring.length; i++) edges.push([ring[i], ring[(i + 1) % ring.length]]);
+      for (let i = 0; i < ring.length; i++) edges.push([ring[i]!, ring[(i + 1) % ring.length]!]);
     }
   }
   return edges;
@@ -170,8 +178,8 @@ function capsuleInterval(a: XY, b: XY, r: number, c: number): [number, number] |
       [a[0] - nx, a[1] - ny],
     ];
     for (let i = 0; i < 4; i++) {
-      const u = quad[i];
-      const v = quad[(i + 1) % 4];
+      const u = quad[i]!;
+      const v = quad[(i + 1) % 4]!;
       if ((u[1] - c) * (v[1] - c) <= 0 && u[1] !== v[1]) {
         const x = u[0] + ((c - u[1]) * (v[0] - u[0])) / (v[1] - u[1]);
         lo = Math.min(lo, x);
@@ -200,8 +208,8 @@ export function bufferedChords(edges: Edge[], c: number, margin: number): Array<
   cut.sort((p, q) => p[0] - q[0]);
   const out: Array<[number, number]> = [];
   for (let i = 0; i + 1 < xs.length; i += 2) {
-    let lo = xs[i];
-    const hi = xs[i + 1];
+    let lo = xs[i]!;
+    const hi = xs[i + 1]!;
     for (const [u, v] of cut) {
       if (v <= lo) continue;
       if (u >= hi) break;
@@ -219,8 +227,8 @@ export function clipLeft(poly: XY[], a: XY, b: XY): XY[] {
   const side = (p: XY) => (b[0] - a[0]) * (p[1] - a[1]) - (b[1] - a[1]) * (p[0] - a[0]);
   const out: XY[] = [];
   for (let i = 0; i < poly.length; i++) {
-    const p = poly[i];
-    const q = poly[(i + 1) % poly.length];
+    const p = poly[i]!;
+    const q = poly[(i + 1) % poly.length]!;
     const sp = side(p);
     const sq = side(q);
     if (sp >= 0) out.push(p);
@@ -236,8 +244,8 @@ export function clipLeft(poly: XY[], a: XY, b: XY): XY[] {
 export function shrinkConvex(ring: XY[], margin: number): XY[] {
   let poly = ring.slice();
   for (let i = 0; i < ring.length && poly.length >= 3; i++) {
-    const a = ring[i];
-    const b = ring[(i + 1) % ring.length];
+    const a = ring[i]!;
+    const b = ring[(i + 1) % ring.length]!;
     const len = dist(a, b);
     if (len === 0) continue;
     const nx = (-(b[1] - a[1]) / len) * margin; // left normal: inward on a counter-clockwise ring
@@ -252,9 +260,9 @@ export function isConvexRing(ring: XY[]): boolean {
   let sign = 0;
   const k = ring.length;
   for (let i = 0; i < k; i++) {
-    const a = ring[i];
-    const b = ring[(i + 1) % k];
-    const c = ring[(i + 2) % k];
+    const a = ring[i]!;
+    const b = ring[(i + 1) % k]!;
+    const c = ring[(i + 2) % k]!;
     const cross = (b[0] - a[0]) * (c[1] - b[1]) - (b[1] - a[1]) * (c[0] - b[0]);
     const scale = dist(a, b) * dist(b, c);
     if (Math.abs(cross) <= 1e-9 * scale) continue;
@@ -270,9 +278,9 @@ export function reflexCorners(ring: XY[]): number {
   let n = 0;
   const k = ring.length;
   for (let i = 0; i < k; i++) {
-    const a = ring[i];
-    const b = ring[(i + 1) % k];
-    const c = ring[(i + 2) % k];
+    const a = ring[i]!;
+    const b = ring[(i + 1) % k]!;
+    const c = ring[(i + 2) % k]!;
     const cross = (b[0] - a[0]) * (c[1] - b[1]) - (b[1] - a[1]) * (c[0] - b[0]);
     if (cross < -1e-9 * dist(a, b) * dist(b, c)) n++;
   }
@@ -288,7 +296,7 @@ export function simplifyRing(ring: XY[], tol: number): { ring: XY[]; error: numb
   const k = ring.length;
   if (k <= 4 || tol <= 0) return { ring, error: 0 };
   let far = 0;
-  for (let i = 1; i < k; i++) if (dist(ring[0], ring[i]) > dist(ring[0], ring[far])) far = i;
+  for (let i = 1; i < k; i++) if (dist(ring[0]!, ring[i]!) > dist(ring[0]!, ring[far]!)) far = i;
   const keep = new Uint8Array(k);
   keep[0] = 1;
   keep[far] = 1;
@@ -296,11 +304,11 @@ export function simplifyRing(ring: XY[], tol: number): { ring: XY[]; error: numb
   const stack: Array<[number, number]> = [[0, far], [far, k]];
   while (stack.length) {
     const [i, j] = stack.pop()!;
-    const b = ring[j % k];
+    const b = ring[j % k]!;
     let worst = -1;
     let worstD = -1;
     for (let m = i + 1; m < j; m++) {
-      const d = pointSegmentDistance(ring[m], ring[i], b);
+      const d = pointSegmentDistance(ring[m]!, ring[i]!, b);
       if (d > worstD) {
         worstD = d;
         worst = m;

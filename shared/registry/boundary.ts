@@ -12,13 +12,13 @@ const position = z
   .array(z.number().finite())
   .min(2, 'A position needs longitude and latitude.')
   .max(3)
-  .refine(([lon, lat]) => lon >= -180 && lon <= 180 && lat >= -90 && lat <= 90, 'Longitude must be within ±180 and latitude within ±90.');
+  .refine(([lon, lat]) => lon !== undefined && lat !== undefined && lon >= -180 && lon <= 180 && lat >= -90 && lat <= 90, 'Longitude must be within ±180 and latitude within ±90.');
 
 const ring = z
   .array(position)
   .min(4, 'A ring needs at least four positions (the first repeated at the end).')
   .max(20_000)
-  .refine((r) => r[0][0] === r[r.length - 1][0] && r[0][1] === r[r.length - 1][1], 'A ring must end where it starts.');
+  .refine((r) => r[0]![0] === r[r.length - 1]![0] && r[0]![1] === r[r.length - 1]![1], 'A ring must end where it starts.');
 
 const polygonCoordinates = z.array(ring).min(1, 'A polygon needs an outer ring.');
 
@@ -39,7 +39,7 @@ export function boundaryFromGeoJson(input: unknown): { ok: true; boundary: Bound
   if (geometry?.type === 'FeatureCollection') {
     const features = (geometry.features ?? []).filter((f) => f && f.geometry);
     if (features.length !== 1) return { ok: false, problem: `The file holds ${features.length} shapes; upload one field at a time.` };
-    geometry = features[0].geometry as typeof geometry;
+    geometry = features[0]!.geometry as typeof geometry;
   } else if (geometry?.type === 'Feature') {
     geometry = geometry.geometry as typeof geometry;
   }
@@ -88,26 +88,26 @@ export function checkBoundary(boundary: Boundary, limits: BoundaryLimits = {}): 
   const vertices = parts.reduce((s, part) => s + part.reduce((t, ring) => t + ring.length - 1, 0), 0);
   if (vertices > maxVertices) return fail({ code: 'too_many_vertices', vertices, maxVertices });
   for (let p = 0; p < parts.length; p++) {
-    for (let r = 0; r < parts[p].length; r++) {
-      const corners = new Set(parts[p][r].slice(0, -1).map(([x, y]) => `${x},${y}`)).size;
+    for (let r = 0; r < parts[p]!.length; r++) {
+      const corners = new Set(parts[p]![r]!.slice(0, -1).map(([x, y]) => `${x},${y}`)).size;
       if (corners < 3) return fail({ code: 'too_few_corners', part: p + 1, ring: r + 1, corners });
     }
   }
   const crossings = kinks(boundary).features;
   if (crossings.length > 0) {
-    const [lng, lat] = crossings[0].geometry.coordinates;
+    const [lng = NaN, lat = NaN] = crossings[0]!.geometry.coordinates;
     return fail({ code: 'self_intersection', crossings: crossings.length, lng, lat });
   }
   // After the crossing check: a figure-of-eight's two loops cancel out to no area.
   for (let p = 0; p < parts.length; p++) {
-    const areaM2 = turfArea({ type: 'Polygon', coordinates: [parts[p][0]] });
+    const areaM2 = turfArea({ type: 'Polygon', coordinates: [parts[p]![0]!] });
     if (areaM2 < 1) return fail({ code: 'no_area', part: p + 1, areaM2 });
   }
   for (let p = 0; p < parts.length; p++) {
-    const shell = { type: 'Polygon' as const, coordinates: [parts[p][0]] };
-    for (let h = 1; h < parts[p].length; h++) {
+    const shell = { type: 'Polygon' as const, coordinates: [parts[p]![0]!] };
+    for (let h = 1; h < parts[p]!.length; h++) {
       // No edges cross (checked above), so a hole is wholly inside or wholly outside.
-      if (!parts[p][h].every((pos) => booleanPointInPolygon(pos, shell))) return fail({ code: 'hole_outside', part: p + 1, hole: h });
+      if (!parts[p]![h]!.every((pos) => booleanPointInPolygon(pos, shell))) return fail({ code: 'hole_outside', part: p + 1, hole: h });
     }
   }
   if (!booleanValid(boundary)) return fail({ code: 'invalid' });

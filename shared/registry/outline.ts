@@ -1,4 +1,5 @@
 import type { Boundary } from './boundary';
+import { lonLatOf } from '../geo/plane';
 
 export interface Outline {
   width: number;
@@ -19,7 +20,7 @@ export function boundaryOutline(boundary: Boundary, size = { width: 240, height:
   let minLon = Infinity, maxLon = -Infinity, minLat = Infinity, maxLat = -Infinity;
   for (const poly of polygons) {
     for (const ring of poly) {
-      for (const [lon, lat] of ring) {
+      for (const [lon, lat] of ring.map(lonLatOf)) {
         minLon = Math.min(minLon, lon);
         maxLon = Math.max(maxLon, lon);
         minLat = Math.min(minLat, lat);
@@ -40,7 +41,7 @@ export function boundaryOutline(boundary: Boundary, size = { width: 240, height:
   ];
   const paths = polygons.map((poly) =>
     poly
-      .map((ring) => ring.map(([lon, lat], i) => `${i ? 'L' : 'M'}${project(lon, lat).join(' ')}`).join(' ') + ' Z')
+      .map((ring) => ring.map(lonLatOf).map(([lon, lat], i) => `${i ? 'L' : 'M'}${project(lon, lat).join(' ')}`).join(' ') + ' Z')
       .join(' '),
   );
   return { width: size.width, height: size.height, paths, project };

@@ -40,6 +40,6 @@ export function seasonMismatch(season: string, seededOn: string): string | null 
   if (!isSeason(season) || !/^\d{4}-\d{2}-\d{2}$/.test(seededOn)) return null;
   const belongs = seasonOfDate(seededOn);
   if (belongs === season) return null;
-  const [y, m, d] = seededOn.split('-').map(Number);
+  const [y = 0, m = 0, d = 0] = seededOn.split('-').map(Number);
   return `Seeded on ${MONTHS[m - 1]} ${d}, ${y} belongs to season ${belongs}, not ${season} (seasons run July to June).`;
 }

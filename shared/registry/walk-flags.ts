@@ -42,7 +42,7 @@ export function walkFlags(walk: { plants: readonly { stop: number; lengthCm: num
   const z = robustZ(lengths);
   const odd = outlierIndexes(lengths);
   if (odd.length) {
-    flags.push({ code: 'outlier', plants: odd.map((i) => ({ stop: walk.plants[i].stop, lengthCm: lengths[i], z: z[i] })), medianCm: median(lengths) });
+    flags.push({ code: 'outlier', plants: odd.map((i) => ({ stop: walk.plants[i]!.stop, lengthCm: lengths[i]!, z: z[i]! })), medianCm: median(lengths) });
   }
   const e = walk.estimate;
   if (e?.extrapolated) flags.push({ code: 'extrapolated', meanLengthCm: e.meanLengthCm });

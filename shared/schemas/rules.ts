@@ -7,8 +7,9 @@ const monthDay = z
   .string()
   .regex(/^(0[1-9]|1[0-2])-(0[1-9]|[12]\d|3[01])$/, 'Write month and day as MM-DD, e.g. 10-01.')
   .refine((v) => {
-    const [m, d] = v.split('-').map(Number);
-    return d <= [31, 29, 31, 30, 31, 30, 31, 31, 30, 31, 30, 31][m - 1];
+    const [m = 0, d = 0] = v.split('-').map(Number);
+    const last = [31, 29, 31, 30, 31, 30, 31, 31, 30, 31, 30, 31][m - 1];
+    return last !== undefined && d <= last;
   }, 'That day does not exist in that month.');
 
 /** A new version of the organisation's credit rule (PUT /api/rules/current), SI units. */
