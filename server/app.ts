@@ -18,6 +18,8 @@ import { makeFormatter } from './platform/format';
 import { requestContext } from './platform/context';
 import { captureApp } from './platform/capture-app';
 import { healthRoutes, type Lifecycle } from './platform/health';
+import type { ObjectStore } from './platform/object-store';
+import { openObjectStore } from './platform/open-object-store';
 import * as people from './people';
 import * as mail from './mail';
 import * as registry from './registry';
@@ -39,6 +41,8 @@ export interface AppDeps {
   attemptStore?: people.AttemptStore;
   /** The secret that signs session cookies. */
   sessionSecret: string;
+  /** Where uploaded files are kept; from the settings (UPLOADS_DIR or S3_BUCKET) when not given. */
+  files?: ObjectStore;
   /** Flipped by the shutdown in server/main.ts so that /readyz turns 503 while requests drain. */
   lifecycle?: Lifecycle;
 }
@@ -48,7 +52,8 @@ export function createApp(deps: AppDeps): Express {
   const { config, db } = deps;
   const logger = deps.logger ?? pino({ level: config.isTest ? 'silent' : config.LOG_LEVEL });
   const mailer = deps.mailer ?? mail.createMailer(db, { smtpUrl: config.SMTP_URL, from: config.MAIL_FROM, logger });
-  const ctx: AppContext = { config, db, logger, mailer };
+  const files = deps.files ?? openObjectStore(config);
+  const ctx: AppContext = { config, db, logger, mailer, files };
 
   const app = express();
   app.set('trust proxy', config.TRUST_PROXY);
@@ -89,7 +94,7 @@ export function createApp(deps: AppDeps): Express {
     );
   }
   app.use(noStore);
-  app.use(healthRoutes({ db, uploadsDir: config.UPLOADS_DIR, lifecycle: deps.lifecycle ?? { draining: false } }));
+  app.use(healthRoutes({ db, files, lifecycle: deps.lifecycle ?? { draining: false } }));
 
   // Reads carry no body: skip the parsers' content-type checks for them.
   const json = express.json({ limit: '1mb' });

@@ -8,6 +8,7 @@ import { shutDown, type Lifecycle } from './platform/health';
 import { countOrganisations } from './platform/organisations-db';
 import { createApp } from './app';
 import { openFastReads } from './platform/fast-reads';
+import { openObjectStore } from './platform/open-object-store';
 import { createMailer } from './mail';
 import { scheduleDailyJobs } from './reminders';
 import { clientIsBuilt } from './platform/assets';
@@ -34,7 +35,7 @@ async function main() {
   const logger = pino({ level: config.LOG_LEVEL });
   // Registers are signed with a key kept outside the database (README, "Register signatures").
   config.REGISTER_SIGNING_KEY ??= keptSecret(config, '.register-signing-key');
-  fs.mkdirSync(path.resolve(config.UPLOADS_DIR), { recursive: true });
+  if (!config.S3_BUCKET) fs.mkdirSync(path.resolve(config.UPLOADS_DIR), { recursive: true });
 
   const target = databaseTarget(config);
   const db = openConfiguredDatabase(config);
@@ -65,7 +66,9 @@ async function main() {
   // The prepared-statement reads open the SQLite file a second time; PostgreSQL has no such file.
   const fastReads = isPostgres(db) ? undefined : openFastReads(config.DATABASE_FILE);
   const lifecycle: Lifecycle = { draining: false };
-  const app = createApp({ config, db, logger, mailer, vite, fastReads, lifecycle, sessionSecret: sessionSecret(config) });
+  const files = openObjectStore(config);
+  await files.health().catch((err: Error) => logger.warn(`the file store is not ready yet: ${err.message} (GET /readyz answers 503 until it is)`));
+  const app = createApp({ config, db, logger, mailer, vite, fastReads, lifecycle, files, sessionSecret: sessionSecret(config) });
   const stopDailyJobs = config.DAILY_JOBS
     ? scheduleDailyJobs({ db, mailer, logger, publicUrl: config.PUBLIC_URL, daysAhead: config.REMIND_DAYS_AHEAD })
     : () => {};
@@ -75,6 +78,7 @@ async function main() {
       '',
       `Crowntip is running at ${url}`,
       `Database: ${describeTarget(target)}`,
+      `Files: ${files.kind === 'disk' ? files.where : `S3-compatible store, ${files.where}`}`,
       seeded ? 'The invented demo scenario was loaded into the new database.' : '',
       config.SEED_DEMO
         ? `Demo sign-ins (password "${config.DEMO_PASSWORD}"):\n${DEMO_USERS.map((u) => `  ${u.role.padEnd(8)} ${u.email}`).join('\n')}`

@@ -2,6 +2,7 @@ import type { Knex } from 'knex';
 import type { Logger } from 'pino';
 import type { Config } from './config';
 import type { Mailer } from '../mail/public';
+import type { ObjectStore } from './object-store';
 
 /** What every resource's routers are built with: one per app (server/app.ts makes it). */
 export interface AppContext {
@@ -9,4 +10,6 @@ export interface AppContext {
   db: Knex;
   logger: Logger;
   mailer: Mailer;
+  /** Uploaded files: UPLOADS_DIR or an S3-compatible bucket (server/platform/object-store.ts). */
+  files: ObjectStore;
 }

@@ -6,6 +6,8 @@ const boolish = z
   .enum(['true', 'false', '1', '0', 'yes', 'no'])
   .transform((v) => v === 'true' || v === '1' || v === 'yes');
 
+const optionalText = z.string().optional().transform((v) => (v === '' ? undefined : v));
+
 const envSchema = z.object({
   NODE_ENV: z.enum(['development', 'production', 'test']).default('production'),
   /** Port the server listens on. */
@@ -26,8 +28,21 @@ const envSchema = z.object({
   DATABASE_STATEMENT_TIMEOUT_MS: z.coerce.number().int().min(0).default(30_000),
   /** Seconds the server keeps retrying at start while the database does not answer. */
   DATABASE_WAIT_SECONDS: z.coerce.number().int().min(0).max(3600).default(30),
-  /** Where uploaded files (photos, imports) are kept, outside the web root. */
+  /** Where uploaded files (photos, imports) are kept, outside the web root (unless S3_BUCKET is set). */
   UPLOADS_DIR: z.string().default('data/uploads'),
+  /** Keep uploaded files in this bucket of an S3-compatible store instead of UPLOADS_DIR (several app servers share it). */
+  S3_BUCKET: optionalText,
+  /** The S3-compatible store's address (https://…); unset: AWS S3 itself. */
+  S3_ENDPOINT: z.string().url('S3_ENDPOINT must be an address such as https://files.example.test').optional().or(z.literal('').transform(() => undefined)),
+  /** The bucket's region (any value for most S3-compatible stores). */
+  S3_REGION: z.string().min(1).default('us-east-1'),
+  /** Access key of the store; unset: the AWS SDK's usual sources (AWS_ACCESS_KEY_ID…, an instance role). */
+  S3_ACCESS_KEY_ID: optionalText,
+  S3_SECRET_ACCESS_KEY: optionalText,
+  /** Bucket name in the path (https://host/bucket/key); default true when S3_ENDPOINT is set. */
+  S3_FORCE_PATH_STYLE: boolish.optional(),
+  /** Put before every key, to share a bucket (e.g. "crowntip/"). */
+  S3_PREFIX: z.string().regex(/^([A-Za-z0-9._-]+\/)*$/, 'S3_PREFIX must be empty or end in "/" (e.g. crowntip/)').default(''),
   /** Secret that signs session cookies; when unset, one is made and kept in data/.session-secret. */
   SESSION_SECRET: z.string().min(16).optional(),
   /**
@@ -105,6 +120,11 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env, overrides: Part
     throw new Error(`Crowntip cannot start: bad environment settings\n${lines.join('\n')}`);
   }
   const e = parsed.data;
+  const s3 = [
+    !e.S3_BUCKET && (e.S3_ENDPOINT || e.S3_ACCESS_KEY_ID) ? '  S3_BUCKET: set it too (S3_ENDPOINT or S3_ACCESS_KEY_ID is set), or unset those to keep files in UPLOADS_DIR' : '',
+    Boolean(e.S3_ACCESS_KEY_ID) !== Boolean(e.S3_SECRET_ACCESS_KEY) ? '  S3_SECRET_ACCESS_KEY: S3_ACCESS_KEY_ID and S3_SECRET_ACCESS_KEY go together' : '',
+  ].filter(Boolean);
+  if (s3.length) throw new Error(`Crowntip cannot start: bad environment settings\n${s3.join('\n')}`);
   const config: Config = {
     ...e,
     TRUST_PROXY: parseTrustProxy(e.TRUST_PROXY),

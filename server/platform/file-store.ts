@@ -2,14 +2,15 @@ import { randomBytes } from 'node:crypto';
 import { createWriteStream } from 'node:fs';
 import fs from 'node:fs/promises';
 import path from 'node:path';
-import type { Writable } from 'node:stream';
+import type { Readable, Writable } from 'node:stream';
+import { pipeline } from 'node:stream/promises';
 import { HttpError } from './errors';
 
 /**
- * Writing uploaded files so that a full or read-only disk never leaves half a file behind: bytes go
- * to a temporary name beside the target, are flushed, then renamed into place; on any error the
- * temporary file is removed and the error becomes a 507 (disk full) or 503 (storage unavailable)
- * with plain words.
+ * Writing uploaded files to disk so that a full or read-only disk never leaves half a file behind
+ * (used by the disk store in server/platform/object-store.ts): bytes go to a temporary name beside
+ * the target, are flushed, then renamed into place; on any error the temporary file is removed and
+ * the error becomes a 507 (disk full) or 503 (storage unavailable) with plain words.
  */
 
 /** How a file is opened for writing; tests swap this for a stream that fails like a full disk. */
@@ -54,38 +55,17 @@ export async function writeNewFile(file: string, data: Buffer, mode = 0o640): Pr
   }
 }
 
-/**
- * Makes the folder of `target`, writes `data` under a temporary name and returns it; the caller
- * renames it into place (after its database row is written) or calls `discard`.
- */
-export async function stageFile(target: string, data: Buffer, what: string, mode = 0o640): Promise<string> {
-  const tmp = temporaryName(target);
+/** Writes a stream to `file` (created, never overwritten) until it is all on disk; removes it on error. */
+export async function writeNewStream(file: string, data: Readable, mode = 0o640): Promise<void> {
   try {
-    await fs.mkdir(path.dirname(target), { recursive: true });
-    await writeNewFile(tmp, data, mode);
+    await pipeline(data, fileSystem.openWrite(file, mode));
   } catch (err) {
-    throw storageError(err, what);
-  }
-  return tmp;
-}
-
-/** Renames a staged file into place; on error removes it and answers 507/503. */
-export async function commitFile(tmp: string, target: string, what: string): Promise<void> {
-  try {
-    await fs.rename(tmp, target);
-  } catch (err) {
-    await discard(tmp);
-    throw storageError(err, what);
+    await fs.rm(file, { force: true }).catch(() => undefined);
+    throw err;
   }
 }
 
 /** Removes files, ignoring those already gone. */
 export async function discard(...files: string[]): Promise<void> {
   await Promise.all(files.map((f) => fs.rm(f, { force: true }).catch(() => undefined)));
-}
-
-/** Stage and rename in one step, for files without a database row. */
-export async function writeFileAtomic(target: string, data: Buffer, what: string, mode = 0o640): Promise<void> {
-  const tmp = await stageFile(target, data, what, mode);
-  await commitFile(tmp, target, what);
 }

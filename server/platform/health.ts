@@ -1,9 +1,8 @@
-import fs from 'node:fs/promises';
 import type http from 'node:http';
-import path from 'node:path';
 import { Router } from 'express';
 import type { Knex } from 'knex';
 import { pingDatabase } from './database';
+import type { ObjectStore } from './object-store';
 
 /** Shared between the health routes and the shutdown: once draining, the server says it is not ready. */
 export interface Lifecycle {
@@ -12,7 +11,7 @@ export interface Lifecycle {
 
 export interface HealthDeps {
   db: Knex;
-  uploadsDir: string;
+  files: ObjectStore;
   lifecycle: Lifecycle;
   /** Longest wait for one check before it counts as failed. */
   checkTimeoutMs?: number;
@@ -24,7 +23,7 @@ const within = <T>(p: Promise<T>, ms: number, what: string) =>
 /**
  * `GET /healthz`: the process is up (no database call, so a slow database does not get the
  * process restarted). `GET /readyz`: this server can serve requests now (the database answers
- * and the uploads folder can be written), else 503 so that a load balancer sends traffic elsewhere.
+ * and the file store can be written: the uploads folder, or the bucket answers), else 503 so that a load balancer sends traffic elsewhere.
  */
 export function healthRoutes(deps: HealthDeps): Router {
   const router = Router();
@@ -39,7 +38,7 @@ export function healthRoutes(deps: HealthDeps): Router {
       () => (checks.database = 'ok'),
       (err: Error) => (checks.database = err.message || 'unreachable'),
     );
-    await within(fs.access(path.resolve(deps.uploadsDir), fs.constants.W_OK), timeout, 'the uploads folder').then(
+    await within(deps.files.health(), timeout, 'the file store').then(
       () => (checks.storage = 'ok'),
       (err: Error) => (checks.storage = err.message || 'unreachable'),
     );

@@ -1,5 +1,3 @@
-import fs from 'node:fs/promises';
-import { createReadStream } from 'node:fs';
 import { pipeline } from 'node:stream/promises';
 import { Router, type Request, type RequestHandler, type Response } from 'express';
 import multer from 'multer';
@@ -83,16 +81,14 @@ export function walksApi(ctx: AppContext): Router {
   const addPhoto = async (req: Request<{ id: string }>, res: Response) => {
     if (!req.file) throw new HttpError('invalid', 'Attach the photo in the field "photo".', { photo: 'Attach a photo.' });
     const { stop } = req.body as z.infer<typeof photoFieldsSchema>;
-    res.status(201).json(await service.savePhoto(ctx.db, ctx.config.UPLOADS_DIR, contextOf(req), req.params.id, stop, req.file.buffer));
+    res.status(201).json(await service.savePhoto(ctx.db, ctx.files, contextOf(req), req.params.id, stop, req.file.buffer));
   };
 
   const servePhoto = async (req: Request<{ id: string; photoId: string }>, res: Response) => {
-    const file = await service.photoFile(ctx.db, ctx.config.UPLOADS_DIR, contextOf(req), req.params.id, req.params.photoId);
-    const stat = await fs.stat(file.path).catch(() => null);
-    if (!stat?.isFile()) throw new HttpError('not_found');
-    res.set({ 'Content-Type': file.contentType, 'Content-Length': String(stat.size), 'Cache-Control': 'no-store' });
+    const file = await service.photoFile(ctx.db, ctx.files, contextOf(req), req.params.id, req.params.photoId);
+    res.set({ 'Content-Type': file.contentType, 'Content-Length': String(file.size), 'Cache-Control': 'no-store' });
     // A phone that goes away mid-download is no server error; a failure before the first byte is.
-    await pipeline(createReadStream(file.path), res).catch((err) => {
+    await pipeline(file.body, res).catch((err) => {
       if (!res.headersSent) throw err;
     });
   };

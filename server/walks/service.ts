@@ -1,11 +1,10 @@
 import { createHash, randomBytes, randomUUID } from 'node:crypto';
-import fs from 'node:fs/promises';
-import { commitFile, discard, stageFile } from '../platform/file-store';
 import path from 'node:path';
 import type { Knex } from 'knex';
 import type { UserContext } from '../platform/context';
 import { allows } from '../platform/permissions';
 import { HttpError } from '../platform/errors';
+import type { ObjectStore, StoredObject } from '../platform/object-store';
 import { sniffImageType } from './image-type';
 import { daysBetween } from '../../shared/calc/dates';
 import { addDaysIso, seasonOfDate, todayIso } from '../../shared/registry/season';
@@ -19,7 +18,7 @@ import { estimateSnapshot } from './estimate';
 
 /**
  * Field-walk rules that span tables: who may read and change a walk, the idempotent create with
- * its estimate snapshot, the status steps, one photo per stop on disk, assignments and the
+ * its estimate snapshot, the status steps, one photo per stop in the file store, assignments and the
  * sampler's "today" list.
  */
 export type WalkActor = Pick<UserContext, 'id' | 'organisationId' | 'can'>;
@@ -210,22 +209,16 @@ export async function checkPhotoUpload(db: Knex, actor: WalkActor, walkId: strin
   return walk;
 }
 
-/** An absolute path inside the uploads folder, never outside it. */
-function insideUploads(uploadsDir: string, relative: string): string {
-  const root = path.resolve(uploadsDir);
-  const abs = path.resolve(root, relative);
-  if (!abs.startsWith(root + path.sep)) throw new HttpError('not_found');
-  return abs;
-}
-
 /**
- * Keeps the photo of one stop under UPLOADS_DIR/photos/<organisation>/<walk>/. One photo per
- * stop: a second upload for the stop replaces the first (row and file), so a retried upload never
- * duplicates.
+ * Keeps the photo of one stop in the file store under photos/<organisation>/<walk>/, by a new
+ * random name. One photo per stop: a second upload for the stop replaces the first (row and
+ * file), so a retried upload never duplicates. The file is stored before its row is written and
+ * removed if the row is not, so the row and the file exist together or not at all; only a crash
+ * between the two leaves a file without a row (its name is random and never served).
  */
 export async function savePhoto(
   db: Knex,
-  uploadsDir: string,
+  files: ObjectStore,
   actor: WalkActor,
   walkId: string,
   stop: number,
@@ -236,36 +229,40 @@ export async function savePhoto(
   const type = sniffImageType(data);
   if (!type) throw new HttpError('unsupported_type', 'Send the photo as a JPEG, PNG, WebP or HEIC image.');
 
-  const relative = path.posix.join('photos', actor.organisationId, walk.id, `${stop}-${randomBytes(8).toString('hex')}.${type.ext}`);
-  const abs = insideUploads(uploadsDir, relative);
-  // Staged under a temporary name; renamed into place inside the transaction, so the row and the
-  // file exist together or not at all (server/platform/file-store.ts).
-  const tmp = await stageFile(abs, data, 'the photo');
+  const key = path.posix.join('photos', actor.organisationId, walk.id, `${stop}-${randomBytes(8).toString('hex')}.${type.ext}`);
+  await files.put(key, data, { what: 'the photo', contentType: type.contentType });
 
-  const photo: walks.WalkPhotoRecord = { id: randomUUID(), walkId: walk.id, stop, path: relative, contentType: type.contentType, size: data.length };
+  const photo: walks.WalkPhotoRecord = { id: randomUUID(), walkId: walk.id, stop, path: key, contentType: type.contentType, size: data.length };
   let replaced: walks.WalkPhotoRecord | undefined;
   try {
     await db.transaction(async (trx) => {
       replaced = await walks.photoAtStop(trx, actor.organisationId, walk.id, stop);
       if (replaced) await walks.deletePhoto(trx, actor.organisationId, replaced.id);
       await walks.insertPhoto(trx, actor.organisationId, photo);
-      await commitFile(tmp, abs, 'the photo');
     });
   } catch (err) {
-    await discard(tmp, abs);
+    await files.delete(key).catch(() => undefined);
     if (isUniqueViolation(err)) throw new HttpError('conflict', 'Another photo for this stop arrived at the same moment. Try again.');
     throw err;
   }
-  if (replaced) await fs.rm(insideUploads(uploadsDir, replaced.path), { force: true });
+  if (replaced) await files.delete(replaced.path).catch(() => undefined);
   return { id: photo.id, stop, url: walks.photoUrl(walk.id, photo.id), contentType: photo.contentType, size: photo.size };
 }
 
-/** The stored file of a photo, for someone who may read its walk; 404 otherwise. */
-export async function photoFile(db: Knex, uploadsDir: string, actor: WalkActor, walkId: string, photoId: string) {
+/** The stored photo, for someone who may read its walk; 404 otherwise (and when its file is gone). */
+export async function photoFile(
+  db: Knex,
+  files: ObjectStore,
+  actor: WalkActor,
+  walkId: string,
+  photoId: string,
+): Promise<StoredObject & { contentType: string }> {
   await readable(db, actor, walkId);
   const photo = await walks.getPhoto(db, actor.organisationId, walkId, photoId);
   if (!photo) throw new HttpError('not_found');
-  return { path: insideUploads(uploadsDir, photo.path), contentType: photo.contentType, size: photo.size };
+  const file = await files.get(photo.path, 'the photo');
+  if (!file) throw new HttpError('not_found');
+  return { ...file, contentType: photo.contentType };
 }
 
 // Assignments ---------------------------------------------------------------------------------

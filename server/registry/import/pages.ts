@@ -60,7 +60,7 @@ const previewUrl = (id: string, params?: Record<string, string>, extra: Record<s
 const resultUrl = (id: string) => `${BASE}/${id}/result`;
 
 export function registryImportPages(ctx: AppContext): Router {
-  const imports = createRegistryImports(ctx.db, ctx.config.UPLOADS_DIR);
+  const imports = createRegistryImports(ctx.db, ctx.files);
   const router = Router();
   router.use(can('registry.write'));
 

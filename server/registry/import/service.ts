@@ -8,6 +8,7 @@ import { CropOption } from './values';
 import { CheckResult, checkRows, loadSnapshot } from './check';
 import { ImportActor, commitImport } from './write';
 import { ImportJob, ImportJobs, ImportMeta, ImportStore } from './store';
+import type { ObjectStore } from '../../platform/object-store';
 
 /**
  * The registry CSV import: read an uploaded file (read.ts), map its columns to Crowntip's
@@ -36,8 +37,8 @@ export interface ImportPreview {
 
 export type CommitStart = { kind: 'imported'; meta: ImportMeta } | { kind: 'job'; job: ImportJob };
 
-export function createRegistryImports(db: Knex, uploadsDir: string) {
-  const store = new ImportStore(uploadsDir);
+export function createRegistryImports(db: Knex, files: ObjectStore) {
+  const store = new ImportStore(files);
   const jobs = new ImportJobs();
   let lastSweep = 0;
 

@@ -1,7 +1,6 @@
 import { randomBytes } from 'node:crypto';
-import fs from 'node:fs/promises';
-import path from 'node:path';
-import { discard, writeFileAtomic } from '../../platform/file-store';
+import type { ObjectStore } from '../../platform/object-store';
+import { readAll } from '../../platform/object-store';
 import { Mapping } from './columns';
 import { CheckResult } from './check';
 import { ImportResult } from './write';
@@ -26,29 +25,27 @@ const ID_PATTERN = /^[a-f0-9]{32}$/;
 export const isImportId = (id: string) => ID_PATTERN.test(id);
 
 /**
- * Uploaded files under UPLOADS_DIR/imports: `<id>.csv` and a `<id>.json` sidecar naming the
- * organisation, the uploader and the status. The id is 128 random bits; every read checks the
- * organisation, so another organisation's id answers as if it did not exist.
+ * Uploaded files in the file store under imports/: `<id>.csv` and a `<id>.json` sidecar naming
+ * the organisation, the uploader and the status, so that any server can preview and commit an
+ * upload made through another. The id is 128 random bits; every read checks the organisation, so
+ * another organisation's id answers as if it did not exist.
  */
 export class ImportStore {
-  readonly dir: string;
-  constructor(uploadsDir: string) {
-    this.dir = path.resolve(uploadsDir, 'imports');
-  }
+  constructor(private readonly files: ObjectStore) {}
 
-  private file(id: string, ext: 'csv' | 'json') {
+  private key(id: string, ext: 'csv' | 'json') {
     if (!isImportId(id)) throw new Error('bad import id');
-    return path.join(this.dir, `${id}.${ext}`);
+    return `imports/${id}.${ext}`;
   }
 
   async save(buffer: Buffer, meta: Omit<ImportMeta, 'id' | 'status' | 'uploadedAt' | 'bytes'>): Promise<ImportMeta> {
     const full: ImportMeta = { ...meta, id: randomBytes(16).toString('hex'), status: 'uploaded', uploadedAt: new Date().toISOString(), bytes: buffer.length };
     // Both files or neither: a failed sidecar removes the CSV already in place.
-    await writeFileAtomic(this.file(full.id, 'csv'), buffer, 'the file', 0o600);
+    await this.files.put(this.key(full.id, 'csv'), buffer, { what: 'the file', contentType: 'text/csv' });
     try {
       await this.update(full);
     } catch (err) {
-      await discard(this.file(full.id, 'csv'));
+      await this.files.delete(this.key(full.id, 'csv')).catch(() => undefined);
       throw err;
     }
     return full;
@@ -56,8 +53,10 @@ export class ImportStore {
 
   async get(organisationId: string, id: string): Promise<ImportMeta | undefined> {
     if (!isImportId(id)) return undefined;
+    const file = await this.files.get(this.key(id, 'json'), 'the uploaded file');
+    if (!file) return undefined;
     try {
-      const meta = JSON.parse(await fs.readFile(this.file(id, 'json'), 'utf8')) as ImportMeta;
+      const meta = JSON.parse((await readAll(file)).toString('utf8')) as ImportMeta;
       return meta.organisationId === organisationId ? meta : undefined;
     } catch {
       return undefined;
@@ -65,31 +64,21 @@ export class ImportStore {
   }
 
   async read(meta: ImportMeta): Promise<Buffer> {
-    return fs.readFile(this.file(meta.id, 'csv'));
+    const file = await this.files.get(this.key(meta.id, 'csv'), 'the uploaded file');
+    if (!file) throw Object.assign(new Error(`import ${meta.id}: its file is gone`), { code: 'ENOENT' });
+    return readAll(file);
   }
 
-  /** Written to a temporary file and renamed, so a reader never sees half a sidecar. */
+  /** Replaced whole (a put never shows half a file), so a reader never sees half a sidecar. */
   async update(meta: ImportMeta): Promise<void> {
-    const target = this.file(meta.id, 'json');
-    await writeFileAtomic(target, Buffer.from(JSON.stringify(meta)), 'the file', 0o600);
+    await this.files.put(this.key(meta.id, 'json'), Buffer.from(JSON.stringify(meta)), { what: 'the file', contentType: 'application/json' });
   }
 
   /** Removes uploads older than `days` (run now and then; an old id then answers 404). */
   async sweep(days = 30): Promise<void> {
     const cutoff = Date.now() - days * 86_400_000;
-    let names: string[];
-    try {
-      names = await fs.readdir(this.dir);
-    } catch {
-      return;
-    }
-    await Promise.all(
-      names.map(async (name) => {
-        const full = path.join(this.dir, name);
-        const stat = await fs.stat(full).catch(() => null);
-        if (stat && stat.mtimeMs < cutoff) await fs.rm(full, { force: true });
-      }),
-    );
+    const old = (await this.files.list('imports/')).filter((o) => o.modified.getTime() < cutoff);
+    await Promise.all(old.map((o) => this.files.delete(o.key).catch(() => undefined)));
   }
 }
 
