@@ -16,6 +16,7 @@ import * as m20261202043000 from './20261202043000_users_session_version';
 import * as m20261202044500 from './20261202044500_register_signatures';
 import * as m20261202045000 from './20261202045000_walk_tissue_nitrogen';
 import * as m20261202045137 from './20261202045137_walk_own_review_waiver';
+import * as m20261202055317 from './20261202055317_walk_plan_seed';
 
 interface Migration {
   up: (knex: Knex) => Promise<void>;
@@ -42,6 +43,7 @@ const migrations: Record<string, Migration> = {
   '20261202044500_register_signatures': m20261202044500,
   '20261202045000_walk_tissue_nitrogen': m20261202045000,
   '20261202045137_walk_own_review_waiver': m20261202045137,
+  '20261202055317_walk_plan_seed': m20261202055317,
 };
 
 export const migrationSource: Knex.MigrationSource<string> = {

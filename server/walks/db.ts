@@ -118,6 +118,7 @@ async function assemble(db: Knex, organisationId: string, rows: Record<string, u
     plants: plantsOf.get(r.id as string) ?? [],
     photos: photosOf.get(r.id as string) ?? [],
     skippedStops: r.skipped_stops ? (JSON.parse(r.skipped_stops as string) as number[]) : [],
+    plan: r.plan_seed ? { seed: r.plan_seed as string, stops: Number(r.plan_stops), edgeMarginM: Number(r.plan_edge_margin_m) } : null,
     estimate: r.estimate ? readWalkEstimate(JSON.parse(r.estimate as string) as WalkEstimate) : null,
     createdAt: iso(r.created_at)!,
     submittedAt: iso(r.submitted_at),
@@ -209,6 +210,8 @@ export interface WalkInsert {
   plants: WalkPlant[];
   /** Ascending, without repeats; empty or absent stores null. */
   skippedStops?: number[];
+  /** The walk plan's seed, stop count and edge margin; absent when the phone sent no seed. */
+  plan?: { seed: string; stops: number; edgeMarginM: number } | null;
   createdAt?: string;
   submittedAt?: string | null;
   reviewedBy?: string | null;
@@ -230,6 +233,9 @@ export async function insertWalk(db: Knex, organisationId: string, w: WalkInsert
     content_hash: w.contentHash,
     estimate: w.estimate ? JSON.stringify(w.estimate) : null,
     skipped_stops: w.skippedStops?.length ? JSON.stringify(w.skippedStops) : null,
+    plan_seed: w.plan?.seed ?? null,
+    plan_stops: w.plan?.stops ?? null,
+    plan_edge_margin_m: w.plan?.edgeMarginM ?? null,
     created_at: w.createdAt ?? nowIso(),
     submitted_at: w.submittedAt ?? null,
     reviewed_by: w.reviewedBy ?? null,

@@ -13,6 +13,7 @@ import { assignedCalibrationFor } from '../calibrations/public';
 import { getPlanting } from '../registry/public';
 import { nowIso } from '../platform/scope';
 import { getUser } from '../people/public';
+import { currentCreditRule } from '../rules/public';
 import * as walks from './db';
 import { estimateSnapshot } from './estimate';
 
@@ -116,6 +117,10 @@ export async function createWalk(db: Knex, actor: WalkActor, input: WalkCreate):
   if (both.length) {
     throw invalid('skippedStops', `Stop${both.length === 1 ? '' : 's'} ${both.join(', ')} ${both.length === 1 ? 'has' : 'have'} a plant measured, so ${both.length === 1 ? 'it was' : 'they were'} not skipped.`);
   }
+  const highest = Math.max(...input.plants.map((p) => p.stop), ...(input.skippedStops ?? []));
+  if (input.planStops !== undefined && input.planStops < highest) {
+    throw invalid('planStops', `The plan had ${input.planStops} stops, but stop ${highest} was measured or skipped.`);
+  }
   const before = await walks.findWalkRecord(db, actor.organisationId, input.id);
   if (before) return existing(before);
 
@@ -125,6 +130,7 @@ export async function createWalk(db: Knex, actor: WalkActor, input: WalkCreate):
     planting,
     input.plants.map((p) => p.lengthCm),
   );
+  const plan = input.planSeed ? await planOf(db, actor.organisationId, input) : null;
   try {
     await db.transaction(async (trx) => {
       await walks.insertWalk(trx, actor.organisationId, {
@@ -139,6 +145,7 @@ export async function createWalk(db: Knex, actor: WalkActor, input: WalkCreate):
         estimate,
         plants: input.plants,
         skippedStops: skippedOf(input),
+        plan,
       });
     });
   } catch (err) {
@@ -146,6 +153,17 @@ export async function createWalk(db: Knex, actor: WalkActor, input: WalkCreate):
     return existing(await walks.findWalkRecord(db, actor.organisationId, input.id));
   }
   return { walk: await stored(db, actor, input.id), created: true };
+}
+
+/**
+ * The plan a walk was drawn from, kept so the office can redraw its stops: the phone's seed and
+ * stop count (older phones send no count: the highest stop measured or skipped), and the edge
+ * margin of the credit rule in effect, the one the phone planned with.
+ */
+async function planOf(db: Knex, organisationId: string, input: WalkCreate) {
+  const highest = Math.max(...input.plants.map((p) => p.stop), ...(input.skippedStops ?? []));
+  const rule = await currentCreditRule(db, organisationId);
+  return { seed: input.planSeed!, stops: input.planStops ?? highest, edgeMarginM: rule.edgeMarginM };
 }
 
 // Status steps --------------------------------------------------------------------------------

@@ -43,7 +43,9 @@ export const walkCreateSchema = z.object({
   /** Stops the sampler chose to skip (no plant measured there); optional, older phones leave it out. */
   skippedStops: z.array(z.number().int().min(1).max(MAX_PLANTS)).max(MAX_PLANTS).optional(),
   /** The seed the walk plan drew its stops from (shared/calc/walk-plan.ts), so the office can redraw them. */
-  planSeed: z.string().min(1).max(64).optional(),
+  planSeed: z.string({ message: 'The plan seed must be a text.' }).min(1, 'The plan seed must be 1 to 64 characters.').max(64, 'The plan seed must be 1 to 64 characters.').optional(),
+  /** How many stops the plan had (the phone's stop count; a stop added during the walk counts). */
+  planStops: z.number({ message: 'The planned stop count must be a whole number.' }).int('The planned stop count must be a whole number.').min(1, `The planned stop count must be 1 to ${MAX_PLANTS}.`).max(MAX_PLANTS, `The planned stop count must be 1 to ${MAX_PLANTS}.`).optional(),
 });
 export type WalkCreate = z.infer<typeof walkCreateSchema>;
 
@@ -136,6 +138,11 @@ export const walkSchema = z.object({
   photos: z.array(walkPhotoSchema),
   /** Stops the sampler chose to skip, ascending; empty when none. */
   skippedStops: z.array(z.number().int()).optional(),
+  /**
+   * The plan the stops were drawn from (shared/calc/walk-plan.ts): its seed, its stop count and the
+   * credit rule's edge margin when the walk was stored; null for walks sent without a seed.
+   */
+  plan: z.object({ seed: z.string(), stops: z.number().int(), edgeMarginM: z.number() }).nullable().optional(),
   /** null when no published calibration is assigned for the planting's crop. */
   estimate: walkEstimateSchema.nullable(),
   createdAt: z.string(),

@@ -80,7 +80,7 @@ describe('planLines', () => {
 });
 
 describe('the plan seed travels with the walk', () => {
-  it('is kept in the draft and sent in the walk body', () => {
+  it('is kept in the draft and sent in the walk body with the plan’s stop count', () => {
     const draft = newDraft({
       id: '00000000-0000-4000-8000-000000000001',
       userId: 'u1',
@@ -94,5 +94,6 @@ describe('the plan seed travels with the walk', () => {
     expect(draft.stopCount).toBe(12);
     const body = reviewDraft({ ...draft, values: { 1: '80' } }).body;
     expect(body.planSeed).toBe('k3v9q0z1m2x8');
+    expect(body.planStops).toBe(12);
   });
 });

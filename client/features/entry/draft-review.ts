@@ -81,7 +81,7 @@ export function reviewDraft(draft: WalkDraft, states = stopStates(draft)): Draft
       notes: notes === '' ? null : notes,
       plants,
       ...(skipped.length > 0 ? { skippedStops: skipped } : {}),
-      ...(draft.planSeed ? { planSeed: draft.planSeed } : {}),
+      ...(draft.planSeed ? { planSeed: draft.planSeed, planStops: draft.stopCount } : {}),
     },
     needCheck,
     empty,
