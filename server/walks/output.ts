@@ -1,4 +1,5 @@
 import { toCsv } from '../platform/csv-safe';
+import { readerDistance } from './plan-view';
 import type { Formatter } from '../platform/format';
 import { cmToIn, kgPerHaToLbPerAc } from '../../shared/calc/units';
 import { escapeXml, niceTicks, tickLabel } from '../../shared/charts/svg';
@@ -31,6 +32,7 @@ export function walkUnits(fmt: Formatter) {
     bio: (kg: number) => biomass(kg, fmt.units).full,
     range: (r: readonly [number, number]) => `${biomass(r[0], fmt.units).text}–${biomass(r[1], fmt.units).full}`,
     date: fmt.date,
+    distance: (m: number) => readerDistance(m, fmt.units),
   };
 }
 type WalkUnits = ReturnType<typeof walkUnits>;
@@ -94,6 +96,7 @@ const INK = '#23201a';
 const GRID = '#d6d1c4';
 const SHOOT = '#1f5f36';
 const CLAY = '#a63d1f';
+const PLAN = '#2f5d8a';
 const r1 = (v: number) => Math.round(v * 10) / 10;
 
 export interface DotPlotSpec {
@@ -210,6 +213,8 @@ export interface MapSketchSpec {
   stops: { stop: number; lat: number; lon: number }[];
   outliers: Set<number>;
   units: 'us' | 'metric';
+  /** The walk plan's stops and sampling lines, drawn again from the walk's seed (server/walks/plan-view.ts). */
+  planned?: { stops: { stop: number; lat: number; lon: number }[]; legs: Array<[[number, number], [number, number]]> } | null;
 }
 
 const M_PER_DEG_LAT = 111_320; // metres per degree at the equator, good enough for a sketch scale
@@ -223,10 +228,13 @@ const FT_PER_M = 1 / 0.3048;
 export function mapSketchSvg(spec: MapSketchSpec): string {
   const id = spec.id.replace(/[^A-Za-z0-9_-]/g, '');
   const W = 420;
-  const H = 300;
-  const size = { width: W, height: H - 26, margin: 20 };
-  const lons = spec.stops.map((s) => s.lon);
-  const lats = spec.stops.map((s) => s.lat);
+  const planned = spec.planned?.stops.length ? spec.planned : null;
+  const legendH = planned ? 44 : 0;
+  const H = 300 + legendH;
+  const size = { width: W, height: H - 26 - legendH, margin: 20 };
+  const all = [...spec.stops, ...(planned?.stops ?? [])];
+  const lons = all.map((s) => s.lon);
+  const lats = all.map((s) => s.lat);
   const box: [number, number][] = [
     [Math.min(...lons), Math.min(...lats)],
     [Math.max(...lons), Math.min(...lats)],
@@ -238,7 +246,10 @@ export function mapSketchSvg(spec: MapSketchSpec): string {
   const outline = boundaryOutline({ type: 'MultiPolygon', coordinates: [...fieldPolys, [box]] }, size);
 
   const out: string[] = [];
-  const desc = spec.stops.map((s) => `stop ${s.stop} at ${s.lat.toFixed(5)}, ${s.lon.toFixed(5)}`).join('; ');
+  const desc = [
+    ...spec.stops.map((s) => `stop ${s.stop} dug at ${s.lat.toFixed(5)}, ${s.lon.toFixed(5)}`),
+    ...(planned?.stops ?? []).map((s) => `stop ${s.stop} planned at ${s.lat.toFixed(5)}, ${s.lon.toFixed(5)}`),
+  ].join('; ');
   out.push(
     `<svg xmlns="http://www.w3.org/2000/svg" viewBox="0 0 ${W} ${H}" width="${W}" height="${H}" role="img" aria-labelledby="${id}-title" aria-describedby="${id}-desc" class="w-full h-auto max-w-md" font-family="Lato, system-ui, sans-serif" font-size="13">`,
     `<title id="${id}-title">${escapeXml(spec.title)}</title><desc id="${id}-desc">${escapeXml(desc)}</desc>`,
@@ -250,6 +261,25 @@ export function mapSketchSvg(spec: MapSketchSpec): string {
     out.push(`<text x="${W / 2}" y="16" text-anchor="middle" fill="${INK}" font-size="12">No field boundary on record: the stops alone</text>`);
   }
   const pts = [...spec.stops].sort((a, b) => a.stop - b.stop).map((s) => ({ ...s, xy: outline.project(s.lon, s.lat) }));
+  if (planned) {
+    // The plan underneath: its sampling lines, a square per planned stop, and a thin line from each
+    // planned stop to where that stop's plant was dug.
+    for (const [a, b] of planned.legs) {
+      const [pa, pb] = [outline.project(a[0], a[1]), outline.project(b[0], b[1])];
+      out.push(`<line x1="${pa[0]}" y1="${pa[1]}" x2="${pb[0]}" y2="${pb[1]}" stroke="${PLAN}" stroke-width="2" stroke-opacity="0.6"/>`);
+    }
+    const dugAt = new Map(pts.map((p) => [p.stop, p.xy]));
+    for (const s of planned.stops) {
+      const [x, y] = outline.project(s.lon, s.lat);
+      const d = dugAt.get(s.stop);
+      if (d) out.push(`<line x1="${x}" y1="${y}" x2="${d[0]}" y2="${d[1]}" stroke="${PLAN}" stroke-width="1"/>`);
+      out.push(
+        `<g data-planned-stop="${s.stop}" data-lat="${s.lat}" data-lon="${s.lon}"><rect x="${r1(x - 8)}" y="${r1(y - 8)}" width="16" height="16" fill="#eef3fb" stroke="${PLAN}" stroke-width="1.5"/>` +
+          (d ? '' : `<text x="${x}" y="${r1(y + 4)}" text-anchor="middle" font-size="10" font-weight="700" fill="${PLAN}">${s.stop}</text>`) +
+          `<title>Stop ${s.stop} planned: ${s.lat.toFixed(5)}, ${s.lon.toFixed(5)}</title></g>`,
+      );
+    }
+  }
   if (pts.length > 1) {
     out.push(`<path d="${pts.map((p, i) => `${i ? 'L' : 'M'}${p.xy[0]} ${p.xy[1]}`).join(' ')}" fill="none" stroke="${INK}" stroke-width="1.25" stroke-dasharray="4 3"/>`);
   }
@@ -274,11 +304,21 @@ export function mapSketchSvg(spec: MapSketchSpec): string {
     const step = 10 ** Math.floor(Math.log10(target));
     const nice = [5, 2, 1].map((k) => k * step).find((v) => v <= target) ?? step;
     const len = r1(nice * perUnit * pxPerM);
-    const y = H - 12;
+    const y = H - 12 - legendH;
     out.push(
       `<g aria-hidden="true"><line x1="16" y1="${y}" x2="${r1(16 + len)}" y2="${y}" stroke="${INK}" stroke-width="3"/>` +
         `<line x1="16" y1="${y - 5}" x2="16" y2="${y + 1}" stroke="${INK}"/><line x1="${r1(16 + len)}" y1="${y - 5}" x2="${r1(16 + len)}" y2="${y + 1}" stroke="${INK}"/>` +
         `<text x="${r1(24 + len)}" y="${y + 4}" fill="${INK}">${nice.toLocaleString('en-US')} ${spec.units === 'us' ? 'ft' : 'm'}</text></g>`,
+    );
+  }
+  if (planned) {
+    const ly = H - 30;
+    out.push(
+      `<g aria-hidden="true" font-size="12"><line x1="0" y1="${ly - 14}" x2="${W}" y2="${ly - 14}" stroke="${GRID}"/>` +
+        `<rect x="12" y="${ly - 7}" width="14" height="14" fill="#eef3fb" stroke="${PLAN}" stroke-width="1.5"/><text x="32" y="${ly + 4}" fill="${INK}">planned stop</text>` +
+        `<circle cx="132" cy="${ly}" r="8" fill="#fff" stroke="${INK}" stroke-width="1.5"/><text x="146" y="${ly + 4}" fill="${INK}">plant dug (GPS)</text>` +
+        `<line x1="258" y1="${ly}" x2="282" y2="${ly}" stroke="${PLAN}" stroke-width="2" stroke-opacity="0.6"/><text x="288" y="${ly + 4}" fill="${INK}">sampling line</text>` +
+        `<line x1="12" y1="${ly + 18}" x2="26" y2="${ly + 18}" stroke="${PLAN}" stroke-width="1"/><text x="32" y="${ly + 22}" fill="${INK}">planned stop to the plant dug there</text></g>`,
     );
   }
   out.push('</svg>');

@@ -17,6 +17,7 @@ import { ownReviewWaiverSchema, tissueNSchema, walkRejectSchema, type Walk, type
 import { setTissueN, tissueNView } from './tissue-n-service';
 import { DECISION_BASIS_NAMES, adviceText, biomassAgainstThreshold, percent, reasonText, type UnitSystem } from '../../shared/format';
 import { dotPlotSvg, mapSketchSvg, mean, walkRow, walkUnits, walksCsv } from './output';
+import { walkPlanView } from './plan-view';
 
 /*
  * Walk review (README, "Walk review"): the queue of field walks and each walk's evidence for
@@ -246,14 +247,20 @@ export function walkReviewPages(ctx: AppContext): Router {
           threshold: threshold ? { value: u.lengthValue(threshold.cm), text: `needed ${u.len(threshold.cm)}` } : null,
         })
       : '';
-    const sketch = gpsStops.length
+    const planView = walkPlanView(walk, field ?? null, fmt.units);
+    const plannedAt =
+      planView.kind === 'planned' && planView.plan.mode === 'boundary'
+        ? { stops: planView.stops.map((s) => ({ stop: s.stop, lat: s.lat!, lon: s.lon! })), legs: planView.legs }
+        : null;
+    const sketch = gpsStops.length || plannedAt
       ? mapSketchSvg({
           id: 'walk-map',
-          title: `Sketch of ${walk.fieldName} with the ${gpsStops.length} stop${gpsStops.length === 1 ? '' : 's'} where GPS was recorded`,
+          title: `Sketch of ${walk.fieldName} with the ${gpsStops.length} stop${gpsStops.length === 1 ? '' : 's'} where GPS was recorded${plannedAt ? ' and the planned stops' : ''}`,
           boundary: field?.boundary ?? null,
           stops: gpsStops,
           outliers: odd,
           units: fmt.units,
+          planned: plannedAt,
         })
       : '';
     const me = contextOf(req);
@@ -276,6 +283,7 @@ export function walkReviewPages(ctx: AppContext): Router {
       gpsCount: gpsStops.length,
       dotPlot,
       sketch,
+      planView,
       meanCm,
       canReview,
       ownWalkBlocked,

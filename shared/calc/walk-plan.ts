@@ -647,8 +647,8 @@ export function walkPlan(boundary: Boundaryish | null, options: WalkPlanOptions 
   };
 }
 
-/** The note in English (the office's language); the phone words `noteParts` in its own. */
-export function englishNote(parts: WalkNotePart[]): string {
+/** The note in English (the office's language); the phone words `noteParts` in its own. Distances in metres unless `formatM` says otherwise. */
+export function englishNote(parts: WalkNotePart[], formatM: (m: number) => string = metres): string {
   const out: string[] = [];
   for (const p of parts) {
     if (p.code === 'pattern') {
@@ -670,6 +670,35 @@ export function englishNote(parts: WalkNotePart[]): string {
   return out.join(' ');
 }
 
-function formatM(m: number): string {
+function metres(m: number): string {
   return `${m >= 10 ? Math.round(m) : Math.round(m * 10) / 10} m`;
+}
+
+/** A field's plan as the phone draws it, and whether its boundary on file had to be set aside. */
+export interface FieldWalkPlan {
+  plan: WalkPlan;
+  /** The boundary on file could not be walked, so the plan uses the field's area. */
+  boundaryProblem: boolean;
+}
+
+/**
+ * The plan of a field the way the phone and the office both draw it: from the boundary when there
+ * is one that can be walked, else from the field's area; the same seed, boundary, stop count and
+ * margin give the same stops on both.
+ */
+export function fieldWalkPlan(
+  boundary: Boundaryish | null,
+  areaHa: number,
+  stops: number,
+  options: { edgeMarginM: number; seed?: string },
+): FieldWalkPlan {
+  const opts = { stops, areaHa, edgeMarginM: options.edgeMarginM, ...(options.seed ? { seed: options.seed } : {}) };
+  if (boundary) {
+    try {
+      return { plan: walkPlan(boundary, opts), boundaryProblem: false };
+    } catch {
+      // a degenerate outline: planned from the area below
+    }
+  }
+  return { plan: walkPlan(null, opts), boundaryProblem: boundary !== null };
 }

@@ -2,7 +2,7 @@ import { booleanPointInPolygon } from '@turf/boolean-point-in-polygon';
 import { distance } from '@turf/distance';
 import type { MultiPolygon, Polygon } from 'geojson';
 import type { Boundary } from '../../../shared/registry/boundary';
-import { walkPlan, type WalkPlan } from '../../../shared/calc/walk-plan';
+import { fieldWalkPlan, type WalkPlan } from '../../../shared/calc/walk-plan';
 
 export interface PlanResult {
   plan: WalkPlan;
@@ -22,15 +22,8 @@ export function planField(
   stops: number,
   options: { edgeMarginM: number; seed?: string },
 ): PlanResult {
-  const opts = { stops, areaHa, edgeMarginM: options.edgeMarginM, ...(options.seed ? { seed: options.seed } : {}) };
-  if (boundary) {
-    try {
-      return { plan: walkPlan(boundary, opts), shape: boundary, boundaryProblem: false };
-    } catch {
-      // a degenerate outline: fall back to the area below
-    }
-  }
-  return { plan: walkPlan(null, opts), shape: null, boundaryProblem: boundary !== null };
+  const { plan, boundaryProblem } = fieldWalkPlan(boundary, areaHa, stops, options);
+  return { plan, shape: plan.mode === 'boundary' ? boundary : null, boundaryProblem };
 }
 
 /** Great-circle distance in metres between two positions (turf: haversine on the mean Earth radius). */
