@@ -17,6 +17,7 @@ import { CLIENT_DIST, readOfficeAssets } from './platform/assets';
 import { makeFormatter } from './platform/format';
 import { requestContext } from './platform/context';
 import { captureApp } from './platform/capture-app';
+import { compressDynamic, staticAssets } from './platform/compress';
 import { healthRoutes, type Lifecycle } from './platform/health';
 import type { ObjectStore } from './platform/object-store';
 import { openObjectStore } from './platform/open-object-store';
@@ -69,17 +70,7 @@ export function createApp(deps: AppDeps): Express {
   if (deps.vite) {
     app.use(deps.vite.middlewares);
   } else {
-    app.use(
-      '/static',
-      express.static(CLIENT_DIST, {
-        index: false,
-        redirect: false,
-        setHeaders(res, file) {
-          // Hashed file names never change content: cache them for a year.
-          if (file.includes(`${path.sep}assets${path.sep}`)) res.setHeader('Cache-Control', 'public, max-age=31536000, immutable');
-        },
-      }),
-    );
+    app.use('/static', staticAssets(CLIENT_DIST)); // the build's .br/.gz copies (server/platform/compress.ts)
   }
 
   // Cheap request logging: one line per request, none for health checks, and no per-request
@@ -93,6 +84,7 @@ export function createApp(deps: AppDeps): Express {
       }),
     );
   }
+  app.use(compressDynamic()); // pages, JSON, CSV above 1 KB; never PDFs or photos
   app.use(noStore);
   app.use(healthRoutes({ db, files, lifecycle: deps.lifecycle ?? { draining: false } }));
 

@@ -4,6 +4,7 @@ import type { AppContext } from '../platform/app-context';
 import { contextOf } from '../platform/context';
 import { can } from '../platform/permissions';
 import { HttpError } from '../platform/errors';
+import { keepUncompressed } from '../platform/compress';
 import { getOutboxMessage, listOutbox } from './service';
 
 const PAGE = 50;
@@ -27,6 +28,8 @@ export function outboxPages(ctx: AppContext): Router {
     });
   });
 
+  // A captured message shows its live one-time link: never compressed (README, "Speed", BREACH).
+  router.get('/:id', keepUncompressed);
   router.get('/:id', async (req, res) => {
     const message = await getOutboxMessage(ctx.db, contextOf(req).organisationId, req.params.id);
     if (!message) throw new HttpError('not_found');

@@ -4,6 +4,7 @@ import { Router, type Request, type Response } from 'express';
 import type { ViteDevServer } from 'vite';
 import { can } from './permissions';
 import { CLIENT_DIST } from './assets';
+import { loadBuilt, sendBuilt } from './compress';
 
 /**
  * The sampler's React app: one index.html for /capture and every path below it (React Router
@@ -17,29 +18,32 @@ import { CLIENT_DIST } from './assets';
 export function captureApp(vite?: ViteDevServer): Router {
   const router = Router();
   const guard = can('capture.use');
-  let builtHtml: string | null = null;
+  // The built shell and worker with their brotli and gzip copies (scripts/precompress.ts), read once.
+  let builtHtml: ReturnType<typeof loadBuilt> | null = null;
+  let builtWorker: ReturnType<typeof loadBuilt> | null = null;
 
   const serve = async (req: Request, res: Response) => {
-    let html: string;
+    res.type('html'); // no-store, as every signed-in answer (server/platform/security.ts)
     if (vite) {
       const source = fs.readFileSync(path.resolve('client/index.html'), 'utf8');
-      html = await vite.transformIndexHtml(req.originalUrl, source);
-    } else {
-      builtHtml ??= fs.readFileSync(path.join(CLIENT_DIST, 'index.html'), 'utf8');
-      html = builtHtml;
+      res.send(await vite.transformIndexHtml(req.originalUrl, source));
+      return;
     }
-    res.type('html').send(html); // no-store, as every signed-in answer (server/platform/security.ts)
+    builtHtml ??= loadBuilt(path.join(CLIENT_DIST, 'index.html'));
+    sendBuilt(req, res, builtHtml);
   };
 
-  const serviceWorker = (_req: Request, res: Response) => {
+  const serviceWorker = (req: Request, res: Response) => {
     const file = path.join(CLIENT_DIST, 'sw.js');
     if (vite || !fs.existsSync(file)) {
       res.status(404).type('text/plain').send('No service worker in development.');
       return;
     }
     res.setHeader('Service-Worker-Allowed', '/capture');
-    res.setHeader('Cache-Control', 'no-cache');
-    res.type('application/javascript').send(fs.readFileSync(file));
+    res.setHeader('Cache-Control', 'no-cache'); // the browser asks again on each visit; the ETag saves the bytes
+    res.type('application/javascript');
+    builtWorker ??= loadBuilt(file);
+    sendBuilt(req, res, builtWorker);
   };
 
   router.get('/capture/sw.js', serviceWorker);
