@@ -1,7 +1,6 @@
 import path from 'node:path';
 import express, { type Express, type Router } from 'express';
 import session from 'express-session';
-import { pinoHttp } from 'pino-http';
 import { pino, type Logger } from 'pino';
 import type { Knex } from 'knex';
 import type { ViteDevServer } from 'vite';
@@ -18,6 +17,7 @@ import { makeFormatter } from './platform/format';
 import { requestContext } from './platform/context';
 import { captureApp } from './platform/capture-app';
 import { compressDynamic, staticAssets } from './platform/compress';
+import { requestLog } from './platform/request-log';
 import { healthRoutes, type Lifecycle } from './platform/health';
 import type { ObjectStore } from './platform/object-store';
 import { openObjectStore } from './platform/open-object-store';
@@ -73,17 +73,9 @@ export function createApp(deps: AppDeps): Express {
     app.use('/static', staticAssets(CLIENT_DIST)); // the build's .br/.gz copies (server/platform/compress.ts)
   }
 
-  // Cheap request logging: one line per request, none for health checks, and no per-request
-  // logging work at all when the level hides request lines (LOG_LEVEL=warn or above).
-  if (logger.isLevelEnabled('info')) {
-    app.use(
-      pinoHttp({
-        logger,
-        autoLogging: { ignore: (req) => req.url === '/healthz' || req.url === '/readyz' },
-        quietReqLogger: true,
-      }),
-    );
-  }
+  // One compact line per request, none for health checks; off entirely below info (LOG_LEVEL=warn).
+  const logRequests = requestLog(logger);
+  if (logRequests) app.use(logRequests);
   app.use(compressDynamic()); // pages, JSON, CSV above 1 KB; never PDFs or photos
   app.use(noStore);
   app.use(healthRoutes({ db, files, lifecycle: deps.lifecycle ?? { draining: false } }));

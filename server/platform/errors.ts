@@ -3,6 +3,7 @@ import { ZodError } from 'zod';
 import type { Logger } from 'pino';
 import { makeFormatter } from './format';
 import type { Role } from './roles';
+import { loggedPath } from './request-log';
 
 /** Stable error codes of the JSON API (README, "API"); tests assert these, not the wording. */
 export type ErrorCode =
@@ -105,8 +106,10 @@ export function toHttpError(err: unknown, statusSoFar: number): HttpError {
 export function errorHandler(logger: Logger, permissionsFor: (role: Role | undefined) => (action: never) => boolean): ErrorRequestHandler {
   return (err, req, res, _next) => {
     const httpError = toHttpError(err, res.statusCode);
-    if (httpError.code === 'internal') logger.error({ err, url: req.originalUrl }, 'unhandled error');
-    else if (httpError.status >= 500) logger.error({ err, url: req.originalUrl }, 'storage error');
+    // In full (message, stack, cause), with the request line's id; the path as the request log writes it.
+    const where = { err, reqId: req.requestId, method: req.method, path: loggedPath(req.originalUrl) };
+    if (httpError.code === 'internal') logger.error(where, 'unhandled error');
+    else if (httpError.status >= 500) logger.error(where, 'storage error');
     if (res.headersSent) return;
     res.status(httpError.status);
     if (isApiRequest(req)) {

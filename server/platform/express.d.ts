@@ -10,6 +10,8 @@ declare global {
       csrfToken?: () => string;
       /** Who is asking (server/platform/context.ts); read it through contextOf(req). */
       context?: RequestContext;
+      /** This request's id in the request log (server/platform/request-log.ts), when it is on. */
+      requestId?: string;
     }
   }
 }
