@@ -34,6 +34,9 @@ export interface WireResponse {
    * precache had just filled): `bytes` are then what the worker fetched over the wire for this URL.
    */
   viaWorker?: boolean;
+  /** When the page asked and when the last byte arrived, in ms from the navigation's request. */
+  startMs?: number;
+  endMs?: number;
 }
 
 export interface FirstLoadResult {
@@ -100,9 +103,13 @@ export async function runFirstLoad(opts: { url: string; email: string; password:
 
     const seen = new Map<string, WireResponse>();
     const inflight = new Set<string>();
+    const started = new Map<string, number>();
+    let t0: number | null = null; // the navigation's request (CDP timestamps, seconds)
     let lastActivity = performance.now();
     cdp.on('Network.requestWillBeSent', (e) => {
       inflight.add(e.requestId);
+      t0 ??= e.timestamp;
+      started.set(e.requestId, e.timestamp);
       lastActivity = performance.now();
     });
     cdp.on('Network.responseReceived', (e) => {
@@ -113,13 +120,17 @@ export async function runFirstLoad(opts: { url: string; email: string; password:
         encoding: h['content-encoding'] ?? '',
         bytes: 0,
         viaWorker: false,
+        startMs: t0 === null ? undefined : ((started.get(e.requestId) ?? t0) - t0) * 1000,
       });
     });
     cdp.on('Network.loadingFinished', (e) => {
       inflight.delete(e.requestId);
       lastActivity = performance.now();
       const r = seen.get(e.requestId);
-      if (r) r.bytes = e.encodedDataLength;
+      if (r) {
+        r.bytes = e.encodedDataLength;
+        if (t0 !== null) r.endMs = (e.timestamp - t0) * 1000;
+      }
     });
     cdp.on('Network.loadingFailed', (e) => {
       inflight.delete(e.requestId);
@@ -195,7 +206,8 @@ export function printFirstLoad(r: FirstLoadResult, base: string) {
   console.log(`\nFirst visit to /capture as a sampler (slow mobile: ${SLOW_MOBILE.latencyMs} ms, 1.6/0.75 Mbps, CPU x${SLOW_MOBILE.cpuSlowdown}), bytes on the wire`);
   for (const x of r.responses) {
     const via = x.viaWorker ? '  (fetched by the service worker)' : '';
-    console.log(`  ${x.url.replace(base, '').padEnd(w)}  ${String(x.status).padStart(3)}  ${(x.encoding || 'identity').padEnd(8)}  ${kib(x.bytes).padStart(10)}${via}`);
+    const when = x.startMs === undefined ? ''.padEnd(16) : `${x.startMs.toFixed(0).padStart(6)}–${x.endMs === undefined ? '?' : x.endMs.toFixed(0)} ms`.padEnd(16);
+    console.log(`  ${x.url.replace(base, '').padEnd(w)}  ${String(x.status).padStart(3)}  ${(x.encoding || 'identity').padEnd(8)}  ${kib(x.bytes).padStart(10)}  ${when}${via}`);
   }
   console.log(`  ${'total'.padEnd(w)}  ${String(r.responses.length).padStart(3)}  ${''.padEnd(8)}  ${kib(r.totalBytes).padStart(10)}`);
   console.log(`  the service worker's precache download: ${kib(r.workerBytes)} in ${r.workerResponses} responses (counted apart)`);
