@@ -21,8 +21,8 @@ export interface LoadResult {
   non2xx: number;
 }
 
-export async function startBare() {
-  const child = spawn(process.execPath, ['--import', 'tsx', 'bench/bare-target.ts'], { stdio: ['ignore', 'pipe', 'inherit'] });
+export async function startBare(env: Record<string, string> = {}) {
+  const child = spawn(process.execPath, ['--import', 'tsx', 'bench/bare-target.ts'], { stdio: ['ignore', 'pipe', 'inherit'], env: { ...process.env, ...env } });
   const line = await new Promise<string>((resolve, reject) => {
     createInterface({ input: child.stdout! }).once('line', resolve);
     child.once('exit', (code) => reject(new Error(`bare Express target exited with ${code}`)));
@@ -30,7 +30,7 @@ export async function startBare() {
   const { url } = JSON.parse(line) as { url: string };
   const stop = () => child.exitCode === null && child.kill('SIGTERM');
   process.once('exit', stop); // also when the bench stops early
-  return { url, stop };
+  return { url, pid: child.pid!, stop };
 }
 
 export interface Session {
