@@ -3,6 +3,7 @@ import path from 'node:path';
 import knex, { type Knex } from 'knex';
 import pg from 'pg';
 import { migrationSource } from '../../migrations';
+import { keepPreparedStatements } from './sqlite-statements';
 
 export type Db = Knex;
 
@@ -84,7 +85,8 @@ export function openDatabase(target: string, opts: DatabaseOptions = {}): Db {
     pool: {
       min: 1,
       max: 1,
-      afterCreate(conn: { pragma: (s: string) => unknown }, done: (err: Error | null, conn: unknown) => void) {
+      afterCreate(conn: { pragma: (s: string) => unknown; prepare: (sql: string) => unknown }, done: (err: Error | null, conn: unknown) => void) {
+        keepPreparedStatements(conn);
         conn.pragma('journal_mode = WAL');
         conn.pragma('synchronous = NORMAL');
         conn.pragma('busy_timeout = 5000');
