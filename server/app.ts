@@ -61,6 +61,9 @@ export function createApp(deps: AppDeps): Express {
   app.set('view engine', 'ejs');
   app.set('views', path.resolve('views'));
   app.disable('x-powered-by');
+  // Every answer of the app is no-store (server/platform/security.ts): a browser keeps nothing to
+  // revalidate, so hashing each body for an ETag is work for nothing.
+  app.set('etag', false);
   app.locals.roleLabels = ROLE_LABELS;
   app.locals.cropLabels = CROP_LABELS;
 
@@ -103,7 +106,7 @@ export function createApp(deps: AppDeps): Express {
     }),
   );
   app.use(passport.initialize());
-  app.use(passport.session());
+  app.use(people.sessionUser(db, deps.fastReads)); // what passport.session() does, for less per request
   app.use(requestContext);
 
   // Sign-in limits run before the CSRF check, so a flood of bad tokens still counts (docs/server-notes.md, 3).

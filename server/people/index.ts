@@ -4,6 +4,6 @@ export { authPages } from './auth-pages';
 export { homePages } from './home-pages';
 export { accountPages } from './account-pages';
 export { userAdminPages } from './user-pages';
-export { configurePassport } from './passport';
+export { configurePassport, sessionUser } from './passport';
 export { SessionStore } from './session-store';
 export { accessLimits, MemoryAttemptStore, type AttemptStore, type AccessLimits } from './sign-in-limits';

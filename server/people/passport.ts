@@ -1,7 +1,8 @@
 import passport from 'passport';
 import { Strategy as LocalStrategy } from 'passport-local';
 import type { Knex } from 'knex';
-import { findUserById, findUserForSignIn, toUser, type UserRow } from './db';
+import type { RequestHandler } from 'express';
+import { findUserById, findUserForSignIn, toUser, type User, type UserRow } from './db';
 import type { FastReads } from '../platform/fast-reads';
 import { makeStandInHash, verifyPassword } from './passwords';
 
@@ -29,17 +30,58 @@ export function configurePassport(db: Knex, bcryptRounds: number, fast?: FastRea
   );
   // The session keeps the user's id and the session version it was signed in under.
   pp.serializeUser((user, done) => done(null, { id: (user as Express.User).id, v: (user as Express.User).sessionVersion }));
-  // Loaded on every request so that a deactivation or a role change takes effect at once; a
-  // session signed in before the last password change, reset or deactivation is refused.
-  pp.deserializeUser(async (stored: SessionUser | string, done) => {
-    try {
-      const { id, v } = typeof stored === 'string' ? { id: stored, v: 0 } : stored;
-      const row = fast?.userRow(id);
-      const user = fast ? (row ? toUser(row as unknown as UserRow) : undefined) : await findUserById(db, id);
-      done(null, user && user.active && user.sessionVersion === v ? user : false);
-    } catch (err) {
-      done(err);
-    }
+  const load = userOfSession(db, fast);
+  pp.deserializeUser((stored: SessionUser | string, done) => {
+    settle(load, stored, (err, user) => done(err, user));
   });
   return pp;
+}
+
+/**
+ * The user a session was signed in as, loaded on every request so that a deactivation or a role
+ * change takes effect at once; false for a session signed in before the user's last password
+ * change, reset or deactivation. Without a promise when the prepared-statement reads serve it.
+ */
+function userOfSession(db: Knex, fast?: FastReads) {
+  const valid = (user: User | undefined, v: number) => (user && user.active && user.sessionVersion === v ? user : false);
+  return (stored: SessionUser | string): Express.User | false | Promise<Express.User | false> => {
+    const { id, v } = typeof stored === 'string' ? { id: stored, v: 0 } : stored;
+    if (!fast) return findUserById(db, id).then((user) => valid(user, v));
+    const row = fast.userRow(id);
+    return valid(row ? toUser(row as unknown as UserRow) : undefined, v);
+  };
+}
+
+function settle(
+  load: ReturnType<typeof userOfSession>,
+  stored: SessionUser | string,
+  done: (err: unknown, user?: Express.User | false) => void,
+) {
+  let result;
+  try {
+    result = load(stored);
+  } catch (err) {
+    return done(err);
+  }
+  if (result instanceof Promise) result.then((user) => done(null, user), done);
+  else done(null, result);
+}
+
+/**
+ * What passport.session() does on each request, without its per-request strategy objects: the
+ * session's user is loaded into req.user, and a session whose user is no longer valid forgets
+ * them (the session then reads as signed out, and is saved so).
+ */
+export function sessionUser(db: Knex, fast?: FastReads): RequestHandler {
+  const load = userOfSession(db, fast);
+  return (req, _res, next) => {
+    const stored = (req.session as { passport?: { user?: SessionUser | string } } | undefined)?.passport?.user;
+    if (stored === undefined || stored === null || stored === '') return next();
+    settle(load, stored, (err, user) => {
+      if (err) return next(err);
+      if (user) req.user = user;
+      else delete (req.session as unknown as { passport: { user?: unknown } }).passport.user;
+      next();
+    });
+  };
 }

@@ -67,6 +67,16 @@ export function csrfProtection(): RequestHandler {
     // Reads of the JSON API need no token and render no form: skip lusca's per-request token
     // work (GET /api/session still gets one: it hands the token to the client).
     if (SAFE.has(req.method) && req.path.startsWith('/api/') && req.path !== '/api/session') return next();
+    // A read checks nothing: lusca's token is made on the first call of req.csrfToken() only (its
+    // check on a read does nothing else), and that first call answers the token just made rather
+    // than making and comparing a second one.
+    if (SAFE.has(req.method)) {
+      req.csrfToken = () => {
+        check(req, res, () => undefined); // a read: lusca sets its token and req.csrfToken, nothing else
+        return res.locals._csrf as string;
+      };
+      return next();
+    }
     // A signed-out client's write is told to sign in (401) rather than that its token is missing:
     // it has no session a token could belong to. Sign-in and sign-out themselves stay open.
     if (!SAFE.has(req.method) && req.path.startsWith('/api/') && !req.user && !(req.path === '/api/session' && (req.method === 'POST' || req.method === 'DELETE'))) {
