@@ -14,11 +14,14 @@ import { ranchesDb } from './service';
 import { fieldsDb } from './service';
 import { plantingsDb } from './service';
 import * as registry from './service';
-import { boundaryFromUpload, renameErrors } from './forms';
+import { boundaryFromForm, renameErrors } from './forms';
+import { BoundaryUploads } from './boundary-uploads';
+import { boundaryImportPages } from './boundary-pages';
+import { shapeLabel } from './boundary-files';
 import { areaToHa, rateToKgHa } from '../platform/form-values';
 
 /**
- * Field forms carry an optional GeoJSON file. lusca checks the CSRF token before route handlers
+ * Field forms carry an optional boundary file (GeoJSON, KML, KMZ or a zipped shapefile). lusca checks the CSRF token before route handlers
  * run, and it can only read the token from a parsed body, so app.ts runs this parser ahead of
  * lusca for the two field-form paths (docs/server-notes.md, 3). Small files, memory only.
  */
@@ -26,7 +29,7 @@ export const boundaryUpload = multer({
   storage: multer.memoryStorage(),
   limits: { fileSize: 2 * 1024 * 1024, files: 1, fields: 20 },
 }).single('boundaryFile');
-export const FIELD_FORM_PATHS = ['/registry/fields', '/registry/fields/:id'];
+export const FIELD_FORM_PATHS = ['/registry/fields', '/registry/fields/:id', '/registry/ranches/:id/boundaries'];
 
 const PAGE = 50;
 const writers = can('registry.write');
@@ -59,7 +62,9 @@ function rerender(res: Response, view: string, locals: Record<string, unknown>, 
 export function registryPages(ctx: AppContext): Router {
   const router = Router();
   const { db } = ctx;
+  const uploads = new BoundaryUploads(ctx.files);
   router.use('/registry', can('registry.read'));
+  router.use(boundaryImportPages(ctx, uploads));
 
   router.get('/registry', (_req, res) => res.redirect('/registry/ranches'));
 
@@ -143,18 +148,17 @@ export function registryPages(ctx: AppContext): Router {
 
   // Fields ------------------------------------------------------------------------------------
 
-  const fieldFormInput = (req: Request) => {
+  const fieldFormInput = async (req: Request) => {
     const body = req.body ?? {};
-    const upload = boundaryFromUpload(req.file);
+    const choice = await boundaryFromForm(uploads, org(req), req.file, body);
     const input: Record<string, unknown> = {
       ranchId: body.ranchId,
       name: body.name,
       areaHa: areaToHa(body.area, contextOf(req).units),
       notes: body.notes,
     };
-    if (upload.boundary) input.boundary = upload.boundary;
-    else if (body.removeBoundary === 'yes') input.boundary = null;
-    return { input, problem: upload.problem };
+    if (choice.boundary !== undefined) input.boundary = choice.boundary;
+    return { input, choice };
   };
 
   const fieldFormLocals = async (req: Request, values: Record<string, unknown>, field: fieldsDb.Field | null) => ({
@@ -163,7 +167,16 @@ export function registryPages(ctx: AppContext): Router {
     values,
     errors: {} as Record<string, string>,
     ranches: await ranchesDb.ranchOptions(db, org(req)),
+    choose: null as null | { id: string; fileName: string; options: { index: number; label: string; areaHa: number | null; problem: string | null }[]; picked: number | null },
   });
+
+  /** The chooser beside the file input: every shape by its name attribute, with its area. */
+  const chooserOf = (kept: NonNullable<Awaited<ReturnType<typeof fieldFormInput>>['choice']['choose']>, body: Record<string, unknown>) => {
+    const options = kept.shapes.map((s) => ({ index: s.index, label: shapeLabel(s, kept.nameKeys[0]), areaHa: s.areaHa, problem: s.problem }));
+    const typed = String(body.name ?? '').trim().toLowerCase();
+    const picked = body.boundaryPick !== undefined && body.boundaryUpload === kept.id ? Number(body.boundaryPick) : (options.find((o) => !o.problem && typed && o.label.toLowerCase() === typed)?.index ?? null);
+    return { id: kept.id, fileName: kept.fileName, options, picked };
+  };
 
   router.get('/registry/fields/new', writers, async (req, res) => {
     res.render('registry/field-form', await fieldFormLocals(req, { ranchId: req.query.ranchId }, null));
@@ -171,12 +184,15 @@ export function registryPages(ctx: AppContext): Router {
 
   const saveField = async (req: Request, res: Response, field: fieldsDb.Field | null) => {
     const locals = await fieldFormLocals(req, req.body ?? {}, field);
-    const { input, problem } = fieldFormInput(req);
+    const { input, choice } = await fieldFormInput(req);
     const schema = field ? fieldInputSchema.partial() : fieldInputSchema;
     const parsed = parseForm(schema, input);
     const errors = parsed.ok ? {} : renameErrors(parsed.errors);
-    if (problem) errors.boundaryFile = problem;
-    if (!parsed.ok || problem) return res.status(400).render('registry/field-form', { ...locals, errors });
+    if (choice.problem) errors.boundaryFile = choice.problem;
+    if (choice.choose) locals.choose = chooserOf(choice.choose, req.body ?? {});
+    // Several shapes and none picked yet: show them, save nothing (not an error: a step).
+    if (choice.pending && !choice.problem && parsed.ok) return res.render('registry/field-form', { ...locals, errors });
+    if (!parsed.ok || choice.problem) return res.status(400).render('registry/field-form', { ...locals, errors });
     try {
       const saved = field
         ? await registry.updateField(db, contextOf(req), field.id, parsed.value)
