@@ -8,6 +8,7 @@ import * as ranches from './ranches-db';
 import * as fields from './fields-db';
 import * as plantings from './plantings-db';
 import { appendChange, type EntityType } from './history-db';
+import { newFieldAreaHa } from './boundary-import';
 
 /**
  * Registry writes: each checks the rules that span records (the ranch is this organisation's,
@@ -175,3 +176,26 @@ export * as ranchesDb from './ranches-db';
 export { getPlanting, listPlantings } from './plantings-db';
 export { getRanch, listRanches, RANCH_SORTS, type Ranch, type RanchSort } from './ranches-db';
 export { ranchOptions } from './ranches-db';
+
+// Boundaries from a file --------------------------------------------------------------------------
+
+/**
+ * Writes a checked boundary import (boundary-import.ts) in one transaction: matched fields get
+ * their boundary (their entered area stays), new fields take the boundary's area. Each write keeps
+ * its own change-history entry; any failure writes nothing.
+ */
+export async function importBoundaries(db: Knex, actor: Actor, ranchId: string, rows: BoundaryImportRow[]): Promise<void> {
+  await db.transaction(async (trx) => {
+    for (const row of rows) {
+      if (row.fieldId) await updateField(trx, actor, row.fieldId, { boundary: row.boundary });
+      else await createField(trx, actor, { ranchId, name: row.name, areaHa: newFieldAreaHa(row.areaHa), boundary: row.boundary, notes: null } as FieldInput);
+    }
+  });
+}
+
+export interface BoundaryImportRow {
+  name: string;
+  areaHa: number;
+  boundary: Boundary;
+  fieldId?: string;
+}
