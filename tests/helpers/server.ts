@@ -29,13 +29,15 @@ async function freePort(): Promise<number> {
 /**
  * Starts the real server (`server/main.ts`, as `npm start` does) on a free port with its own
  * database in a temporary folder (in the postgres project: its own throwaway PostgreSQL database,
- * migrated and seeded by the server itself), and waits until it says it is running.
+ * migrated and seeded by the server itself, unless `env.DATABASE_URL` names one), and waits until
+ * it says it is running.
  */
 export async function startServer(env: Record<string, string> = {}): Promise<RunningServer> {
   const port = await freePort();
   const dataDir = fs.mkdtempSync(path.join(os.tmpdir(), 'crowntip-test-'));
   const pgRun = inject('postgres');
-  const pgDb = pgRun ? await createThrowawayDatabase(pgRun.adminUrl, pgRun.prefix) : undefined;
+  // A DATABASE_URL given by the test (several servers on one database) is used as it is.
+  const pgDb = pgRun && !env.DATABASE_URL ? await createThrowawayDatabase(pgRun.adminUrl, pgRun.prefix) : undefined;
   const child: ChildProcess = spawn(process.execPath, ['--import', 'tsx', 'server/main.ts'], {
     cwd: process.cwd(),
     env: {
