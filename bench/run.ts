@@ -15,6 +15,7 @@ import { best, CONNECTIONS, loadGet, loadWalks, SECONDS, signIn, startBare, type
 import { REGISTER_CLERK, REGISTER_FIELDS, addLargeRegister, timeRegisterBuild, type RegisterBuildResult } from './register-build';
 import { atMost, printRows, shareOfBare, type Row } from './report';
 import { DEMO_PASSWORD, makeDataDir, startServer } from './server-process';
+import { runPostgresBench } from './postgres';
 
 const CLERK = 'clerk@crowntip.test';
 const SAMPLER = 'sampler@crowntip.test';
@@ -205,5 +206,6 @@ try {
   data.remove();
   quietData.remove();
 }
+rows.push(...(await runPostgresBench())); // PostgreSQL beside SQLite, when a PostgreSQL server is named
 printRows(`Speed targets (${new Date().toISOString().slice(0, 16)}Z, ${process.platform} ${process.arch}, node ${process.version})`, rows);
 process.exit(0);
