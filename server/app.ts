@@ -18,6 +18,7 @@ import { requestContext } from './platform/context';
 import { captureApp } from './platform/capture-app';
 import { compressDynamic, staticAssets } from './platform/compress';
 import { requestLog } from './platform/request-log';
+import { readCache } from './platform/read-cache';
 import { healthRoutes, type Lifecycle } from './platform/health';
 import type { ObjectStore } from './platform/object-store';
 import { openObjectStore } from './platform/open-object-store';
@@ -54,7 +55,7 @@ export function createApp(deps: AppDeps): Express {
   const logger = deps.logger ?? pino({ level: config.isTest ? 'silent' : config.LOG_LEVEL });
   const mailer = deps.mailer ?? mail.createMailer(db, { smtpUrl: config.SMTP_URL, from: config.MAIL_FROM, logger });
   const files = deps.files ?? openObjectStore(config);
-  const ctx: AppContext = { config, db, logger, mailer, files };
+  const ctx: AppContext = { config, db, logger, mailer, files, reads: readCache(deps.fastReads?.dataVersion) };
 
   const app = express();
   app.set('trust proxy', config.TRUST_PROXY);

@@ -3,6 +3,7 @@ import type { Logger } from 'pino';
 import type { Config } from './config';
 import type { Mailer } from '../mail/public';
 import type { ObjectStore } from './object-store';
+import type { ReadCache } from './read-cache';
 
 /** What every resource's routers are built with: one per app (server/app.ts makes it). */
 export interface AppContext {
@@ -12,4 +13,6 @@ export interface AppContext {
   mailer: Mailer;
   /** Uploaded files: UPLOADS_DIR or an S3-compatible bucket (server/platform/object-store.ts). */
   files: ObjectStore;
+  /** List answers kept while the database is unchanged (server/platform/read-cache.ts). */
+  reads: ReadCache;
 }

@@ -11,6 +11,8 @@ import Database from 'better-sqlite3';
 export interface FastReads {
   sessionJson(sid: string, nowIso: string): string | undefined;
   userRow(id: string): Record<string, unknown> | undefined;
+  /** SQLite's data version on this connection: it changes whenever any other connection commits. */
+  dataVersion(): number;
   close(): void;
 }
 
@@ -26,7 +28,9 @@ export function openFastReads(file: string): FastReads | undefined {
        from users join organisations on organisations.id = users.organisation_id
       where users.id = ?`,
   );
+  const version = conn.prepare('pragma data_version').pluck();
   return {
+    dataVersion: () => version.get() as number,
     sessionJson: (sid, nowIso) => (session.get(sid, nowIso) as { sess: string } | undefined)?.sess,
     userRow: (id) => user.get(id) as Record<string, unknown> | undefined,
     close: () => conn.close(),

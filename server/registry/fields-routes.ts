@@ -17,8 +17,11 @@ export function fieldsApi(ctx: AppContext): Router {
   const router = Router();
   const writers = can('registry.write');
 
+  // Kept while the database is unchanged, per organisation and query (server/platform/read-cache.ts).
   const list = async (req: Request, res: Response) => {
-    res.json(await listFields(ctx.db, contextOf(req).organisationId, res.locals.query as z.infer<typeof listSchema>));
+    const { organisationId } = contextOf(req);
+    const query = res.locals.query as z.infer<typeof listSchema>;
+    await ctx.reads.sendJson(req, res, `fields ${organisationId} ${JSON.stringify(query)}`, () => listFields(ctx.db, organisationId, query));
   };
 
   const show = async (req: Request<{ id: string }>, res: Response) => {

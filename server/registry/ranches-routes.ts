@@ -41,11 +41,16 @@ export function ranchesApi(ctx: AppContext): Router {
   const router = Router();
   const writers = can('registry.write');
 
+  // Kept while the database is unchanged, per organisation and query (server/platform/read-cache.ts).
   const list = async (req: Request, res: Response) => {
-    const query = res.locals.query as z.infer<typeof listSchema>;
-    const season = query.season ?? currentSeason();
-    const { items, total } = await listRanches(ctx.db, contextOf(req).organisationId, { ...query, season });
-    res.json({ items: items.map((r) => answer(r, season)), total });
+    const { organisationId } = contextOf(req);
+    const query = { ...(res.locals.query as z.infer<typeof listSchema>) };
+    query.season ??= currentSeason();
+    const season = query.season;
+    await ctx.reads.sendJson(req, res, `ranches ${organisationId} ${JSON.stringify(query)}`, async () => {
+      const { items, total } = await listRanches(ctx.db, organisationId, { ...query, season });
+      return { items: items.map((r) => answer(r, season)), total };
+    });
   };
 
   const show = async (req: Request<{ id: string }>, res: Response) => {
