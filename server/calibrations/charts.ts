@@ -57,8 +57,8 @@ export function calibrationCharts(input: ChartInput): CalibrationCharts {
   const curve: ChartPoint[] = xs.map((x) => ({ x: lengthOut(x, u), y: biomassOut(Math.max(0, predict(fit, x)), u) }));
   const bands = xs.map((x) => interval(fit, x, { level: BAND_LEVEL, kind: 'prediction' }));
   // Biomass is never negative: a straight line's band may dip below zero at short lengths.
-  const lower = xs.map((x, i) => ({ x: lengthOut(x, u), y: biomassOut(Math.max(0, bands[i][0]), u) }));
-  const upper = xs.map((x, i) => ({ x: lengthOut(x, u), y: biomassOut(Math.max(0, bands[i][1]), u) }));
+  const lower = xs.map((x, i) => ({ x: lengthOut(x, u), y: biomassOut(Math.max(0, bands[i]![0]), u) }));
+  const upper = xs.map((x, i) => ({ x: lengthOut(x, u), y: biomassOut(Math.max(0, bands[i]![1]), u) }));
   const pts = input.points.map((p) => ({ x: lengthOut(p.x, u), y: biomassOut(p.y, u) }));
   const threshold = biomassOut(input.thresholdKgHa, u);
   const thresholdAt = lengthForBiomass(fit, input.thresholdKgHa);
@@ -78,7 +78,8 @@ export function calibrationCharts(input: ChartInput): CalibrationCharts {
     reach !== null
       ? `The curve reaches the threshold of ${thresholdText} at a mean main shoot length of ${group(reach, 1)} ${lenUnit}.`
       : `The curve does not reach the threshold of ${thresholdText} within the calibrated lengths.`;
-  const [xLo, xHi] = fit.xRange.map((x) => lengthOut(x, u));
+  const xLo = lengthOut(fit.xRange[0], u);
+  const xHi = lengthOut(fit.xRange[1], u);
   const scatter = renderChart({
     id: `${input.id}-scatter`,
     title: `${input.subject}: biomass against mean main shoot length`,

@@ -140,7 +140,7 @@ export function mapColumns(header: string[]): { ok: true; map: ColumnMap; column
     ok: true,
     map,
     columns,
-    hints: { lengthUnit: lengthUnitHint(normaliseHeader(header[map.length])), biomassUnit: biomassUnitHint(normaliseHeader(header[map.biomass])) },
+    hints: { lengthUnit: lengthUnitHint(normaliseHeader(header[map.length]!)), biomassUnit: biomassUnitHint(normaliseHeader(header[map.biomass]!)) },
   };
 }
 
@@ -219,7 +219,7 @@ export function checkCalibrationCsv(text: string, options: CheckOptions = {}): I
   const bioUnit = biomassUnit ? ` ${BIOMASS_UNIT_LABELS[biomassUnit]}` : '';
 
   for (const [i, cells] of table.rows.entries()) {
-    const line = table.lines[i];
+    const line = table.lines[i]!;
     const before = errorCount;
     const extra = cells.slice(table.header.length).filter((c) => c !== '');
     if (extra.length) {

@@ -118,8 +118,8 @@ export function readCsvText(text: string, options: CsvReadOptions = {}): CsvTabl
   const delimiter = detectDelimiter(text);
   // One past the limit (plus the header), so "too many" is seen without reading the rest.
   const records = parseCsvRecords(text, delimiter, { trim: true, to: maxRows + 2 });
-  if (records.length === 0) throw new CsvReadError('empty', 'The file is empty.');
   const [head, ...data] = records;
+  if (!head) throw new CsvReadError('empty', 'The file is empty.');
   if (data.length > maxRows) {
     throw new CsvReadError('too_many_rows', `The file has more than ${maxRows.toLocaleString('en-US')} rows; split it or remove rows that are not needed.`);
   }

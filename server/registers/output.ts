@@ -206,7 +206,7 @@ export async function registerPdf(docs: RegisterDoc[], opts: PdfOptions): Promis
     bufferPages: true,
     autoFirstPage: false,
     info: {
-      Title: docs.length === 1 ? `Credit register ${docs[0].ranch.name} ${docs[0].year}` : (opts.cover?.title ?? 'Credit registers'),
+      Title: docs.length === 1 ? `Credit register ${docs[0]!.ranch.name} ${docs[0]!.year}` : (opts.cover?.title ?? 'Credit registers'),
       Author: 'Crowntip',
       Subject: 'Nitrogen scavenging credit register',
     },
@@ -286,8 +286,8 @@ export async function registerPdf(docs: RegisterDoc[], opts: PdfOptions): Promis
     const xs = colX();
     pdf.font('Lato-Bold').fontSize(FIELD_ROW_FONT).fillColor(INK);
     const y = pdf.y;
-    const h = Math.max(...columns.map((c, i) => pdf.heightOfString(c.title, { width: xs[i].w - 4 })));
-    columns.forEach((c, i) => pdf.text(c.title, xs[i].x + 2, y, { width: xs[i].w - 4, align: c.align ?? 'left' }));
+    const h = Math.max(...columns.map((c, i) => pdf.heightOfString(c.title, { width: xs[i]!.w - 4 })));
+    columns.forEach((c, i) => pdf.text(c.title, xs[i]!.x + 2, y, { width: xs[i]!.w - 4, align: c.align ?? 'left' }));
     pdf.moveTo(left, y + h + 2).lineTo(left + width(), y + h + 2).lineWidth(1).strokeColor(INK).stroke();
     pdf.y = y + h + 5;
   };
@@ -328,7 +328,7 @@ export async function registerPdf(docs: RegisterDoc[], opts: PdfOptions): Promis
     for (const r of doc.rows) {
       pdf.font('Lato').fontSize(FIELD_ROW_FONT);
       const why = r.verdict === 'eligible' || r.verdict === 'projected_eligible' ? '' : `Why: ${r.reasons.map((x) => u.reason(x, r, doc.rule)).join(' · ')}`;
-      const whyX = xs[2].x + 2;
+      const whyX = xs[2]!.x + 2;
       const whyW = left + width() - whyX - 2;
       const rowH = 10 + (why ? pdf.fontSize(6.8).heightOfString(why, { width: whyW }) + 2 : 0);
       ensure(rowH + 3, true);
@@ -338,8 +338,8 @@ export async function registerPdf(docs: RegisterDoc[], opts: PdfOptions): Promis
       columns.forEach((c, i) => {
         const bold = c.bold ? c.bold(r) : rowFont === 'Lato-Bold';
         pdf.font(bold ? 'Lato-Bold' : 'Lato').fillColor(c.color?.(r) ?? INK);
-        const text = fit(c.cell(r), xs[i].w - 4);
-        pdf.text(text, xs[i].x + 2, y, { width: xs[i].w - 4, align: c.align ?? 'left', lineBreak: false });
+        const text = fit(c.cell(r), xs[i]!.w - 4);
+        pdf.text(text, xs[i]!.x + 2, y, { width: xs[i]!.w - 4, align: c.align ?? 'left', lineBreak: false });
       });
       if (why) pdf.font('Lato').fontSize(6.8).fillColor(MUTED).text(why, whyX, y + 10, { width: whyW });
       pdf.y = y + rowH;

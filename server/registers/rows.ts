@@ -218,8 +218,9 @@ export function chooseWalk(walks: ApprovedWalkInput[], seededOn: string, endOn: 
   if (!usable.length) return { walk: null, qualifies: false };
   const qualifying = usable.filter((w) => w.walkedOn <= endOn && daysBetween(w.walkedOn, endOn) <= maxGapDays);
   // Both lists keep the query's order (walk date, then review time), so the last is the latest.
-  if (qualifying.length) return { walk: qualifying[qualifying.length - 1], qualifies: true };
-  return { walk: usable[usable.length - 1], qualifies: false };
+  const latest = qualifying[qualifying.length - 1];
+  if (latest) return { walk: latest, qualifies: true };
+  return { walk: usable[usable.length - 1] ?? null, qualifies: false };
 }
 
 const SHORT_MONTHS = ['Jan', 'Feb', 'Mar', 'Apr', 'May', 'Jun', 'Jul', 'Aug', 'Sep', 'Oct', 'Nov', 'Dec'];
@@ -231,7 +232,7 @@ const SHORT_MONTHS = ['Jan', 'Feb', 'Mar', 'Apr', 'May', 'Jun', 'Jul', 'Aug', 'S
 function noEstimateMessage(walks: ApprovedWalkInput[], seededOn: string, crop: string): string | null {
   const bare = walks.filter((w) => !w.estimate && w.walkedOn >= seededOn);
   if (!bare.length) return null;
-  const [, m, d] = bare[bare.length - 1].walkedOn.split('-').map(Number);
+  const [, m = 0, d] = bare[bare.length - 1]!.walkedOn.split('-').map(Number);
   return `The approved walk of ${d} ${SHORT_MONTHS[m - 1]} has no estimate: no calibration is assigned for ${((CROP_LABELS as Record<string, string>)[crop] ?? crop).toLowerCase()}.`;
 }
 

@@ -8,7 +8,7 @@ export const FORM_NAME_OF: Record<string, string> = { areaHa: 'area', seedingRat
 export function renameErrors(fields: Record<string, string> | undefined): Record<string, string> {
   const out: Record<string, string> = {};
   for (const [k, v] of Object.entries(fields ?? {})) {
-    const top = k.split('.')[0];
+    const top = k.split('.')[0]!;
     out[FORM_NAME_OF[top] ?? top] ??= v;
   }
   return out;

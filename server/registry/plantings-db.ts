@@ -142,6 +142,6 @@ export async function varietySuggestions(db: Knex, organisationId: string): Prom
 }
 
 export async function listCrops(db: Knex): Promise<{ code: string; label: string; cropClass: string }[]> {
-  const rows = await db('crops').orderBy('sort_order');
-  return rows.map((r: Record<string, string>) => ({ code: r.code, label: r.label, cropClass: r.crop_class }));
+  const rows: { code: string; label: string; crop_class: string }[] = await db('crops').orderBy('sort_order');
+  return rows.map((r) => ({ code: r.code, label: r.label, cropClass: r.crop_class }));
 }

@@ -23,8 +23,17 @@ export async function finishRun(db: Knex, job: string, day: string, summary: unk
   await db('job_runs').where({ job, run_on: day }).update({ finished_at: new Date().toISOString(), summary: JSON.stringify(summary) });
 }
 
+export interface EndingPlanting {
+  id: string;
+  organisation_id: string;
+  crop: string;
+  planned_termination_on: string;
+  field_name: string;
+  ranch_name: string;
+}
+
 /** Plantings not yet terminated whose planned termination falls between the two dates, with no approved walk. */
-export async function plantingsEndingWithoutApprovedWalk(db: Knex, from: string, until: string): Promise<Record<string, string>[]> {
+export async function plantingsEndingWithoutApprovedWalk(db: Knex, from: string, until: string): Promise<EndingPlanting[]> {
   return db('plantings')
     .join('fields', 'fields.id', 'plantings.field_id')
     .join('ranches', 'ranches.id', 'fields.ranch_id')
@@ -39,7 +48,7 @@ export async function plantingsEndingWithoutApprovedWalk(db: Knex, from: string,
 }
 
 /** Active users who may be asked to walk plantings and can sign in. */
-export async function activeAssignees(db: Knex): Promise<Record<string, string>[]> {
+export async function activeAssignees(db: Knex): Promise<{ id: string; organisation_id: string; name: string; email: string }[]> {
   return db('users').whereIn('role', rolesAllowed('walks.assignee')).where({ active: true }).whereNotNull('password_hash').select('id', 'organisation_id', 'name', 'email');
 }
 

@@ -57,7 +57,7 @@ export function rulesPages(ctx: AppContext): Router {
       effectiveFrom: todayIso(),
       notes: '',
     });
-    res.status(status).render('admin/rules', { title: 'Credit rule', current, versions, values: values ?? asForm(current), errors, crops: CROPS, kgPerHaToLbPerAc, bases: DECISION_BASES, basisWords: DECISION_BASIS_WORDS.en, basisNames: Object.fromEntries(Object.entries(DECISION_BASIS_NAMES.en).map(([k, v]) => [k, v[0].toUpperCase() + v.slice(1)])), mToFt });
+    res.status(status).render('admin/rules', { title: 'Credit rule', current, versions, values: values ?? asForm(current), errors, crops: CROPS, kgPerHaToLbPerAc, bases: DECISION_BASES, basisWords: DECISION_BASIS_WORDS.en, basisNames: Object.fromEntries(Object.entries(DECISION_BASIS_NAMES.en).map(([k, v]) => [k, v[0]!.toUpperCase() + v.slice(1)])), mToFt });
   };
 
   router.get('/admin/rules', (req, res) => show(req, 200, res));

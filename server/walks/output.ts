@@ -5,6 +5,7 @@ import { cmToIn, kgPerHaToLbPerAc } from '../../shared/calc/units';
 import { escapeXml, niceTicks, tickLabel } from '../../shared/charts/svg';
 import type { Boundary } from '../../shared/registry/boundary';
 import { boundaryOutline } from '../../shared/registry/outline';
+import { lonLatOf } from '../../shared/geo/plane';
 import { biomass, length } from '../../shared/format';
 import { WALK_FLAG_LABELS, walkFlags, type WalkFlag } from '../../shared/registry/walk-flags';
 import { type Walk } from '../../shared/schemas/walks';
@@ -294,8 +295,9 @@ export function mapSketchSvg(spec: MapSketchSpec): string {
   // North arrow.
   out.push(`<g aria-hidden="true"><path d="M${W - 22} 14l6 14h-12z" fill="${INK}"/><text x="${W - 22}" y="42" text-anchor="middle" font-weight="700" fill="${INK}">N</text></g>`);
   // Scale bar from the projection: pixels per metre along the middle latitude.
-  const lat0 = (Math.min(...lats, ...fieldPolys.flat(2).map((c) => c[1])) + Math.max(...lats, ...fieldPolys.flat(2).map((c) => c[1]))) / 2;
-  const lon0 = lons[0];
+  const fieldLats = fieldPolys.flat(2).map((c) => lonLatOf(c)[1]);
+  const lat0 = (Math.min(...lats, ...fieldLats) + Math.max(...lats, ...fieldLats)) / 2;
+  const lon0 = lons[0] ?? NaN; // no stops: no scale bar (checked below)
   const dLon = 0.001;
   const pxPerM = Math.abs(outline.project(lon0 + dLon, lat0)[0] - outline.project(lon0, lat0)[0]) / (dLon * M_PER_DEG_LAT * Math.cos((lat0 * Math.PI) / 180));
   if (Number.isFinite(pxPerM) && pxPerM > 0 && pxPerM < 50) {

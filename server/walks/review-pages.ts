@@ -130,7 +130,7 @@ export function walkReviewPages(ctx: AppContext): Router {
     const raw = String(req.body?.tissueN ?? '').trim();
     const parsed = parseForm(tissueNSchema, { percent: raw === '' ? null : Number(raw) });
     if (!parsed.ok) {
-      return res.status(400).render('walks/show', await detailView(req, res, { errors: { tissueN: parsed.errors.percent ?? Object.values(parsed.errors)[0] }, values: { tissueN: raw } }));
+      return res.status(400).render('walks/show', await detailView(req, res, { errors: { tissueN: parsed.errors.percent ?? Object.values(parsed.errors)[0] ?? '' }, values: { tissueN: raw } }));
     }
     await service.getWalkFor(db, contextOf(req), walkId); // 404 for another organisation's walk
     await setTissueN(db, contextOf(req), walkId, parsed.value.percent);

@@ -65,8 +65,8 @@ export interface WalkLeg {
   /** 1-based, in walking order. */
   index: number;
   /** [lng, lat]; null when planned from the acreage alone. */
-  start: Position | null;
-  end: Position | null;
+  start: [number, number] | null;
+  end: [number, number] | null;
   lengthM: number;
   /** Walkable area this leg stands for: its stops are in proportion to it. */
   areaHa: number;
@@ -118,8 +118,8 @@ export interface WalkPlan {
   edgeMarginM: number;
   edgeMarginAskedM: number;
   /** Start of the first leg and end of the last, [lng, lat]; null without a boundary. */
-  start: Position | null;
-  end: Position | null;
+  start: [number, number] | null;
+  end: [number, number] | null;
   legs: WalkLeg[];
   stops: WalkStop[];
   areaHa: number;

@@ -142,8 +142,8 @@ export function autoMapping(headers: readonly string[], units: 'us' | 'metric'):
       }
     }
   }
-  const areaHint = columns.area === null ? null : areaUnitHint(headers[columns.area]);
-  const rateHint = columns.seeding_rate === null ? null : rateUnitHint(headers[columns.seeding_rate]);
+  const areaHint = columns.area === null ? null : areaUnitHint(headers[columns.area]!);
+  const rateHint = columns.seeding_rate === null ? null : rateUnitHint(headers[columns.seeding_rate]!);
   return {
     columns,
     areaUnit: areaHint ?? (units === 'metric' ? 'ha' : 'ac'),

@@ -58,11 +58,11 @@ export function parseCsv(buffer: Uint8Array): ParsedCsv {
     throw new ImportFileError(`The file cannot be read${where}: ${why}.`);
   }
   if (!records.length) throw new ImportFileError('The file is empty.');
-  const headers = records[0].record.map((h) => h.trim());
+  const headers = records[0]!.record.map((h) => h.trim());
   if (!headers.some(Boolean)) throw new ImportFileError('The first line should name the columns, but it is empty.');
   const rows: CsvRecord[] = [];
   for (let i = 1; i < records.length; i++) {
-    const { record, info } = records[i];
+    const { record, info } = records[i]!;
     if (record.every((c) => c.trim() === '')) continue;
     rows.push({ line: info.lines - countNewlines(record), cells: record });
   }

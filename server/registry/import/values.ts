@@ -48,7 +48,7 @@ export function parseDate(raw: string): { ok: true; value: string } | { ok: fals
 export function parseSeason(raw: string): string | null {
   const s = raw.trim().replace(/[\u2010-\u2015/]/g, '-');
   const long = /^(\d{4})-(\d{4})$/.exec(s);
-  const season = long && Number(long[2]) === Number(long[1]) + 1 ? `${long[1]}-${long[2].slice(2)}` : s;
+  const season = long && Number(long[2]) === Number(long[1]) + 1 ? `${long[1]}-${long[2]!.slice(2)}` : s;
   return isSeason(season) ? season : null;
 }
 

@@ -56,7 +56,7 @@ export async function commitImport(
   onProgress({ phase: 'checking', done: 0, total });
   const checker = createChecker({ mapping, delimiter: parsed.delimiter, snapshot: await loadSnapshot(db, org), crops });
   for (let i = 0; i < total; i++) {
-    checker.check(parsed.rows[i]);
+    checker.check(parsed.rows[i]!);
     if ((i + 1) % 500 === 0) {
       onProgress({ phase: 'checking', done: i + 1, total });
       await yieldToEventLoop();
