@@ -77,7 +77,7 @@ export function object<S extends Record<string, Check<unknown>>>(shape: S): Chec
     need(typeof v === 'object' && v !== null && !Array.isArray(v));
     const out: Record<string, unknown> = {};
     for (const key of Object.keys(shape)) {
-      const value = shape[key].run((v as Record<string, unknown>)[key]);
+      const value = shape[key]!.run((v as Record<string, unknown>)[key]);
       if (value !== undefined) out[key] = value; // an optional key left out stays out
     }
     return out as { [K in keyof S]: Infer<S[K]> };

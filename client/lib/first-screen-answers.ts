@@ -24,9 +24,9 @@ export const sessionAnswer = object({ user, csrfToken: string(1) });
 
 const position = refine(
   array(number, 2),
-  (p) => p.length <= 3 && p[0] >= -180 && p[0] <= 180 && p[1] >= -90 && p[1] <= 90,
+  (p) => p.length <= 3 && p[0]! >= -180 && p[0]! <= 180 && p[1]! >= -90 && p[1]! <= 90,
 );
-const ring = refine(array(position, 4), (r) => r.length <= 20_000 && r[0][0] === r[r.length - 1][0] && r[0][1] === r[r.length - 1][1]);
+const ring = refine(array(position, 4), (r) => r.length <= 20_000 && r[0]![0] === r[r.length - 1]![0] && r[0]![1] === r[r.length - 1]![1]);
 const polygon = array(ring, 1);
 const polygonShape = object({ type: oneOf(['Polygon']), coordinates: polygon });
 const multiPolygonShape = object({ type: oneOf(['MultiPolygon']), coordinates: array(polygon, 1) });

@@ -52,7 +52,7 @@ export function fromCm(cm: number, unit: LengthUnit): number {
 export function median(values: readonly number[]): number {
   const s = [...values].sort((a, b) => a - b);
   const m = s.length >> 1;
-  return s.length % 2 ? s[m] : (s[m - 1] + s[m]) / 2;
+  return s.length % 2 ? s[m]! : (s[m - 1]! + s[m]!) / 2;
 }
 
 /**

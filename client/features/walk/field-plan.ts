@@ -3,6 +3,7 @@ import { distance } from '@turf/distance';
 import type { MultiPolygon, Polygon } from 'geojson';
 import type { Boundary } from '../../../shared/registry/boundary';
 import { fieldWalkPlan, type WalkPlan } from '../../../shared/calc/walk-plan';
+import { lonLatOf } from '../../../shared/geo/plane';
 
 export interface PlanResult {
   plan: WalkPlan;
@@ -44,7 +45,7 @@ export function distanceToFieldM(result: PlanResult, here: { lat: number; lon: n
   if (result.shape) {
     if (booleanPointInPolygon([here.lon, here.lat], result.shape)) return 0;
     const parts = result.shape.type === 'Polygon' ? [result.shape.coordinates] : result.shape.coordinates;
-    for (const part of parts) for (const [lon, lat] of part[0]) points.push([lon, lat]);
+    for (const part of parts) for (const p of part[0] ?? []) points.push(lonLatOf(p));
   }
   for (const s of result.plan.stops) if (s.lat !== null && s.lng !== null) points.push([s.lng, s.lat]);
   if (points.length === 0) return null;

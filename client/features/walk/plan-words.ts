@@ -35,7 +35,7 @@ export type StopStep =
 export function stopSteps(plan: Pick<WalkPlan, 'stops'>): StopStep[] {
   return plan.stops.map((s, k) => {
     if (k === 0) return { kind: 'first', distanceM: s.legDistanceM };
-    const before = plan.stops[k - 1];
+    const before = plan.stops[k - 1]!;
     if (before.leg !== s.leg) return { kind: 'new_leg', leg: s.leg, distanceM: s.legDistanceM };
     return { kind: 'previous', prev: before.index, distanceM: s.distanceM - before.distanceM };
   });

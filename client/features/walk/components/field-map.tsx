@@ -32,12 +32,12 @@ export function FieldMap(props: {
     paths = outline.paths;
     project = outline.project;
     points = plan.stops.map((s) => project(s.lng ?? 0, s.lat ?? 0));
-    legs = plan.legs.map((g) => [project(g.start![0], g.start![1]), project(g.end![0], g.end![1])]);
-    crossings = plan.legs.flatMap((g, i) =>
-      i > 0 && g.transferInside && g.transferM > 0
-        ? [[project(plan.legs[i - 1].end![0], plan.legs[i - 1].end![1]), project(g.start![0], g.start![1])] as [[number, number], [number, number]]]
-        : [],
-    );
+    const at = (p: [number, number] | null) => project(...(p ?? [0, 0]));
+    legs = plan.legs.map((g) => [at(g.start), at(g.end)]);
+    crossings = plan.legs.flatMap((g, i) => {
+      const before = plan.legs[i - 1];
+      return before && g.transferInside && g.transferM > 0 ? [[at(before.end), at(g.start)] as [[number, number], [number, number]]] : [];
+    });
   } else {
     // Schematic square of the field's area: the line runs corner to corner, the margin in from each corner.
     const side = Math.min(W, H) - 2 * MARGIN;
@@ -54,15 +54,16 @@ export function FieldMap(props: {
     legs = [[at(0), at(plan.diagonalM)]];
     project = () => [-100, -100];
   }
-  const start = legs[0][0];
-  const [dx, dy] = [legs[0][1][0] - start[0], legs[0][1][1] - start[1]];
+  // A plan always has at least one leg (walkPlan lays one even on the smallest field).
+  const [start, firstEnd] = legs[0]!;
+  const [dx, dy] = [firstEnd[0] - start[0], firstEnd[1] - start[1]];
   const len = Math.hypot(dx, dy) || 1;
   const clamp = (v: number, lo: number, hi: number) => Math.min(hi, Math.max(lo, v));
   const startLabel: [number, number] = [clamp(start[0] - (dx / len) * 24, 22, W - 22), clamp(start[1] - (dy / len) * 18, 10, H - 10)];
 
   // Stop markers as big as the spacing allows (a long walk with many stops packs them close).
   let gap = Infinity;
-  for (let k = 1; k < points.length; k++) gap = Math.min(gap, Math.hypot(points[k][0] - points[k - 1][0], points[k][1] - points[k - 1][1]));
+  for (let k = 1; k < points.length; k++) gap = Math.min(gap, Math.hypot(points[k]![0] - points[k - 1]![0], points[k]![1] - points[k - 1]![1]));
   const r = Math.max(7, Math.min(13, gap / 2 - 0.5));
 
   // Drawn only where it really is on this drawing: off the drawing, no dot (never pinned to an edge).
