@@ -6,7 +6,7 @@ import { ApiError } from '../lib/api';
 import { PAGE_LOADED_AT, reconcilePreferences, sessionKeys, useSession } from '../features/session/api';
 import { SignOutButton } from '../features/session/components/sign-out-button';
 import { QueueBanner } from '../features/offline/components/queue-banner';
-import { loadOutbox, useQueueJobs } from '../features/offline';
+import { loadOutbox, useQueueJobs } from '../features/offline/public';
 import { todayKeys } from '../features/today/api';
 import { walkKeys } from '../features/submit/keys';
 import { Mark } from './mark';

@@ -1,15 +1,9 @@
 import { useMemo } from 'react';
 import { useQuery } from '@tanstack/react-query';
-import { calibrationsQuery, rulesQuery } from '../../lib/estimate-inputs';
-import { ruleSettings } from '../../lib/rule-settings';
-import { liveEstimate } from '../estimate/live';
+import { calibrationsQuery } from '../../lib/estimate-inputs';
+import { useRuleSettings } from '../../lib/use-rule-settings';
+import { liveEstimate } from '../estimate/public';
 import type { WalkDraft } from './drafts';
-
-/** The credit rule kept on the phone, with the demo decision settings filled in where it has none. */
-export function useRuleSettings() {
-  const rules = useQuery(rulesQuery);
-  return useMemo(() => (rules.data ? ruleSettings(rules.data) : undefined), [rules.data]);
-}
 
 /** The live estimate and verdict for a walk in progress, from the calibration and rule kept on the phone. */
 export function useLiveEstimate(draft: WalkDraft, lengthsCm: number[]) {

@@ -6,7 +6,7 @@ import { createQueue, type QueueJob, type QueueStorage, type QueueTransport } fr
 
 /**
  * The outbox in the browser: jobs in IndexedDB, sent through the API client, retried when the
- * signal returns. Loaded after the first screen has drawn (features/offline/index.ts) and by the
+ * signal returns. Loaded after the first screen has drawn (features/offline/public.ts) and by the
  * screens that send.
  */
 

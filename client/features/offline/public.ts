@@ -3,7 +3,7 @@ import type { Queue } from './queue';
 import type { QueueJob } from './jobs';
 
 /**
- * The outbox as the screens see it. The sending engine (outbox.ts) loads right after the first
+ * The outbox as the screens see it (what other features may use of offline/, with newJob). The sending engine (outbox.ts) loads right after the first
  * screen has drawn, so it is not part of the first screen's code; until then the outbox reads as
  * empty for a moment.
  */
@@ -57,3 +57,5 @@ export function useOnline(): boolean {
 }
 
 export type { QueueJob } from './jobs';
+
+export { newJob } from './queue';

@@ -1,7 +1,7 @@
 import type { ReactNode } from 'react';
 import { Link, Navigate } from 'react-router-dom';
 import { useTranslation } from '../../../lib/i18n';
-import { useQueueJobs } from '../../offline';
+import { useQueueJobs } from '../../offline/public';
 import type { WalkDraft } from '../drafts';
 import { useDraft } from '../use-draft';
 

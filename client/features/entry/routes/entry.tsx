@@ -3,12 +3,11 @@ import { useEffect, useMemo, useRef, useState } from 'react';
 import { Link, useNavigate, useParams } from 'react-router-dom';
 import { useTranslation } from '../../../lib/i18n';
 import { MAX_LENGTH_CM, MAX_PLANTS } from '../../../../shared/schemas/walks';
-import { useFormat } from '../../session/api';
+import { useFormat } from '../../session/public';
 import { usePosition } from '../../../lib/use-position';
-import { EstimatePanel } from '../../estimate/components/estimate-panel';
-import { EstimateSummary } from '../../estimate/components/estimate-summary';
+import { EstimatePanel, EstimateSummary } from '../../estimate/public';
 import type { WalkDraft } from '../drafts';
-import { acceptedLengthsCm, isSkipped, stopStates } from '../draft-review';
+import { acceptedLengthsCm, isSkipped, stopStates, type StopState } from '../draft-review';
 import { WithDraft, type UpdateDraft } from '../components/with-draft';
 import { useLiveEstimate } from '../use-live-estimate';
 import { fromCm, QUESTION_ABOVE_CM, type LengthCheck } from '../validation';
@@ -36,7 +35,8 @@ function Entry({ draft, update }: { draft: WalkDraft; update: UpdateDraft }) {
   const live = useLiveEstimate(draft, lengths);
 
   const stop = draft.current;
-  const state = states[stop - 1];
+  // A stored draft's current stop lies within its stops; if not, it reads as an empty stop.
+  const state: StopState = states[stop - 1] ?? { stop, text: '', check: { kind: 'empty' }, accepted: false };
   const text = draft.values[stop] ?? '';
   const unitLabel = t(`units.${draft.unit}`);
   const inUnit = (cm: number) => `${f.num(fromCm(cm, draft.unit), 1)} ${unitLabel}`;

@@ -2,14 +2,15 @@ import '../../../locales/screens';
 import { useMemo, useState } from 'react';
 import { Link, useNavigate, useParams } from 'react-router-dom';
 import { useTranslation } from '../../../lib/i18n';
-import { useFormat } from '../../session/api';
-import { loadOutbox } from '../../offline';
-import { newJob } from '../../offline/queue';
-import { EstimatePanel } from '../../estimate/components/estimate-panel';
+import { useFormat } from '../../session/public';
+import { loadOutbox } from '../../offline/public';
+import { newJob } from '../../offline/public';
+import { EstimatePanel } from '../../estimate/public';
 import { DEFAULT_STOPS, removeDraft, type WalkDraft } from '../drafts';
 import { acceptedLengthsCm, reviewDraft, stopStates } from '../draft-review';
 import { WithDraft, type UpdateDraft } from '../components/with-draft';
-import { useLiveEstimate, useRuleSettings } from '../use-live-estimate';
+import { useRuleSettings } from '../../../lib/use-rule-settings';
+import { useLiveEstimate } from '../use-live-estimate';
 import { STAGES } from '../stages';
 
 /** Check and send: the estimate, every plant, stage and notes, then into the outbox. */

@@ -1,5 +1,5 @@
 import { useTranslation } from '../../../lib/i18n';
-import { useFormat } from '../../session/api';
+import { useFormat } from '../../session/public';
 import type { QueueJob } from '../jobs';
 
 /** The outbox's walks one by one, under the banner's Details (features/offline/components/queue-banner.tsx). */

@@ -1,6 +1,6 @@
 import { lazy, Suspense, useEffect, useRef, useState } from 'react';
 import { useTranslation } from '../../../lib/i18n';
-import { loadOutbox, useOnline, useQueueJobs, useSendingId } from '../index';
+import { loadOutbox, useOnline, useQueueJobs, useSendingId } from '../public';
 import { summarise, type QueueJob } from '../jobs';
 
 // Shown only on a tap on Details: loaded then (precached for offline use), not with the first screen.

@@ -2,11 +2,9 @@ import '../../../locales/screens';
 import { Link, useParams } from 'react-router-dom';
 import { useQuery } from '@tanstack/react-query';
 import { useTranslation } from '../../../lib/i18n';
-import { useFormat } from '../../session/api';
-import { loadOutbox, useOnline, useQueueJobs, useSendingId } from '../../offline';
-import { EstimateFigures } from '../../estimate/components/estimate-panel';
-import { readerOf } from '../../estimate/components/estimate-summary';
-import { storedVerdictView } from '../../estimate/verdict-view';
+import { useFormat } from '../../session/public';
+import { loadOutbox, useOnline, useQueueJobs, useSendingId } from '../../offline/public';
+import { EstimateFigures, readerOf, storedVerdictView } from '../../estimate/public';
 import { walkQuery } from '../api';
 
 /** After "Send": waiting in the outbox, being sent, or the result the server stored. */

@@ -1,8 +1,8 @@
 import { Link } from 'react-router-dom';
 import { useTranslation } from '../../../lib/i18n';
 import type { TodayItem } from '../../../../shared/schemas/walks';
-import { useFormat } from '../../session/api';
-import type { WalkDraft } from '../../entry/drafts';
+import { useFormat } from '../../session/public';
+import type { WalkDraft } from '../../entry/public';
 
 export function PlantingCard({ item, draft, waiting = false }: { item: TodayItem; draft: WalkDraft | null; waiting?: boolean }) {
   const { t } = useTranslation();

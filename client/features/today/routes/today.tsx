@@ -1,19 +1,17 @@
-import { lazy, Suspense, useDeferredValue, useState } from 'react';
+import { Suspense, useDeferredValue, useState } from 'react';
 import { Link } from 'react-router-dom';
 import { useQuery } from '@tanstack/react-query';
 import { useTranslation } from '../../../lib/i18n';
 import type { TodayItem } from '../../../../shared/schemas/walks';
-import { useFormat, useUser } from '../../session/api';
-import { LanguageToggle } from '../../session/components/preferences';
-import { listDrafts } from '../../entry/draft-list';
+import { LanguageToggle, PreferencesPanel, useFormat, useUser } from '../../session/public';
+import { listDrafts } from '../../entry/public';
 import { calibrationsQuery, rulesQuery } from '../../../lib/estimate-inputs';
-import { useQueueJobs } from '../../offline';
+import { useQueueJobs } from '../../offline/public';
 import { todayQuery } from '../api';
 import { groupToday } from '../groups';
 import { PlantingCard } from '../components/planting-card';
 
 // Below the list, so it loads after the first screen has drawn (precached for offline use).
-const PreferencesPanel = lazy(() => import('../../session/components/preferences-panel'));
 
 /** Today's walks: the sampler's plantings, walks in progress, search, language and units. */
 export function TodayRoute() {

@@ -6,11 +6,10 @@ import { useTranslation } from '../../../lib/i18n';
 import type { TodayItem } from '../../../../shared/schemas/walks';
 import { localIsoDate } from '../../../lib/format';
 import { newWalkId } from '../../../lib/storage';
-import { useFormat, useUser } from '../../session/api';
-import { todayQuery } from '../../today/api';
-import { newDraft, saveDraft, DEFAULT_STOPS, type WalkDraft } from '../../entry/drafts';
-import { listDrafts } from '../../entry/draft-list';
-import { useRuleSettings } from '../../entry/use-live-estimate';
+import { useFormat, useUser } from '../../session/public';
+import { todayQuery } from '../../today/public';
+import { DEFAULT_STOPS, listDrafts, newDraft, saveDraft, type WalkDraft } from '../../entry/public';
+import { useRuleSettings } from '../../../lib/use-rule-settings';
 import { newWalkSeed, suggestStops } from '../../../../shared/calc/walk-plan';
 import { clearPendingSeed, pendingSeed, setPendingSeed } from '../plan-seed';
 import { planLines, stopSteps } from '../plan-words';
@@ -227,7 +226,7 @@ function Plan({ item, draft }: { item: TodayItem; draft: WalkDraft | null }) {
       <h2 className="mt-6 text-xl font-bold">{t('plan.stopsTitle')}</h2>
       <ol className="mt-2 divide-y-2 divide-loam-100 rounded-xl border-2 border-loam-200 bg-white">
         {plan.stops.map((s, k) => {
-          const step = steps[k];
+          const step = steps[k]!; // one step per stop
           const dist = { paces: f.num(step.distanceM / PACE_M), dist: f.distance(step.distanceM) };
           return (
             <li key={s.index} className="flex items-center gap-3 px-3 py-2">
