@@ -37,3 +37,5 @@ const transport: QueueTransport = {
 
 // Tried again when the signal may be back: see features/offline/resend.ts, started by the shell.
 export const outbox = createQueue({ storage, transport });
+
+export { newJob } from './queue';

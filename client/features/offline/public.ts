@@ -1,9 +1,9 @@
 import { useSyncExternalStore } from 'react';
-import type { Queue } from './queue';
+import type { Queue, newJob } from './queue';
 import type { QueueJob } from './jobs';
 
 /**
- * The outbox as the screens see it (what other features may use of offline/, with newJob). The sending engine (outbox.ts) loads right after the first
+ * The outbox as the screens see it (what other features may use of offline/). The sending engine (outbox.ts) loads right after the first
  * screen has drawn, so it is not part of the first screen's code; until then the outbox reads as
  * empty for a moment.
  */
@@ -58,4 +58,9 @@ export function useOnline(): boolean {
 
 export type { QueueJob } from './jobs';
 
-export { newJob } from './queue';
+/** Puts a finished walk in the outbox (saved there when this resolves); the engine loads first if it has not. */
+export async function enqueueWalk(input: Parameters<typeof newJob>[0]): Promise<void> {
+  const outbox = await loadOutbox();
+  const engine = await import('./outbox'); // already loaded by loadOutbox
+  await outbox.enqueue(engine.newJob(input));
+}

@@ -3,8 +3,7 @@ import { useMemo, useState } from 'react';
 import { Link, useNavigate, useParams } from 'react-router-dom';
 import { useTranslation } from '../../../lib/i18n';
 import { useFormat } from '../../session/public';
-import { loadOutbox } from '../../offline/public';
-import { newJob } from '../../offline/public';
+import { enqueueWalk } from '../../offline/public';
 import { EstimatePanel } from '../../estimate/public';
 import { DEFAULT_STOPS, removeDraft, type WalkDraft } from '../drafts';
 import { acceptedLengthsCm, reviewDraft, stopStates } from '../draft-review';
@@ -43,16 +42,13 @@ function Finish({ draft, update }: { draft: WalkDraft; update: UpdateDraft }) {
       const photos = Object.entries(draft.photos)
         .map(([stop, p]) => ({ stop: Number(stop), key: p.key }))
         .filter((p) => review.body.plants.some((pl) => pl.stop === p.stop));
-      const outbox = await loadOutbox();
-      await outbox.enqueue(
-        newJob({
-          body: review.body,
-          userId: draft.userId,
-          photos,
-          label: { fieldName: draft.planting.fieldName, ranchName: draft.planting.ranchName },
-          now: Date.now(),
-        }),
-      );
+      await enqueueWalk({
+        body: review.body,
+        userId: draft.userId,
+        photos,
+        label: { fieldName: draft.planting.fieldName, ranchName: draft.planting.ranchName },
+        now: Date.now(),
+      });
       // The outbox has it (saved first); only now may the draft go.
       await removeDraft(draft.id);
       navigate(`/walks/${draft.id}/sent`, { replace: true });
