@@ -1,4 +1,5 @@
 import { randomUUID } from 'node:crypto';
+import http from 'node:http';
 import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest';
 import type { Knex } from 'knex';
 import { openDatabase } from '../../server/platform/database';
@@ -54,6 +55,30 @@ afterAll(async () => {
   await s3?.remove();
 }, 60_000);
 
+/**
+ * One request on a connection of its own (node:http, no keep-alive), answered as a fetch Response:
+ * a pooled connection the server closes while idle would fail the next request with ECONNRESET,
+ * which the walk clients below must be able to read as "the server died".
+ */
+async function send(url: string, init: { method?: string; headers?: Record<string, string>; body?: Buffer } = {}): Promise<Response> {
+  return new Promise((resolve, reject) => {
+    const req = http.request(url, { method: init.method ?? 'GET', headers: init.headers, agent: false, timeout: 20_000 }, (res) => {
+      const chunks: Buffer[] = [];
+      res.on('data', (c: Buffer) => chunks.push(c));
+      res.on('error', reject);
+      res.on('end', () => {
+        const headers = new Headers();
+        for (const [k, v] of Object.entries(res.headers)) for (const one of Array.isArray(v) ? v : [v ?? '']) headers.append(k, one);
+        const status = res.statusCode ?? 0;
+        resolve(new Response(status === 204 || status === 304 ? null : Buffer.concat(chunks), { status, headers }));
+      });
+    });
+    req.on('timeout', () => req.destroy(new Error(`${url}: no answer within 20 s`)));
+    req.on('error', reject);
+    req.end(init.body);
+  });
+}
+
 /** A browser-like client: one cookie jar and the CSRF token, whichever server it talks to. */
 class Client {
   cookie = '';
@@ -62,13 +87,16 @@ class Client {
     const headers: Record<string, string> = { accept: 'application/json' };
     if (this.cookie) headers.cookie = this.cookie;
     if (method !== 'GET') headers['x-csrf-token'] = this.csrf;
-    let payload: BodyInit | undefined;
-    if (body instanceof FormData) payload = body;
-    else if (body !== undefined) {
+    let payload: Buffer | undefined;
+    if (body instanceof FormData) {
+      const encoded = new Response(body); // multipart with its boundary
+      headers['content-type'] = encoded.headers.get('content-type')!;
+      payload = Buffer.from(await encoded.arrayBuffer());
+    } else if (body !== undefined) {
       headers['content-type'] = 'application/json';
-      payload = JSON.stringify(body);
+      payload = Buffer.from(JSON.stringify(body));
     }
-    const res = await fetch(`${server.url}${path}`, { method, headers, body: payload, signal: AbortSignal.timeout(20_000) });
+    const res = await send(`${server.url}${path}`, { method, headers, body: payload });
     const set = res.headers.getSetCookie().map((c) => c.split(';')[0]);
     if (set.length) this.cookie = set.join('; ');
     return res;
@@ -97,7 +125,7 @@ const walkBody = (id: string, plantingId: string) => ({
 describe('two servers, one database, one file store', () => {
   it('both say they are ready, with the database and the file store', async () => {
     for (const server of [a, b]) {
-      const ready = await fetch(`${server.url}/readyz`);
+      const ready = await send(`${server.url}/readyz`);
       expect(await ready.json()).toEqual({ ok: true, checks: { database: 'ok', storage: 'ok' } });
       expect(server.output()).toContain(`Files: S3-compatible store, ${s3.endpoint}/${s3.bucket}/`);
     }
@@ -137,7 +165,7 @@ describe('two servers, one database, one file store', () => {
     expect(down.headers.get('cache-control')).toBe('no-store');
     expect(Buffer.from(await down.arrayBuffer()).equals(TINY_PNG)).toBe(true);
     // Not public: without the session, and for another organisation, there is nothing there.
-    expect((await fetch(`${b.url}${photo.url}`)).status).toBe(401);
+    expect((await send(`${b.url}${photo.url}`)).status).toBe(401);
     const other = new Client();
     expect((await other.signIn(b, 'clerk@quillwater.test')).status).toBe(200);
     expect((await other.send(b, 'GET', photo.url)).status).toBe(404);
@@ -228,6 +256,6 @@ describe('two servers, one database, one file store', () => {
     const plants = await db('walk_plants').whereIn('walk_id', ids).count({ n: '*' }).first();
     expect(Number(plants!.n)).toBe(ids.length * 3);
     // B still answers after its peer died, and says it is ready.
-    expect((await fetch(`${b.url}/readyz`)).status).toBe(200);
+    expect((await send(`${b.url}/readyz`)).status).toBe(200);
   }, 240_000);
 });
