@@ -1,9 +1,9 @@
 import { readFileSync } from 'node:fs';
-import { dirname, join } from 'node:path';
-import { fileURLToPath } from 'node:url';
+import { join } from 'node:path';
 import type { Knex } from 'knex';
 import { fitCalibration, type ModelKind } from '../shared/calc';
 import { checkCalibrationCsv } from '../server/calibrations/import';
+import { PROJECT_ROOT } from '../server/platform/project-root';
 import { DEMO_ORGANISATIONS, DEMO_USERS } from './demo-people';
 
 /*
@@ -13,7 +13,7 @@ import { DEMO_ORGANISATIONS, DEMO_USERS } from './demo-people';
  * as demo data everywhere they show. Fixed ids, so running the seed twice changes nothing.
  */
 
-const DATA = join(dirname(fileURLToPath(import.meta.url)), 'data');
+const DATA = join(PROJECT_ROOT, 'seeds', 'data'); // from the sources or the built server alike
 export const DEMO_CALIBRATION_LABEL = 'Demo data — not for real credits';
 
 interface DemoCalibration {

@@ -19,6 +19,7 @@ import { captureApp } from './platform/capture-app';
 import { compressDynamic, staticAssets } from './platform/compress';
 import { requestLog } from './platform/request-log';
 import { readCache } from './platform/read-cache';
+import { PROJECT_ROOT } from './platform/project-root';
 import { healthRoutes, type Lifecycle } from './platform/health';
 import type { ObjectStore } from './platform/object-store';
 import { openObjectStore } from './platform/open-object-store';
@@ -60,7 +61,7 @@ export function createApp(deps: AppDeps): Express {
   const app = express();
   app.set('trust proxy', config.TRUST_PROXY);
   app.set('view engine', 'ejs');
-  app.set('views', path.resolve('views'));
+  app.set('views', path.join(PROJECT_ROOT, 'views'));
   app.disable('x-powered-by');
   // Every answer of the app is no-store (server/platform/security.ts): a browser keeps nothing to
   // revalidate, so hashing each body for an ETag is work for nothing.

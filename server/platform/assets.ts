@@ -1,7 +1,8 @@
 import fs from 'node:fs';
 import path from 'node:path';
+import { PROJECT_ROOT } from './project-root';
 
-export const CLIENT_DIST = path.resolve('client/dist');
+export const CLIENT_DIST = path.join(PROJECT_ROOT, 'client', 'dist');
 const MANIFEST = path.join(CLIENT_DIST, '.vite/manifest.json');
 
 export interface OfficeAssets {

@@ -4,6 +4,7 @@ import { Router, type Request, type Response } from 'express';
 import type { ViteDevServer } from 'vite';
 import { can } from './permissions';
 import { CLIENT_DIST } from './assets';
+import { PROJECT_ROOT } from './project-root';
 import { loadBuilt, sendBuilt } from './compress';
 
 /**
@@ -25,7 +26,7 @@ export function captureApp(vite?: ViteDevServer): Router {
   const serve = async (req: Request, res: Response) => {
     res.type('html'); // no-store, as every signed-in answer (server/platform/security.ts)
     if (vite) {
-      const source = fs.readFileSync(path.resolve('client/index.html'), 'utf8');
+      const source = fs.readFileSync(path.join(PROJECT_ROOT, 'client', 'index.html'), 'utf8');
       res.send(await vite.transformIndexHtml(req.originalUrl, source));
       return;
     }
