@@ -255,16 +255,21 @@ export function shrinkConvex(ring: XY[], margin: number): XY[] {
   return poly.length >= 3 && ringArea(poly) > 0 ? poly : [];
 }
 
-/** True for a single ring whose turns all go the same way (collinear corners allowed). */
-export function isConvexRing(ring: XY[]): boolean {
-  let sign = 0;
+/** Each corner b of a ring (a → b → c): its turn (cross product, positive to the left) and |ab|·|bc|. */
+function* cornerTurns(ring: XY[]): Generator<{ cross: number; scale: number }> {
   const k = ring.length;
   for (let i = 0; i < k; i++) {
     const a = ring[i]!;
     const b = ring[(i + 1) % k]!;
     const c = ring[(i + 2) % k]!;
-    const cross = (b[0] - a[0]) * (c[1] - b[1]) - (b[1] - a[1]) * (c[0] - b[0]);
-    const scale = dist(a, b) * dist(b, c);
+    yield { cross: (b[0] - a[0]) * (c[1] - b[1]) - (b[1] - a[1]) * (c[0] - b[0]), scale: dist(a, b) * dist(b, c) };
+  }
+}
+
+/** True for a single ring whose turns all go the same way (collinear corners allowed). */
+export function isConvexRing(ring: XY[]): boolean {
+  let sign = 0;
+  for (const { cross, scale } of cornerTurns(ring)) {
     if (Math.abs(cross) <= 1e-9 * scale) continue;
     const s = Math.sign(cross);
     if (sign === 0) sign = s;
@@ -276,14 +281,7 @@ export function isConvexRing(ring: XY[]): boolean {
 /** Number of reflex (inward-pointing) corners of a counter-clockwise ring. */
 export function reflexCorners(ring: XY[]): number {
   let n = 0;
-  const k = ring.length;
-  for (let i = 0; i < k; i++) {
-    const a = ring[i]!;
-    const b = ring[(i + 1) % k]!;
-    const c = ring[(i + 2) % k]!;
-    const cross = (b[0] - a[0]) * (c[1] - b[1]) - (b[1] - a[1]) * (c[0] - b[0]);
-    if (cross < -1e-9 * dist(a, b) * dist(b, c)) n++;
-  }
+  for (const { cross, scale } of cornerTurns(ring)) if (cross < -1e-9 * scale) n++;
   return n;
 }
 
