@@ -3,7 +3,7 @@ import type { Knex } from 'knex';
 import type { Logger } from 'pino';
 import { HttpError } from '../platform/errors';
 import type { Units } from '../people/public';
-import { approvedWalksFor, countFields, fieldsWithPlanting, registerRanches } from './inputs-db';
+import { approvedWalksFor, countFields, registerRanches } from './inputs-db';
 import { getRegister, latestRegistersOfYear } from './db';
 import { creditRuleForYear } from '../rules/public';
 import { asDraft, asFinal, registerUnits, type RegisterDoc } from './format';
@@ -12,6 +12,7 @@ import {
   assembleRegister,
   parseStored,
   projectionDateOf,
+  registerInputs,
   registerRow,
   ruleOfRegister,
   seasonOfYear,
@@ -105,6 +106,9 @@ export function createRegisterJobs(opts: RegisterJobsOptions) {
     const ranches = await registerRanches(db, orgId);
     const finals = await latestRegistersOfYear(db, orgId, job.year);
     const projectionDate = projectionDateOf(job.year, today);
+    // Drafts read the registry as it stood at each ranch's cut-off (registry-as-of.ts).
+    const drafts = ranches.filter((r) => !finals.has(r.id));
+    const inputs = new Map((await registerInputs(db, orgId, job.year, drafts, {}, drafts.length === ranches.length)).map((i) => [i.ranch.id, i]));
     const docs: RegisterDoc[] = [];
     for (const ranch of ranches) {
       const fin = finals.get(ranch.id);
@@ -115,7 +119,7 @@ export function createRegisterJobs(opts: RegisterJobsOptions) {
         job.fieldsComputed += doc.rows.length;
         continue;
       }
-      const fields = await fieldsWithPlanting(db, orgId, { season, ranchIds: [ranch.id] });
+      const { ranch: asOfRanch, fields } = inputs.get(ranch.id)!;
       const walks = walksByPlanting(await approvedWalksFor(db, orgId, fields.flatMap((f) => (f.plantingId ? [f.plantingId] : []))));
       const rows: RegisterRow[] = [];
       for (let i = 0; i < fields.length; i += chunk) {
@@ -125,7 +129,7 @@ export function createRegisterJobs(opts: RegisterJobsOptions) {
         }
         await yieldToLoop();
       }
-      docs.push(asDraft(assembleRegister(orgId, ranch, job.year, rule, today, rows)));
+      docs.push(asDraft(assembleRegister(orgId, asOfRanch, job.year, rule, today, rows)));
     }
     job.fieldsTotal = Math.max(job.fieldsTotal, job.fieldsComputed);
 

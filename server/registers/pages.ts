@@ -6,6 +6,7 @@ import { can } from '../platform/permissions';
 import { HttpError } from '../platform/errors';
 import { getRegister, latestRegister, listRegisterVersions } from './service';
 import { diffRegisters } from './diff';
+import { endOfYear } from './registry-as-of';
 import { keyringOf } from './signing';
 import { organisationSummary } from './summary';
 import { registerRanches } from './service';
@@ -204,10 +205,15 @@ export function registerPages(ctx: AppContext): Router {
   const showDraft = async (req: Request, res: Response, status = 200, errors: Record<string, string> = {}) => {
     const orgId = contextOf(req).organisationId;
     const year = parseYear(String(req.params.year));
-    const draft = await computeRegister(ctx.db, orgId, String(req.params.ranchId), year, todayIso());
+    // Past years read the registry as it stood at their cut-off; `registry=today` is an amendment made on purpose.
+    const registry = (req.method === 'POST' ? req.body?.registry : req.query.registry) === 'today' ? 'today' : 'cutoff';
+    const draft = await computeRegister(ctx.db, orgId, String(req.params.ranchId), year, todayIso(), { registry });
     if (!draft) throw new HttpError('not_found');
     const latest = await latestRegister(ctx.db, orgId, draft.ranch.id, year);
     const latestFinal = latest ? parseStored(latest) : null;
+    // Without a version to compare with, today's registry is compared with the registry at the cut-off.
+    const atCutoff = registry === 'today' && !latestFinal ? await computeRegister(ctx.db, orgId, draft.ranch.id, year, todayIso()) : null;
+    const cutoffDraft = registry === 'cutoff' ? draft : atCutoff;
     const versions = await listRegisterVersions(ctx.db, orgId, draft.ranch.id, year);
     res.status(status).render('registers/draft', {
       title: `Credit register ${draft.ranch.name} ${year} (draft)`,
@@ -215,6 +221,10 @@ export function registerPages(ctx: AppContext): Router {
       versions,
       latest: latestFinal ? { id: latestFinal.id, version: latestFinal.version } : null,
       diff: latestFinal ? diffRegisters(latestFinal, draft) : null,
+      registry,
+      // The cut-off in effect (null while the year is open and nothing is finalised: the registry is read live).
+      registryAsOf: cutoffDraft && (latestFinal || new Date().toISOString() > endOfYear(year)) ? cutoffDraft.registryAsOf ?? null : null,
+      registryDiff: atCutoff && atCutoff.registryAsOf !== draft.registryAsOf ? diffRegisters(atCutoff, draft) : null,
       errors,
       rf: registerUnits(contextOf(req).units),
       cautions: CAUTIONS,
@@ -232,7 +242,8 @@ export function registerPages(ctx: AppContext): Router {
       return showDraft(req, res, 400, { confirm: 'Tick the box to confirm that the rows are checked; a finalised register cannot be changed.' });
     }
     try {
-      const final = await finaliseRegister(ctx.db, contextOf(req).organisationId, ranchId, year, contextOf(req).user, todayIso(), keyring);
+      const registry = req.body?.registry === 'today' ? 'today' : 'cutoff';
+      const final = await finaliseRegister(ctx.db, contextOf(req).organisationId, ranchId, year, contextOf(req).user, todayIso(), keyring, undefined, registry);
       req.session.flash = {
         kind: 'info',
         text: final.version === 1 ? `Register finalised as version 1.` : `Amendment finalised as version ${final.version}; the changes from version ${final.version - 1} are listed below.`,

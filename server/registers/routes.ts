@@ -27,11 +27,14 @@ const ranchId = z.string({ message: 'Choose a ranch.' }).trim().min(1, 'Choose a
 const YEAR_MESSAGES = ['Give the reporting year, e.g. 2027.', `The year must be ${MIN_YEAR} or later.`, `The year must be ${MAX_YEAR} or earlier.`] as const;
 const year = z.coerce.number({ message: YEAR_MESSAGES[0] }).int(YEAR_MESSAGES[0]).min(MIN_YEAR, YEAR_MESSAGES[1]).max(MAX_YEAR, YEAR_MESSAGES[2]);
 
-const registerQuery = z.object({ ranchId, year, draft: z.enum(['1', 'true', '0', 'false', '']).optional() });
+/** `registry=today`: the rows from the registry as it is now instead of at the year's cut-off (an amendment on purpose). */
+const registryChoice = z.enum(['cutoff', 'today'], { message: 'Choose cutoff or today.' }).optional();
+const registerQuery = z.object({ ranchId, year, draft: z.enum(['1', 'true', '0', 'false', '']).optional(), registry: registryChoice });
 const versionsQuery = z.object({ ranchId, year });
 const finaliseBody = z.object({
   ranchId,
   year: z.number({ message: YEAR_MESSAGES[0] }).int(YEAR_MESSAGES[0]).min(MIN_YEAR, YEAR_MESSAGES[1]).max(MAX_YEAR, YEAR_MESSAGES[2]),
+  registry: registryChoice,
 });
 const paperQuery = z.object({ paper: z.enum(['a4', 'letter']).optional().catch(undefined) });
 
@@ -62,7 +65,7 @@ export function registersApi(ctx: AppContext): Router {
       res.json(await withDiff(ctx, orgId, parseStored(latest)));
       return;
     }
-    const draft = await computeRegister(ctx.db, orgId, q.ranchId, q.year, todayIso());
+    const draft = await computeRegister(ctx.db, orgId, q.ranchId, q.year, todayIso(), { registry: q.registry });
     if (!draft) throw new HttpError('not_found');
     res.json({ status: 'draft', ...draft });
   };
@@ -70,7 +73,7 @@ export function registersApi(ctx: AppContext): Router {
   const finalise = async (req: Request, res: Response) => {
     const body = req.body as z.infer<typeof finaliseBody>;
     const orgId = contextOf(req).organisationId;
-    const final = await finaliseRegister(ctx.db, orgId, body.ranchId, body.year, contextOf(req).user, todayIso(), keyring);
+    const final = await finaliseRegister(ctx.db, orgId, body.ranchId, body.year, contextOf(req).user, todayIso(), keyring, undefined, body.registry);
     res.status(201).json(await withDiff(ctx, orgId, final));
   };
 

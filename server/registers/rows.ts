@@ -126,6 +126,8 @@ export interface Register {
   totals: RegisterTotals;
   calibrations: { id: string; version: number | string }[];
   walkIds: string[];
+  /** The moment whose registry the rows read (server/registers/registry-as-of.ts); absent on versions finalised before it was kept. */
+  registryAsOf?: string;
 }
 
 /** What a finalised version stores and hashes: the register plus its version and who finalised it when. */

@@ -6,6 +6,8 @@ import {
   approvedWalksFor,
   fieldsWithPlanting,
   registerRanches,
+  type FieldWithPlanting,
+  type RegisterRanchInput,
 } from './inputs-db';
 import {
   getRegister,
@@ -16,6 +18,8 @@ import {
   type StoredRegister,
 } from './db';
 import { creditRuleForYear } from '../rules/public';
+import { registryChangesAfter } from '../registry/public';
+import { registryCutoff, rewindRegistry, type RegistryState } from './registry-as-of';
 
 /*
  * Credit registers (README, "Credit registers"). The register for reporting year Y covers the
@@ -26,26 +30,89 @@ import { creditRuleForYear } from '../rules/public';
 export * from './rows';
 import { assembleRegister, walksByPlanting, seasonOfYear, ruleOfRegister, projectionDateOf, registerRow, type RegisterRow, type FinalSnapshot, type FinalRegister, type Register } from './rows';
 
-/** Draft registers of several ranches (all of the organisation's when ranchIds is not given), computed now. */
-export async function computeRegisters(db: Knex, organisationId: string, year: number, today: string, ranchIds?: string[]): Promise<Register[]> {
-  const season = seasonOfYear(year);
-  const [ranches, rule, fields] = await Promise.all([
-    registerRanches(db, organisationId, ranchIds),
-    creditRuleForYear(db, organisationId, year).then(ruleOfRegister),
-    fieldsWithPlanting(db, organisationId, { season, ranchIds }),
-  ]);
-  const walks = walksByPlanting(await approvedWalksFor(db, organisationId, fields.flatMap((f) => (f.plantingId ? [f.plantingId] : []))));
-  const projectionDate = projectionDateOf(year, today);
-  const rowsByRanch = new Map<string, RegisterRow[]>(ranches.map((r) => [r.id, []]));
-  for (const f of fields) {
-    rowsByRanch.get(f.ranchId)?.push(registerRow(f, (f.plantingId && walks.get(f.plantingId)) || [], rule, projectionDate, season));
+export interface RegistryChoice {
+  /** 'cutoff' (the default): each ranch's registry as it stood at its cut-off (registry-as-of.ts); 'today': as it is now, for an amendment made on purpose. */
+  registry?: 'cutoff' | 'today';
+  /** The present moment as an ISO time (tests set it). */
+  now?: string;
+}
+
+/** Each ranch's registry cut-off for the year; a ranch without one reads the registry live. */
+async function cutoffsOf(db: Knex, organisationId: string, year: number, ranchIds: string[], now: string): Promise<Map<string, string>> {
+  const latest = await latestRegistersOfYear(db, organisationId, year);
+  const out = new Map<string, string>();
+  for (const id of ranchIds) {
+    const version = latest.get(id);
+    const final = version ? await getFinalRegister(db, organisationId, version.id) : undefined;
+    const cutoff = registryCutoff(year, final ? { registryAsOf: final.registryAsOf, finalisedAt: final.finalisedAt } : null, now);
+    if (cutoff) out.set(id, cutoff);
   }
-  return ranches.map((r) => assembleRegister(organisationId, r, year, rule, today, rowsByRanch.get(r.id)!));
+  return out;
+}
+
+export interface RegisterInput {
+  /** The ranch as it stood at the cut-off (its name may have changed since). */
+  ranch: RegisterRanchInput;
+  fields: FieldWithPlanting[];
+  registryAsOf: string;
+}
+
+/**
+ * What each ranch's register reads from the registry: its fields and their plantings of the season
+ * as they stood at the ranch's cut-off (registry-as-of.ts), or as they are now. `all` says that
+ * `ranches` are all of the organisation's, so one query without an id list reads them.
+ */
+export async function registerInputs(db: Knex, organisationId: string, year: number, ranches: RegisterRanchInput[], choice: RegistryChoice = {}, all = false): Promise<RegisterInput[]> {
+  const season = seasonOfYear(year);
+  const now = choice.now ?? new Date().toISOString();
+  const cutoffs = choice.registry === 'today' ? new Map<string, string>() : await cutoffsOf(db, organisationId, year, ranches.map((r) => r.id), now);
+  const asOf = new Map(cutoffs);
+  const earliest = [...cutoffs.values()].sort()[0];
+  const changes = earliest ? await registryChangesAfter(db, organisationId, earliest) : [];
+  // Nothing changed since the earliest cut-off: every ranch reads the registry as it is.
+  if (!changes.length) cutoffs.clear();
+  const ranchIds = cutoffs.size || all ? undefined : ranches.map((r) => r.id);
+  const fields = await fieldsWithPlanting(db, organisationId, { season, ranchIds });
+  const stateAt = new Map<string, RegistryState>();
+  if (cutoffs.size) {
+    const current = { ranches: await registerRanches(db, organisationId), fields };
+    for (const c of new Set(cutoffs.values())) stateAt.set(c, rewindRegistry(current, season, changes.filter((x) => x.at > c)));
+  }
+  const group = (list: FieldWithPlanting[]) => {
+    const out = new Map<string, FieldWithPlanting[]>();
+    for (const f of list) (out.get(f.ranchId) ?? out.set(f.ranchId, []).get(f.ranchId)!).push(f);
+    return out;
+  };
+  const live = group(fields);
+  const grouped = new Map([...stateAt].map(([c, state]) => [c, group(state.fields)]));
+  return ranches.map((r) => {
+    const cutoff = cutoffs.get(r.id);
+    const state = cutoff ? stateAt.get(cutoff) : undefined;
+    const own = (cutoff ? grouped.get(cutoff)!.get(r.id) : live.get(r.id)) ?? [];
+    return { ranch: state?.ranches.find((x) => x.id === r.id) ?? r, fields: own, registryAsOf: asOf.get(r.id) ?? now };
+  });
+}
+
+/**
+ * Draft registers of several ranches (all of the organisation's when ranchIds is not given),
+ * computed now from the approved walks and from the registry as it stood at each ranch's cut-off.
+ */
+export async function computeRegisters(db: Knex, organisationId: string, year: number, today: string, ranchIds?: string[], choice: RegistryChoice = {}): Promise<Register[]> {
+  const season = seasonOfYear(year);
+  const [ranches, rule] = await Promise.all([registerRanches(db, organisationId, ranchIds), creditRuleForYear(db, organisationId, year).then(ruleOfRegister)]);
+  const inputs = await registerInputs(db, organisationId, year, ranches, choice, !ranchIds);
+  const plantingIds = inputs.flatMap((i) => i.fields.flatMap((f) => (f.plantingId ? [f.plantingId] : [])));
+  const walks = walksByPlanting(await approvedWalksFor(db, organisationId, plantingIds));
+  const projectionDate = projectionDateOf(year, today);
+  return inputs.map(({ ranch, fields, registryAsOf }) => {
+    const rows = fields.map((f) => registerRow(f, (f.plantingId && walks.get(f.plantingId)) || [], rule, projectionDate, season));
+    return { ...assembleRegister(organisationId, ranch, year, rule, today, rows), registryAsOf };
+  });
 }
 
 /** The draft register of one ranch for a reporting year, computed now; undefined when the ranch is not the organisation's. */
-export async function computeRegister(db: Knex, organisationId: string, ranchId: string, year: number, today: string): Promise<Register | undefined> {
-  const [register] = await computeRegisters(db, organisationId, year, today, [ranchId]);
+export async function computeRegister(db: Knex, organisationId: string, ranchId: string, year: number, today: string, choice: RegistryChoice = {}): Promise<Register | undefined> {
+  const [register] = await computeRegisters(db, organisationId, year, today, [ranchId], choice);
   return register;
 }
 
@@ -106,10 +173,12 @@ export async function finaliseRegister(
   today: string,
   keyring: Keyring,
   now: () => string = () => new Date().toISOString(),
+  registry: RegistryChoice['registry'] = 'cutoff',
 ): Promise<FinalRegister> {
+  const at = now();
   try {
     return await db.transaction(async (trx) => {
-      const register = await computeRegister(trx, organisationId, ranchId, year, today);
+      const register = await computeRegister(trx, organisationId, ranchId, year, today, { registry, now: at });
       if (!register) throw new HttpError('not_found');
       const latest = await highestRegisterVersion(trx, organisationId, ranchId, year);
       if (latest) {
@@ -123,7 +192,7 @@ export async function finaliseRegister(
         version: (latest?.version ?? 0) + 1,
         previousId: latest?.id ?? null,
         finalisedBy: { id: actor.id, name: actor.name },
-        finalisedAt: now(),
+        finalisedAt: at,
       };
       const snapshotText = canonicalJson(snapshot);
       const contentHash = sha256Hex(snapshotText);

@@ -88,3 +88,28 @@ export async function historyAuthors(db: Knex, organisationId: string): Promise<
     .distinct({ id: 'user_id', name: 'user_name' })
     .orderBy('user_name');
 }
+
+export interface RegistryChange {
+  seq: number;
+  at: string;
+  entityType: EntityType;
+  entityId: string;
+  /** The record as it was before this change; null when the change created it. */
+  before: Record<string, unknown> | null;
+}
+
+/** Changes to ranches, fields and plantings made after `at` (an ISO time), newest first: what undoes the registry back to that moment. */
+export async function registryChangesAfter(db: Knex, organisationId: string, at: string): Promise<RegistryChange[]> {
+  const rows = await inOrganisation(db, 'change_history', organisationId)
+    .where('at', '>', at)
+    .whereIn('entity_type', ['ranch', 'field', 'planting'])
+    .orderBy('seq', 'desc')
+    .select('seq', 'at', 'entity_type', 'entity_id', 'before');
+  return rows.map((r: Record<string, unknown>) => ({
+    seq: Number(r.seq),
+    at: new Date(r.at as string | Date).toISOString(), // a string on SQLite, a Date on PostgreSQL
+    entityType: r.entity_type as EntityType,
+    entityId: r.entity_id as string,
+    before: r.before ? (JSON.parse(r.before as string) as Record<string, unknown>) : null,
+  }));
+}

@@ -2,3 +2,4 @@
 export { listCrops, getPlanting } from './plantings-db';
 export { getField } from './fields-db';
 export { ranchOptions } from './ranches-db';
+export { registryChangesAfter, type RegistryChange } from './history-db';
