@@ -19,6 +19,8 @@ declare global {
 declare module 'express-session' {
   interface SessionData {
     flash?: { kind: 'info' | 'error'; text: string };
+    /** A decline form refused on the field page: shown again beside its box after the redirect. */
+    declineForm?: { proposalId: string; reason: string; error: string };
   }
 }
 

@@ -17,6 +17,8 @@ export const PERMISSIONS = {
   'registry.read': ['admin', 'clerk', 'sampler', 'auditor'],
   /** Create and change ranches, fields and plantings; import registry CSV files. */
   'registry.write': ['admin', 'clerk'],
+  /** Send a boundary traced on the phone for the office to accept (clerks and admins accept with registry.write). */
+  'boundaries.propose': ['admin', 'clerk', 'sampler'],
   /** The registry's change history. */
   'history.read': ['admin', 'clerk', 'auditor'],
   /** Read walks: the office reads every walk, others only those they may see. */
