@@ -10,6 +10,7 @@ import { Shell } from './shell';
 // Declarative routes (not the data router) keep React Router's share of the first load small.
 const PlanRoute = lazy(() => import('../features/walk/routes/plan'));
 const GuideRoute = lazy(() => import('../features/walk/routes/guide'));
+const TraceRoute = lazy(() => import('../features/walk/routes/trace'));
 const EntryRoute = lazy(() => import('../features/entry/routes/entry'));
 const FinishRoute = lazy(() => import('../features/entry/routes/finish'));
 const SentRoute = lazy(() => import('../features/submit/routes/sent'));
@@ -21,6 +22,7 @@ export function App() {
         <Route element={<Shell />}>
           <Route index element={<TodayRoute />} />
           <Route path="plantings/:plantingId" element={<PlanRoute />} />
+          <Route path="plantings/:plantingId/trace" element={<TraceRoute />} />
           <Route path="guide" element={<GuideRoute />} />
           <Route path="walks/:walkId" element={<EntryRoute />} />
           <Route path="walks/:walkId/finish" element={<FinishRoute />} />
@@ -36,6 +38,7 @@ export function App() {
 export function preloadScreens() {
   void import('../features/walk/routes/plan');
   void import('../features/walk/routes/guide');
+  void import('../features/walk/routes/trace');
   void import('../features/entry/routes/entry');
   void import('../features/entry/routes/finish');
   void import('../features/submit/routes/sent');

@@ -16,6 +16,8 @@ export const cacheStore = lazyStore('crowntip-cache', 'queries');
 export const draftStore = lazyStore('crowntip-drafts', 'drafts');
 /** Compressed photos (Blobs), keyed `${walkId}:${stop}`, until their walk is sent. */
 export const photoStore = lazyStore('crowntip-photos', 'photos');
+/** Boundaries being traced, keyed `${userId}:${fieldId}`; written at every position kept. */
+export const traceStore = lazyStore('crowntip-traces', 'traces');
 /** The outbox of finished walks (features/offline). */
 export const queueStore = lazyStore('crowntip-queue', 'jobs');
 

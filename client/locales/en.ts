@@ -43,6 +43,7 @@ export const en = {
     offlineHint: 'Everything you enter is kept on this phone.',
   },
   queue: {
+    boundary: 'Traced boundary, {{points}} positions',
     waiting_one: '{{count}} walk waiting to send',
     waiting_other: '{{count}} walks waiting to send',
     offlineWaiting_one: 'No signal: {{count}} walk waiting to send',

@@ -40,6 +40,7 @@ export const es: Resources = {
     offlineHint: 'Todo lo que anotes se guarda en este teléfono.',
   },
   queue: {
+    boundary: 'Contorno recorrido, {{points}} posiciones',
     waiting_one: '{{count}} recorrido en espera de envío',
     waiting_other: '{{count}} recorridos en espera de envío',
     offlineWaiting_one: 'Sin señal: {{count}} recorrido en espera de envío',

@@ -4,12 +4,15 @@ import {
   classify,
   createQueue,
   DEFAULT_BACKOFF,
+  newBoundaryJob,
   newJob,
   summarise,
   type QueueJob,
+  type WalkJob,
   type QueueStorage,
   type QueueTransport,
 } from '../../client/features/offline/queue';
+import type { BoundaryProposalCreate } from '../../shared/schemas/boundary-proposals';
 import type { WalkCreate } from '../../shared/schemas/walks';
 
 /** An in-memory stand-in for the IndexedDB store; values are cloned as IndexedDB would. */
@@ -42,10 +45,21 @@ class HttpFail extends Error {
  */
 function fakeServer() {
   const walks = new Map<string, { json: string; submitted: boolean; photos: Map<number, number> }>();
-  const calls = { create: 0, photo: 0, submit: 0 };
+  const calls = { create: 0, photo: 0, submit: 0, propose: 0 };
+  const proposals = new Map<string, string>();
   return {
     walks,
     calls,
+    proposals,
+    /** Like POST /api/fields/:id/boundary-proposals: 201 new, 200 the same again, 409 other content. */
+    propose(fieldId: string, body: BoundaryProposalCreate) {
+      calls.propose++;
+      const json = JSON.stringify([fieldId, body]);
+      const existing = proposals.get(body.id);
+      if (existing && existing !== json) throw new HttpFail(409, 'conflict');
+      proposals.set(body.id, json);
+      return { status: existing ? 200 : 201 };
+    },
     create(body: WalkCreate) {
       calls.create++;
       const json = JSON.stringify(body);
@@ -86,6 +100,7 @@ function fakeNetwork(server: ReturnType<typeof fakeServer>, plan: Mode[] = []) {
     createWalk: (body) => through(() => server.create(body)),
     uploadPhoto: (id, photo) => through(() => server.photo(id, photo.stop)),
     submitWalk: (id) => through(() => server.submit(id)),
+    proposeBoundary: (fieldId, body) => through(() => server.propose(fieldId, body)),
   };
   return { transport, used: () => i };
 }
@@ -294,7 +309,7 @@ describe('what the queue will not do silently', () => {
     expect(conflicted.state).toBe('attention');
     expect(conflicted.attention).toBe('conflict');
     expect(conflicted.lastError?.status).toBe(409);
-    expect(conflicted.body.plants).toHaveLength(10); // the data is all still there
+    expect((conflicted as WalkJob).body.plants).toHaveLength(10); // the data is all still there
     expect(server.calls.create).toBe(2); // tried once, not hammered
     expect(storage.rows.get(uuid(2))!.state).toBe('done');
     expect(summarise(queue.snapshot())).toMatchObject({ attention: 1, done: 1, waiting: 0 });
@@ -312,6 +327,7 @@ describe('what the queue will not do silently', () => {
       },
       uploadPhoto: async (id, p) => server.photo(id, p.stop),
       submitWalk: async (id) => server.submit(id),
+      proposeBoundary: async (fieldId, b) => server.propose(fieldId, b),
     };
     const queue = createQueue({ storage: fakeStorage(), transport, ...clock });
     queue.setUser('u1');
@@ -370,6 +386,27 @@ describe('what the queue will not do silently', () => {
     expect(classify(new HttpFail(400, 'invalid'), 'create')).toBe('refused');
     expect(classify(new HttpFail(415, 'unsupported_type'), 'photos')).toBe('skip_photo');
     expect(classify(new HttpFail(404, 'not_found'), 'photos')).toBe('refused');
+  });
+
+  it('sends a traced boundary in one step: no signal, then a lost answer, then sent; the office gets one proposal', async () => {
+    const server = fakeServer();
+    const clock = fakeClock();
+    const net = fakeNetwork(server, ['down', 'lose-answer', 'ok']);
+    const storage = fakeStorage();
+    const queue = createQueue({ storage, transport: net.transport, ...clock, random: () => 0.5 });
+    queue.setUser('u1');
+    const body: BoundaryProposalCreate = {
+      id: uuid(7),
+      boundary: { type: 'Polygon', coordinates: [[[-134.9, 36.2], [-134.898, 36.2], [-134.898, 36.201], [-134.9, 36.2]]] },
+      pointsRecorded: 120,
+      medianAccuracyM: 4,
+    };
+    await queue.enqueue(newBoundaryJob({ fieldId: 'field-9', body, userId: 'u1', label: { fieldName: 'North', ranchName: 'Ranch' }, now: clock.now() }));
+    await settle(queue, clock);
+    expect(storage.rows.get(uuid(7))).toMatchObject({ kind: 'boundary', state: 'done', step: 'done' });
+    expect(server.calls.propose).toBe(2); // the first try never arrived; the second arrived, its answer was lost; the third answered 200
+    expect([...server.proposals.keys()]).toEqual([uuid(7)]);
+    expect(server.calls.create + server.calls.submit).toBe(0);
   });
 
   it('forgets sent walks after two weeks but never an unsent one', async () => {

@@ -1,3 +1,4 @@
+import type { BoundaryProposalCreate } from '../../../shared/schemas/boundary-proposals';
 import type { WalkCreate } from '../../../shared/schemas/walks';
 
 /**
@@ -23,14 +24,12 @@ export interface JobError {
   message: string;
 }
 
-export interface QueueJob {
-  /** The walk's client-made UUID. */
+interface JobBase {
+  /** The client-made UUID of the walk or traced boundary: the server's key, so a re-send never duplicates. */
   id: string;
   /** Only the person who made a walk sends it (the session decides who the walk belongs to). */
   userId: string;
   createdAt: number;
-  body: WalkCreate;
-  photos: JobPhoto[];
   /** For the list on the phone. */
   label: { fieldName: string; ranchName: string };
   step: JobStep;
@@ -42,6 +41,25 @@ export interface QueueJob {
   lastError: JobError | null;
   doneAt: number | null;
 }
+
+/** A field walk: create → photos → submit. Jobs stored before boundaries were traced have no `kind`. */
+export interface WalkJob extends JobBase {
+  kind?: 'walk';
+  body: WalkCreate;
+  photos: JobPhoto[];
+}
+
+/** A boundary traced on the phone, proposed for its field in one step. */
+export interface BoundaryJob extends JobBase {
+  kind: 'boundary';
+  fieldId: string;
+  body: BoundaryProposalCreate;
+  /** Always empty: a traced boundary has no photos. */
+  photos: JobPhoto[];
+}
+
+export type QueueJob = WalkJob | BoundaryJob;
+export const isWalkJob = (j: QueueJob): j is WalkJob => j.kind !== 'boundary';
 
 export interface QueueSummary {
   waiting: number;
@@ -59,4 +77,25 @@ export function summarise(jobs: readonly QueueJob[]): QueueSummary {
     else s.waiting++;
   }
   return s;
+}
+
+/** A traced boundary's job: one step, the proposal, idempotent on its client-made id. */
+export function newBoundaryJob(input: { fieldId: string; body: BoundaryProposalCreate; userId: string; label: QueueJob['label']; now: number }): BoundaryJob {
+  return {
+    kind: 'boundary',
+    id: input.body.id,
+    fieldId: input.fieldId,
+    userId: input.userId,
+    createdAt: input.now,
+    body: input.body,
+    photos: [],
+    label: input.label,
+    step: 'create',
+    state: 'waiting',
+    attempts: 0,
+    nextAttemptAt: input.now,
+    attention: null,
+    lastError: null,
+    doneAt: null,
+  };
 }

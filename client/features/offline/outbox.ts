@@ -32,6 +32,7 @@ const transport: QueueTransport = {
     return api.post(`/api/walks/${encodeURIComponent(walkId)}/photos`, anything, { ...quiet, body: form });
   },
   submitWalk: (walkId) => api.post(`/api/walks/${encodeURIComponent(walkId)}/submit`, anything, quiet),
+  proposeBoundary: (fieldId, body) => api.post(`/api/fields/${encodeURIComponent(fieldId)}/boundary-proposals`, anything, { ...quiet, body }),
   cleanUp: (job) => delMany(job.photos.map((p) => p.key), photoStore()),
 };
 

@@ -1,6 +1,6 @@
 import { useSyncExternalStore } from 'react';
 import type { Queue, newJob } from './queue';
-import type { QueueJob } from './jobs';
+import { newBoundaryJob, type QueueJob } from './jobs';
 
 /**
  * The outbox as the screens see it (what other features may use of offline/). The sending engine (outbox.ts) loads right after the first
@@ -56,11 +56,18 @@ export function useOnline(): boolean {
   return useSyncExternalStore(subscribeOnline, () => navigator.onLine, () => true);
 }
 
-export type { QueueJob } from './jobs';
+export type { QueueJob, WalkJob, BoundaryJob } from './jobs';
+export { isWalkJob } from './jobs';
 
 /** Puts a finished walk in the outbox (saved there when this resolves); the engine loads first if it has not. */
 export async function enqueueWalk(input: Parameters<typeof newJob>[0]): Promise<void> {
   const outbox = await loadOutbox();
   const engine = await import('./outbox'); // already loaded by loadOutbox
   await outbox.enqueue(engine.newJob(input));
+}
+
+/** Hands a traced boundary to the outbox: saved on the phone at once, sent when there is signal. */
+export async function sendBoundary(input: Parameters<typeof newBoundaryJob>[0]): Promise<void> {
+  const outbox = await loadOutbox();
+  await outbox.enqueue(newBoundaryJob(input));
 }

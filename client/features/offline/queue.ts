@@ -1,5 +1,6 @@
 import type { WalkCreate } from '../../../shared/schemas/walks';
-import type { AttentionKind, JobError, JobPhoto, JobStep, QueueJob } from './jobs';
+import type { BoundaryProposalCreate } from '../../../shared/schemas/boundary-proposals';
+import type { AttentionKind, JobError, JobPhoto, JobStep, QueueJob, WalkJob } from './jobs';
 
 export * from './jobs';
 
@@ -24,6 +25,8 @@ export interface QueueTransport {
   createWalk(body: WalkCreate): Promise<unknown>;
   uploadPhoto(walkId: string, photo: JobPhoto): Promise<unknown>;
   submitWalk(walkId: string): Promise<unknown>;
+  /** A traced boundary for the office (POST /api/fields/:id/boundary-proposals). */
+  proposeBoundary(fieldId: string, body: BoundaryProposalCreate): Promise<unknown>;
   /** After a job is done: drop its photos from the phone (optional). */
   cleanUp?(job: QueueJob): Promise<void>;
 }
@@ -88,7 +91,7 @@ export function newJob(input: {
   photos: Array<{ stop: number; key: string }>;
   label: QueueJob['label'];
   now: number;
-}): QueueJob {
+}): WalkJob {
   return {
     id: input.body.id,
     userId: input.userId,
@@ -172,7 +175,11 @@ export function createQueue(deps: QueueDeps) {
     try {
       while (job.step !== 'done') {
         try {
-          if (job.step === 'create') {
+          if (job.kind === 'boundary') {
+            await deps.transport.proposeBoundary(job.fieldId, job.body);
+            job = { ...job, step: 'done', state: 'done', attempts: 0, lastError: null, attention: null, doneAt: now() };
+            await save(job);
+          } else if (job.step === 'create') {
             await deps.transport.createWalk(job.body);
             job = { ...job, step: 'photos', attempts: 0, lastError: null, attention: null };
             await save(job);

@@ -1,6 +1,6 @@
 import { useTranslation } from '../../../lib/i18n';
 import { useFormat } from '../../session/public';
-import type { QueueJob } from '../jobs';
+import { isWalkJob, type QueueJob } from '../jobs';
 
 /** The outbox's walks one by one, under the banner's Details (features/offline/components/queue-banner.tsx). */
 export default function JobList({ jobs }: { jobs: QueueJob[] }) {
@@ -22,7 +22,9 @@ function JobLine({ job }: { job: QueueJob }) {
         {job.label.fieldName} · {job.label.ranchName}
       </p>
       <p>
-        {f.date(job.body.walkedOn)} · {t('queue.plants', { count: job.body.plants.length })}
+        {isWalkJob(job)
+          ? `${f.date(job.body.walkedOn)} · ${t('queue.plants', { count: job.body.plants.length })}`
+          : t('queue.boundary', { points: job.body.pointsRecorded })}
       </p>
       {job.attention === 'conflict' && <p className="mt-1 font-bold text-clay-700">{t('queue.conflict')}</p>}
       {job.attention === 'refused' && (

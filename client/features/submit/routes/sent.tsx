@@ -3,7 +3,7 @@ import { Link, useParams } from 'react-router-dom';
 import { useQuery } from '@tanstack/react-query';
 import { useTranslation } from '../../../lib/i18n';
 import { useFormat } from '../../session/public';
-import { loadOutbox, useOnline, useQueueJobs, useSendingId } from '../../offline/public';
+import { isWalkJob, loadOutbox, useOnline, useQueueJobs, useSendingId, type WalkJob } from '../../offline/public';
 import { EstimateFigures, readerOf, storedVerdictView } from '../../estimate/public';
 import { walkQuery } from '../api';
 
@@ -13,7 +13,7 @@ export default function SentRoute() {
   const { t } = useTranslation();
   const f = useFormat();
   const online = useOnline();
-  const job = useQueueJobs().find((j) => j.id === walkId);
+  const job = useQueueJobs().find((j): j is WalkJob => j.id === walkId && isWalkJob(j));
   const sending = useSendingId() === walkId;
   const done = !job || job.state === 'done';
   const stored = useQuery({ ...walkQuery(walkId), enabled: done });

@@ -6,7 +6,7 @@ import type { TodayItem } from '../../../../shared/schemas/walks';
 import { LanguageToggle, PreferencesPanel, useFormat, useUser } from '../../session/public';
 import { listDrafts } from '../../entry/public';
 import { calibrationsQuery, rulesQuery } from '../../../lib/estimate-inputs';
-import { useQueueJobs } from '../../offline/public';
+import { isWalkJob, useQueueJobs } from '../../offline/public';
 import { todayQuery } from '../api';
 import { groupToday } from '../groups';
 import { PlantingCard } from '../components/planting-card';
@@ -38,7 +38,7 @@ export function TodayRoute() {
   const noneAssigned = items.length > 0 && !items.some((i) => i.assigned);
   const groups = groupToday(shown);
   // A walk handed to the outbox but not yet at the office: its planting is not "not walked".
-  const waiting = new Set(useQueueJobs().filter((j) => j.state !== 'done').map((j) => j.body.plantingId));
+  const waiting = new Set(useQueueJobs().flatMap((j) => (j.state !== 'done' && isWalkJob(j) ? [j.body.plantingId] : [])));
   const card = (item: TodayItem) => (
     <PlantingCard key={item.plantingId} item={item} draft={draftFor.get(item.plantingId) ?? null} waiting={waiting.has(item.plantingId)} />
   );

@@ -152,6 +152,14 @@ function Plan({ item, draft }: { item: TodayItem; draft: WalkDraft | null }) {
           </p>
         ))}
         {plan.mode === 'area' && <p className="text-loam-600">{result.boundaryProblem ? t('plan.badBoundary') : t('plan.noBoundary')}</p>}
+        {!item.boundary && (
+          <div className="rounded-xl border-2 border-loam-200 bg-white p-3">
+            <p className="text-loam-700">{t('trace.linkHint')}</p>
+            <Link to={`/plantings/${item.plantingId}/trace`} className="mt-2 inline-flex min-h-touch items-center text-lg font-bold text-shoot underline underline-offset-4">
+              {t('trace.link')} →
+            </Link>
+          </div>
+        )}
         {!draft && suggestion.suggested > suggestion.minimum && (
           <p className="text-loam-600">{t('plan.suggest', { min: suggestion.minimum, n: suggestion.suggested })}</p>
         )}
