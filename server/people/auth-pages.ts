@@ -31,16 +31,24 @@ export function authPages(ctx: AppContext, pp: passport.PassportStatic, limits: 
 
   router.get('/login', (req, res) => {
     if (req.user) return res.redirect(homeFor(req.user.role));
-    res.render('auth/login', { title: 'Sign in', email: '', error: null, next: safeNext(req.query.next) });
+    res.render('auth/login', { title: 'Sign in', email: '', error: null, errors: {}, next: safeNext(req.query.next) });
   });
 
   router.post('/login', (req, res, next) => {
     const target = safeNext(req.body?.next);
     const email = typeof req.body?.email === 'string' ? req.body.email : '';
+    // An empty field is said beside it, not as a failed sign-in (nothing was checked).
+    const missing: Record<string, string> = {};
+    if (!email.trim()) missing.email = 'Enter the e-mail address you sign in with.';
+    if (typeof req.body?.password !== 'string' || req.body.password === '') missing.password = 'Enter your password.';
+    if (Object.keys(missing).length) {
+      res.status(400).render('auth/login', { title: 'Sign in', email, error: null, errors: missing, next: target });
+      return;
+    }
     pp.authenticate('local', (err: unknown, user: Express.User | false) => {
       if (err) return next(err);
       if (!user) {
-        res.status(401).render('auth/login', { title: 'Sign in', email, error: SIGN_IN_FAILED, next: target });
+        res.status(401).render('auth/login', { title: 'Sign in', email, error: SIGN_IN_FAILED, errors: {}, next: target });
         return;
       }
       req.logIn(user, async (loginErr) => {

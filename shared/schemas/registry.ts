@@ -12,11 +12,15 @@ const text = (max: number) => plainText(max);
 const optionalText = (max: number, multiline = false) =>
   z.preprocess((v) => (typeof v === 'string' && v.trim() === '' ? null : v), plainText(max, { multiline }).nullable().optional());
 
-export const cropSchema = z.enum(CROPS, { message: `Choose one of: ${CROPS.join(', ')}.` });
+/** The crop list's codes; a person is told to choose from the list, never shown the codes. */
+export const cropSchema = z.enum(CROPS, { message: 'Choose a crop from the list.' });
 
 const emails = z.preprocess(
   (v) => (typeof v === 'string' ? v.split(/[,;\s]+/).filter(Boolean) : v),
-  z.array(z.email({ message: 'Each grower address must be an e-mail address.' })).max(10).optional(),
+  z
+    .array(z.email({ error: (iss) => `“${String(iss.input)}” is not an e-mail address. Write each like grower@example.org, separated by commas.` }))
+    .max(10, 'Give at most 10 grower addresses.')
+    .optional(),
 );
 
 export const ranchInputSchema = z.object({
@@ -57,7 +61,7 @@ const plantingShape = z.object({
   crop: cropSchema,
   variety: optionalText(200),
   seededOn: isoDate,
-  seedingRateKgHa: z.number().finite().positive('The seeding rate must be more than zero.').max(2000).nullable().optional(),
+  seedingRateKgHa: z.number({ message: 'Enter the seeding rate as a number.' }).finite().positive('The seeding rate must be more than zero.').max(2000, 'That seeding rate is higher than any cover crop is sown.').nullable().optional(),
   plannedTerminationOn: isoDate.nullable().optional(),
   terminatedOn: isoDate.nullable().optional(),
   notes: optionalText(2000, true),
