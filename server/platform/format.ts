@@ -1,5 +1,6 @@
 import { haToAc, kgPerHaToLbPerAc } from '../../shared/calc/units';
 import type { Units } from '../../shared/schemas/session';
+import { dateTime, TIME_ZONE } from '../../shared/format/figures';
 
 /**
  * Numbers and dates as one user reads them: their units (SI is what is stored) and their
@@ -14,6 +15,10 @@ export interface Formatter {
   rate: (kgHa: number | null | undefined) => string;
   rateValue: (kgHa: number | null | undefined) => string;
   date: (iso: string | null | undefined) => string;
+  /** A stored instant with its time and zone, "Dec 2, 2026, 14:05 UTC" (shared/format: one writing everywhere). */
+  dateTime: (iso: string | null | undefined) => string;
+  /** The zone dateTime writes in. */
+  timeZone: string;
   number: (n: number, digits?: number) => string;
 }
 
@@ -54,6 +59,8 @@ function buildFormatter(units: Units, acceptLanguage: string | false): Formatter
     rateValue: (kg) => (kg == null ? '' : String(Math.round(rateOf(kg) * 10) / 10)),
     date: (iso) => (iso ? dateFmt.format(new Date(`${iso.slice(0, 10)}T00:00:00Z`)) : '—'),
     number: (n, digits = 0) => numberFmt(digits).format(n),
+    dateTime: (iso) => dateTime(iso, 'en', TIME_ZONE),
+    timeZone: TIME_ZONE,
   };
 }
 

@@ -4,6 +4,7 @@ import type { AppContext } from '../platform/app-context';
 import { contextOf } from '../platform/context';
 import { can } from '../platform/permissions';
 import { historyAuthors, listHistory } from './service';
+import { HISTORY_ACTION_WORDS, HISTORY_FIELD_LABELS, historySummary, historyValue } from './history-words';
 import { isoDate } from '../../shared/schemas/registry';
 
 const PAGE = 50;
@@ -45,7 +46,8 @@ export function historyPages(ctx: AppContext): Router {
       pages: Math.max(1, Math.ceil(total / PAGE)),
       pageHref: (p: number) => `/history?${params(p)}`,
       authors: await historyAuthors(ctx.db, orgId),
-      recordHref: (type: string, id: string) => (type === 'planting' ? null : HREF[type] + id),
+      recordHref: (type: string, id: string) => HREF[type] + id,
+      words: { actions: HISTORY_ACTION_WORDS, labels: HISTORY_FIELD_LABELS, summary: historySummary, value: historyValue },
     });
   });
   return router;

@@ -10,6 +10,7 @@ import { ranchOptions } from './service';
 import { currentCreditRule } from '../rules/public';
 import { seasonRows } from './season-view';
 import { toCsv } from '../platform/csv-safe';
+import { cropName } from '../../shared/registry/crops';
 import { samplerOptions } from './assignment-pages';
 
 const seasonQuery = z.object({
@@ -55,12 +56,13 @@ export function seasonPages(ctx: AppContext): Router {
 
   router.get('/registry/season.csv', can('registry.read'), async (req, res) => {
     const { season, rows } = await load(req);
-    const header = ['ranch', 'field', 'area_ha', 'crop', 'variety', 'seeded_on', 'terminated_on', 'planned_termination_on', 'days_since_seeding', 'days_in_window', 'walk_status'];
+    const header = ['ranch', 'field', 'area_ha', 'crop', 'crop_name', 'variety', 'seeded_on', 'terminated_on', 'planned_termination_on', 'days_since_seeding', 'days_in_window', 'walk_status'];
     const body = rows.map((r) => [
       r.ranchName,
       r.fieldName,
       r.areaHa.toFixed(3),
       r.crop ?? '',
+      r.crop ? cropName(r.crop) : '',
       r.variety ?? '',
       r.seededOn ?? '',
       r.terminatedOn ?? '',

@@ -9,6 +9,7 @@ import * as fields from './fields-db';
 import * as plantings from './plantings-db';
 import { appendChange, type EntityType } from './history-db';
 import { newFieldAreaHa } from './boundary-import';
+import { historySummary } from './history-words';
 
 /**
  * Registry writes: each checks the rules that span records (the ranch is this organisation's,
@@ -24,7 +25,8 @@ export interface Actor {
 const invalid = (field: string, message: string) => new HttpError('invalid', message, { [field]: message });
 
 async function record(trx: Knex, actor: Actor, entityType: EntityType, entityId: string, action: 'create' | 'update' | 'delete', before: object | null, after: object | null, summary: string) {
-  await appendChange(trx, actor.organisationId, { entityType, entityId, action, user: actor, before, after, summary });
+  // Summaries are stored as read: crop names and field names in words, not codes and keys.
+  await appendChange(trx, actor.organisationId, { entityType, entityId, action, user: actor, before, after, summary: historySummary(summary) });
 }
 
 /** The stored fields of a record, without computed totals, for the history's before/after. */

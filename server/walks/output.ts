@@ -1,5 +1,6 @@
 import { toCsv } from '../platform/csv-safe';
 import { readerDistance } from './plan-view';
+import { cropName } from '../../shared/registry/crops';
 import type { Formatter } from '../platform/format';
 import { cmToIn, kgPerHaToLbPerAc } from '../../shared/calc/units';
 import { escapeXml, niceTicks, tickLabel } from '../../shared/charts/svg';
@@ -65,7 +66,7 @@ export function walkRow(w: Walk, u: WalkUnits) {
 
 const CSV_HEADER = [
   // (one string: its sampler column names a person, not a role of the permissions map)
-  ...'walk_id status ranch field crop variety sampler walked_on stage'.split(' '),
+  ...'walk_id status ranch field crop crop_name variety sampler walked_on stage'.split(' '),
   'stop', 'length_cm', 'lat', 'lon', 'photo',
   'n', 'mean_length_cm', 'biomass_kg_ha', 'interval_low_kg_ha', 'interval_high_kg_ha', 'level', 'threshold_kg_ha', 'meets_threshold', 'extrapolated',
   'calibration_id', 'calibration_version', 'flags', 'submitted_at', 'reviewed_by', 'reviewed_at', 'reject_reason',
@@ -79,7 +80,7 @@ export function walksCsv(walks: Walk[]): string {
     const photoStops = new Set(w.photos.map((p) => p.stop));
     for (const p of w.plants) {
       rows.push({
-        walk_id: w.id, status: w.status, ranch: w.ranchName, field: w.fieldName, crop: w.crop, variety: w.variety, sampler: w.sampler.name,
+        walk_id: w.id, status: w.status, ranch: w.ranchName, field: w.fieldName, crop: w.crop, crop_name: cropName(w.crop), variety: w.variety, sampler: w.sampler.name,
         walked_on: w.walkedOn, stage: w.stage, stop: p.stop, length_cm: p.lengthCm, lat: p.lat, lon: p.lon, photo: photoStops.has(p.stop),
         n: w.plants.length, mean_length_cm: e?.meanLengthCm, biomass_kg_ha: e?.biomassKgHa, interval_low_kg_ha: e?.interval[0], interval_high_kg_ha: e?.interval[1],
         level: e?.level, threshold_kg_ha: e?.thresholdKgHa, meets_threshold: e?.meetsThreshold, extrapolated: e?.extrapolated,

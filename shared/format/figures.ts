@@ -99,6 +99,32 @@ export function date(iso: string, lang: Lang = 'en'): string {
   return lang === 'es' ? `${d} ${mon} ${y}` : `${mon} ${d}, ${y}`;
 }
 
+/**
+ * The time zone every timestamp is shown in. No organisation or user chooses one yet, so it is UTC,
+ * and the zone is always written after the time so nobody reads it as local time.
+ */
+export const TIME_ZONE = 'UTC';
+
+/**
+ * A stored instant (ISO 8601, e.g. "2026-12-02T14:05:09.123Z") as the reader reads it: "Dec 2, 2026,
+ * 14:05 UTC" (en) or "2 dic 2026, 14:05 UTC" (es). Another IANA zone may be given; its abbreviation
+ * or offset is then written instead of UTC. Text that is not an instant is returned as it is.
+ */
+export function dateTime(iso: string | null | undefined, lang: Lang = 'en', timeZone: string = TIME_ZONE): string {
+  if (!iso) return '—';
+  // A timestamp stored without a zone (SQLite's CURRENT_TIMESTAMP) is UTC, whatever this machine's zone.
+  const zoneless = /^\d{4}-\d\d-\d\d[ T]\d\d:\d\d(:\d\d(\.\d+)?)?$/.test(iso);
+  const at = new Date(zoneless ? `${iso.replace(' ', 'T')}Z` : iso);
+  if (Number.isNaN(at.getTime())) return iso;
+  const parts = Object.fromEntries(
+    new Intl.DateTimeFormat('en-US', { timeZone, hourCycle: 'h23', year: 'numeric', month: '2-digit', day: '2-digit', hour: '2-digit', minute: '2-digit', timeZoneName: 'short' })
+      .formatToParts(at)
+      .map((p) => [p.type, p.value]),
+  );
+  const zone = timeZone === 'UTC' ? 'UTC' : parts.timeZoneName;
+  return `${date(`${parts.year}-${parts.month}-${parts.day}`, lang)}, ${parts.hour}:${parts.minute} ${zone}`;
+}
+
 export type Nearness = 'just_below' | 'just_above' | null;
 
 export interface ComparedFigures {

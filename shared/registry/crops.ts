@@ -11,3 +11,6 @@ export const CROP_LABELS: Record<CropClass, string> = {
   mix: 'Mix',
   other: 'Other',
 };
+
+/** The name a person reads for a crop code; a code not on the list is shown as it is. */
+export const cropName = (code: string): string => (CROP_LABELS as Record<string, string>)[code] ?? code;

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { DEMO_RULE, creditEligibility, decideVerdict, fitCalibration, lbPerAcToKgPerHa, type VerdictReason } from '../../shared/calc';
 import {
-  DECISION_BASIS_WORDS, VERDICT_WORDS, adviceText, area, biomass, biomassAgainstThreshold, credit, date, eligibilityReasonText, formatNumber, length,
+  DECISION_BASIS_WORDS, VERDICT_WORDS, adviceText, area, biomass, biomassAgainstThreshold, credit, date, dateTime, eligibilityReasonText, formatNumber, length,
   nitrogenRate, percent, reasonText, verdictSentence,
 } from '../../shared/format';
 import { readDemo } from './demo-data';
@@ -45,6 +45,17 @@ describe('figures: the same rounding for every output', () => {
     expect(date('2026-12-02', 'es')).toBe('2 dic 2026');
     expect(date('2027-01-31', 'es')).toBe('31 ene 2027');
     expect(() => date('2026-02-30')).toThrow();
+  });
+
+  it('timestamps: day, 24-hour time and the zone written out, never a raw ISO string', () => {
+    expect(dateTime('2026-12-02T14:05:09.123Z')).toBe('Dec 2, 2026, 14:05 UTC');
+    expect(dateTime('2026-12-31T23:59:59Z', 'es')).toBe('31 dic 2026, 23:59 UTC');
+    // SQLite's CURRENT_TIMESTAMP has no zone: it is UTC, whatever the server's own zone.
+    expect(dateTime('2026-07-01 09:05:00')).toBe('Jul 1, 2026, 09:05 UTC');
+    // Another zone when one is given: 00:30 UTC on Dec 2 is 16:30 the day before in Pacific
+    // standard time (UTC−8 in December; IANA tz database, America/Los_Angeles).
+    expect(dateTime('2026-12-02T00:30:00Z', 'en', 'America/Los_Angeles')).toBe('Dec 1, 2026, 16:30 PST');
+    expect(dateTime(null)).toBe('—');
   });
 });
 

@@ -3,6 +3,7 @@ import * as ranchesDb from '../ranches-db';
 import * as fieldsDb from '../fields-db';
 import * as plantingsDb from '../plantings-db';
 import { appendChange } from '../history-db';
+import { cropName } from '../../../shared/registry/crops';
 import { Mapping } from './columns';
 import { ParsedCsv } from './read';
 import { CropOption } from './values';
@@ -140,7 +141,7 @@ export async function commitImport(
         user,
         before: null,
         after: planting,
-        summary: `Planting ${row.season} (${row.crop}) on ${fieldNames.get(row.fieldKey)}, ${ranchNames.get(row.ranchKey)}, imported from “${file}” (row ${row.line})`,
+        summary: `Planting ${row.season} (${cropName(row.crop ?? 'other')}) on ${fieldNames.get(row.fieldKey)}, ${ranchNames.get(row.ranchKey)}, imported from “${file}” (row ${row.line})`,
       });
       if (++done % 500 === 0) onProgress({ phase: 'writing', done, total });
     }

@@ -363,7 +363,7 @@ describe('auditors', () => {
     expect(res.status).toBe(200);
     expect(res.headers['content-type']).toMatch(/^text\/csv/);
     const lines = res.text.replace(/^\uFEFF/, '').trim().split(/\r\n/);
-    expect(lines[0]).toMatch(/^walk_id,status,ranch,field,crop,variety,sampler,walked_on,stage,stop,length_cm,lat,lon,photo,n,mean_length_cm,biomass_kg_ha/);
+    expect(lines[0]).toMatch(/^walk_id,status,ranch,field,crop,crop_name,variety,sampler,walked_on,stage,stop,length_cm,lat,lon,photo,n,mean_length_cm,biomass_kg_ha/);
     expect(lines).toHaveLength(1 + 20); // two demo walks of ten plants
     expect(lines.filter((l) => l.startsWith(SUBMITTED))[0]).toContain(',84.5,');
     const approvedOnly = (await agent.get('/walks/export.csv')).text.trim().split(/\r\n/);
