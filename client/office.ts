@@ -2,12 +2,22 @@
 // inline handlers (the CSP allows only our own scripts). Pages work without this script.
 import './styles/office.css';
 
-// <form data-confirm="Delete this ranch?"> asks before submitting.
+// <form data-confirm="Delete this ranch?"> asks before submitting. A form that the server would
+// first answer with a confirmation page (data-confirm-page) says it is confirmed once asked here.
 document.addEventListener('submit', (event) => {
   const form = event.target;
   if (!(form instanceof HTMLFormElement)) return;
   const question = form.dataset.confirm;
-  if (question && !window.confirm(question)) event.preventDefault();
+  if (!question) return;
+  if (!window.confirm(question)) {
+    event.preventDefault();
+    return;
+  }
+  if (form.hasAttribute('data-confirm-page') && !form.querySelector('input[name="confirmed"]')) {
+    const confirmed = document.createElement('input');
+    Object.assign(confirmed, { type: 'hidden', name: 'confirmed', value: 'yes' });
+    form.append(confirmed);
+  }
 });
 
 // <button type="button" data-print> opens the print dialog.

@@ -2,6 +2,7 @@ import { KG_PER_LB, cmToIn, haToAc, kgPerHaToLbPerAc } from '../../shared/calc/u
 import { CROP_LABELS } from '../../shared/registry/crops';
 import type { EligibilityReason } from '../../shared/calc/eligibility';
 import { DECISION_BASIS_WORDS, eligibilityReasonText } from '../../shared/format/messages';
+import { credit } from '../../shared/format/figures';
 import { SHOOT_N_CAUTION, shootNitrogenText, verdictWord, walkBiomassText, walkVerdictReasonText, type WalkVerdictReasonData } from '../../shared/format/walk';
 import type { Verdict as WalkVerdictWord } from '../../shared/calc/verdict';
 import type { Units } from '../people/public';
@@ -44,9 +45,9 @@ export function registerUnits(units: Units, locale = 'en-US') {
     rate: (kgHa: number | null | undefined) => (kgHa == null ? '—' : `${nf(0).format(us ? kgPerHaToLbPerAc(kgHa) : kgHa)} ${us ? 'lb/ac' : 'kg/ha'}`),
     rateNumber: (kgHa: number) => nf(0).format(us ? kgPerHaToLbPerAc(kgHa) : kgHa),
     length: (cm: number | null | undefined) => (cm == null ? '—' : `${nf(1).format(us ? cmToIn(cm) : cm)} ${us ? 'in' : 'cm'}`),
-    /** kg of nitrogen, or pounds in US units. */
-    massN: (kg: number | null | undefined, digits = 1) => (kg == null ? '—' : `${nf(digits).format(us ? kg / KG_PER_LB : kg)} ${us ? 'lb N' : 'kg N'}`),
-    massNumber: (kg: number, digits = 1) => nf(digits).format(us ? kg / KG_PER_LB : kg),
+    /** kg of nitrogen, or pounds in US units, whole units as the shared formatter writes credits everywhere (table, chart, PDF, e-mail). */
+    massN: (kg: number | null | undefined) => (kg == null ? '—' : credit(kg, units).full),
+    massNumber: (kg: number) => credit(kg, units).text,
     /** kg N as a plain number in the user's unit (lb N in US units), for charts. */
     massValue: (kg: number) => (us ? kg / KG_PER_LB : kg),
     /** Credit per area, e.g. "50.0 lb N/ac". */

@@ -4,6 +4,7 @@ import PDFDocument from 'pdfkit';
 import { KG_PER_LB, cmToIn, haToAc, kgPerHaToLbPerAc } from '../../shared/calc/units';
 import { toCsv } from '../platform/csv-safe';
 import { SHOOT_N_CAUTION } from '../../shared/format/walk';
+import { date, dateTime } from '../../shared/format/figures';
 import type { Units } from '../people/public';
 import { CAUTIONS, VERDICT_LABELS, cropLabel, registerUnits, shortId, walkVerdictOfRow, type RegisterDoc, type RegisterUnits } from './format';
 import type { RegisterRow, RegisterTotals } from './service';
@@ -27,6 +28,7 @@ export const REGISTER_CSV_COLUMNS = [
   'area_ha',
   'area_ac',
   'crop',
+  'crop_name',
   'variety',
   'seeded_on',
   'terminated_on',
@@ -82,6 +84,7 @@ function csvRow(doc: RegisterDoc, r: RegisterRow, u: RegisterUnits): unknown[] {
     round(r.areaHa, 4),
     round(haToAc(r.areaHa), 2),
     r.crop ?? '',
+    r.crop ? cropLabel(r.crop) : '',
     r.variety ?? '',
     r.seededOn ?? '',
     r.terminatedOn ?? '',
@@ -192,6 +195,8 @@ interface Column {
   /** Ink of the cell when it differs from the row's. */
   color?: (r: RegisterRow) => string | null;
   bold?: (r: RegisterRow) => boolean;
+  /** Names are never cut: the cell wraps onto more lines and the row grows. */
+  wrap?: boolean;
 }
 
 const yieldToLoop = () => new Promise<void>((resolve) => setImmediate(resolve));
@@ -227,9 +232,9 @@ export async function registerPdf(docs: RegisterDoc[], opts: PdfOptions): Promis
   const bottom = () => pdf.page.height - pdf.page.margins.bottom;
 
   const columns: Column[] = [
-    { title: 'Field', share: 14, cell: (r) => r.fieldName },
+    { title: 'Field', share: 14, cell: (r) => r.fieldName, wrap: true },
     { title: `Area (${u.areaUnit})`, share: 5.5, align: 'right', cell: (r) => u.num(opts.units === 'us' ? haToAc(r.areaHa) : r.areaHa, 1) },
-    { title: 'Crop · variety', share: 12.5, cell: (r) => (r.crop ? `${cropLabel(r.crop)}${r.variety ? ` · ${r.variety}` : ''}` : '—') },
+    { title: 'Crop · variety', share: 12.5, cell: (r) => (r.crop ? `${cropLabel(r.crop)}${r.variety ? ` · ${r.variety}` : ''}` : '—'), wrap: true },
     { title: 'Seeded', share: 7, cell: (r) => r.seededOn ?? '—' },
     { title: 'Terminated', share: 8, cell: (r) => r.terminatedOn ?? (r.endOn ? `proj. ${r.endOn}` : '—') },
     { title: 'Days in window', share: 5.5, align: 'right', cell: (r) => (r.daysInWindow == null ? '—' : String(r.daysInWindow)) },
@@ -315,8 +320,8 @@ export async function registerPdf(docs: RegisterDoc[], opts: PdfOptions): Promis
     para(
       `Reporting year ${doc.year}: plantings of the ${doc.season.replace('-', '–')} season. ${
         doc.status === 'final'
-          ? `Finalised version ${doc.version} by ${doc.finalisedBy?.name ?? '—'} at ${doc.finalisedAt}.`
-          : `DRAFT computed on ${doc.computedOn}: not finalised, may change.`
+          ? `Finalised version ${doc.version} by ${doc.finalisedBy?.name ?? '—'} on ${dateTime(doc.finalisedAt)}.`
+          : `DRAFT computed on ${date(doc.computedOn)}: not finalised, may change.`
       }`,
       9.5,
     );
@@ -330,18 +335,20 @@ export async function registerPdf(docs: RegisterDoc[], opts: PdfOptions): Promis
       const why = r.verdict === 'eligible' || r.verdict === 'projected_eligible' ? '' : `Why: ${r.reasons.map((x) => u.reason(x, r, doc.rule)).join(' · ')}`;
       const whyX = xs[2]!.x + 2;
       const whyW = left + width() - whyX - 2;
-      const rowH = 10 + (why ? pdf.fontSize(6.8).heightOfString(why, { width: whyW }) + 2 : 0);
+      const rowFont = r.verdict === 'eligible' ? 'Lato-Bold' : 'Lato';
+      pdf.font(rowFont).fontSize(FIELD_ROW_FONT);
+      const cellsH = Math.max(10, ...columns.map((c, i) => (c.wrap ? pdf.heightOfString(c.cell(r), { width: xs[i]!.w - 4 }) + 1 : 0)));
+      const rowH = cellsH + (why ? pdf.fontSize(6.8).heightOfString(why, { width: whyW }) + 2 : 0);
       ensure(rowH + 3, true);
       const y = pdf.y;
-      pdf.font(r.verdict === 'eligible' ? 'Lato-Bold' : 'Lato').fontSize(FIELD_ROW_FONT).fillColor(INK);
-      const rowFont = r.verdict === 'eligible' ? 'Lato-Bold' : 'Lato';
+      pdf.font(rowFont).fontSize(FIELD_ROW_FONT).fillColor(INK);
       columns.forEach((c, i) => {
         const bold = c.bold ? c.bold(r) : rowFont === 'Lato-Bold';
         pdf.font(bold ? 'Lato-Bold' : 'Lato').fillColor(c.color?.(r) ?? INK);
-        const text = fit(c.cell(r), xs[i]!.w - 4);
-        pdf.text(text, xs[i]!.x + 2, y, { width: xs[i]!.w - 4, align: c.align ?? 'left', lineBreak: false });
+        if (c.wrap) pdf.text(c.cell(r), xs[i]!.x + 2, y, { width: xs[i]!.w - 4, align: c.align ?? 'left' });
+        else pdf.text(fit(c.cell(r), xs[i]!.w - 4), xs[i]!.x + 2, y, { width: xs[i]!.w - 4, align: c.align ?? 'left', lineBreak: false });
       });
-      if (why) pdf.font('Lato').fontSize(6.8).fillColor(MUTED).text(why, whyX, y + 10, { width: whyW });
+      if (why) pdf.font('Lato').fontSize(6.8).fillColor(MUTED).text(why, whyX, y + cellsH, { width: whyW });
       pdf.y = y + rowH;
       pdf.moveTo(left, pdf.y + 1).lineTo(left + width(), pdf.y + 1).lineWidth(0.4).strokeColor(RULE).stroke();
       pdf.y += 3;
@@ -378,7 +385,7 @@ export async function registerPdf(docs: RegisterDoc[], opts: PdfOptions): Promis
     para(`Calibrations used: ${doc.calibrations.map((c) => `${c.id} version ${c.version}`).join('; ') || 'none'}.`, 8.5);
     para(`Field walks (${doc.walkIds.length}): ${doc.walkIds.join(', ') || 'none'}.`, 7.5, MUTED);
     if (doc.status === 'final') {
-      para(`Finalised by ${doc.finalisedBy?.name ?? '—'} at ${doc.finalisedAt}; version ${doc.version}${doc.previousId ? `, amends version id ${doc.previousId}` : ''}.`, 8.5);
+      para(`Finalised by ${doc.finalisedBy?.name ?? '—'} on ${dateTime(doc.finalisedAt)}; version ${doc.version}${doc.previousId ? `, amends version id ${doc.previousId}` : ''}.`, 8.5);
       para(`Register id ${doc.id}. Content hash (SHA-256 of the stored canonical JSON): ${doc.contentHash}`, 8.5);
     }
 

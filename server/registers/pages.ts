@@ -10,6 +10,7 @@ import { endOfYear } from './registry-as-of';
 import { keyringOf } from './signing';
 import { organisationSummary } from './summary';
 import { registerRanches } from './service';
+import { dateTime } from '../../shared/format/figures';
 import { todayIso } from '../../shared/registry/season';
 import { barChartSvg } from './chart';
 import { CAUTIONS, asDraft, asFinal, cropLabel, registerFieldLines, registerFileStem, registerUnits, shortId } from './format';
@@ -73,7 +74,7 @@ export function registerPages(ctx: AppContext): Router {
           axisLabel: `Credit (${rf.massUnit}); hatched bars are drafts, solid bars finalised versions`,
           emptyNote: `No credit yet in ${year}: no field has earned any ${rf.massUnit}.`,
           formatTick: (n) => rf.num(n, 0),
-          bars: summary.ranches.map((r) => ({ label: r.ranchName, value: rf.massValue(r.shown.creditKgN), valueText: rf.massN(r.shown.creditKgN, 0), muted: !r.final })),
+          bars: summary.ranches.map((r) => ({ label: r.ranchName, value: rf.massValue(r.shown.creditKgN), valueText: rf.massN(r.shown.creditKgN), muted: !r.final })),
         })
       : '';
     const job = q.job ? jobs.get(orgId, q.job) : undefined;
@@ -174,6 +175,23 @@ export function registerPages(ctx: AppContext): Router {
     }
     const doc = asFinal(final);
     const rf = registerUnits(contextOf(req).units);
+    // Nothing is sent until confirmed: a page without script, the form's dialog with it (client/office.ts).
+    if (req.body?.confirmed !== 'yes') {
+      res.render('confirm', {
+        title: 'Send to grower?',
+        heading: `Send version ${final.version} of ${final.ranch.name}’s ${final.year} register?`,
+        lines: [
+          `To: ${to.join(', ')}`,
+          `The PDF of version ${final.version}, finalised by ${final.finalisedBy.name} on ${dateTime(final.finalisedAt)}; credit total ${rf.massN(final.totals.creditKgN)}.`,
+          'An e-mail cannot be taken back. The message is kept in the Outbox.',
+        ],
+        action: `/registers/v/${final.id}/send`,
+        fields: {},
+        confirmLabel: 'Send now',
+        cancelHref: `/registers/v/${final.id}`,
+      });
+      return;
+    }
     const pdf = await registerPdf([doc], { units: contextOf(req).units });
     const t = final.totals;
     await ctx.mailer.send({
@@ -181,7 +199,7 @@ export function registerPages(ctx: AppContext): Router {
       to: to.join(', '),
       subject: `Credit register ${final.year}: ${final.ranch.name} (version ${final.version})`,
       text: [
-        `Attached is the nitrogen scavenging credit register of ${final.ranch.name} for reporting year ${final.year} (the ${final.season.replace('-', '–')} season), version ${final.version}, finalised by ${final.finalisedBy.name} on ${final.finalisedAt.slice(0, 10)}.`,
+        `Attached is the nitrogen scavenging credit register of ${final.ranch.name} for reporting year ${final.year} (the ${final.season.replace('-', '–')} season), version ${final.version}, finalised by ${final.finalisedBy.name} on ${dateTime(final.finalisedAt)}.`,
         '',
         `Fields: ${t.fields}; eligible: ${t.eligibleFields} (${rf.area(t.eligibleAreaHa)} of ${rf.area(t.totalAreaHa)}).`,
         `Credit total: ${rf.massN(t.creditKgN)} (${rf.num(t.creditKgN, 1)} kg N).`,

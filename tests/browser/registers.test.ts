@@ -102,8 +102,12 @@ describe('credit registers in the browser', () => {
     await page.emulateMedia({ media: 'screen' });
     await page.setViewportSize({ width: 1280, height: 860 });
 
-    // Send to grower: the PDF goes to the ranch's addresses.
+    // Send to grower: asked first in a dialog (the page without script asks on a page of its own),
+    // then the PDF goes to the ranch's addresses.
+    const asked = new Promise<string>((resolve) => page.once('dialog', (d) => (resolve(d.message()), void d.accept())));
     await page.getByRole('button', { name: 'Send to grower' }).click();
+    expect(await asked).toBe('Send version 1 of this register as PDF to grower@sandpiper-bench.test? An e-mail cannot be taken back.');
+    await page.getByText('Register version 1 sent as PDF').waitFor();
     expect(await page.getByText('Register version 1 sent as PDF to grower@sandpiper-bench.test.').count()).toBe(1);
     await page.close();
   });

@@ -322,7 +322,7 @@ describe('CSV and PDF', () => {
     expect(pdf.includes(Buffer.from('Lato'))).toBe(true);
     const { text } = await extractText(await getDocumentProxy(new Uint8Array(pdf)), { mergePages: true });
     expect(text).toContain('Hand-Worked Ranch');
-    expect(text).toContain('Credit total: 1,125.0 lb N (510.3 kg N)');
+    expect(text).toContain('Credit total: 1,125 lb N (510.3 kg N)');
     expect(text).toContain('eligible: 2');
     expect(text).toContain('eligible area: 22.5 ac');
     expect(text).toContain(v1.body.contentHash);
@@ -409,7 +409,7 @@ describe('office pages', () => {
     expect(draft.text).toContain('Finalise register');
     expect(draft.text).toContain('The sample was taken 45 days before termination');
     expect(draft.text).toContain('Ridgeline');
-    expect(draft.text).toContain('1,125.0 lb N');
+    expect(draft.text).toContain('1,125 lb N');
     const token = csrfFromHtml(draft.text);
     const unconfirmed = await clerk.post(`/registers/${s.ranchId}/${YEAR}`).type('form').send({ _csrf: token });
     expect(unconfirmed.status).toBe(400);
@@ -449,7 +449,7 @@ describe('office pages', () => {
     const v2 = await clerk.get(amended.headers.location);
     expect(v2.text).toContain('Amendment: changes from version 1');
     expect(v2.text).toContain('data-diff-field="C Early Walk" data-diff-key="verdict"');
-    expect(v2.text).toContain('1,375.0 lb N');
+    expect(v2.text).toContain('1,375 lb N');
     // Finalising once more without a change is refused and said so.
     const draft3 = await clerk.get(`/registers/${s.ranchId}/${YEAR}`);
     const same = await clerk.post(`/registers/${s.ranchId}/${YEAR}`).type('form').send({ _csrf: csrfFromHtml(draft3.text), confirm: 'yes' });
@@ -469,7 +469,7 @@ describe('office pages', () => {
     expect(page.status).toBe(200);
     expect(page.text).toContain('<svg');
     expect(page.text).toContain('Credit by ranch');
-    expect(page.text).toContain('Hand-Worked Ranch: 1,125.0 lb N (draft)');
+    expect(page.text).toContain('Hand-Worked Ranch: 1,125 lb N (draft)');
     expect(page.text).toContain('Sandpiper Bench');
     expect(page.text).toContain('Build the organisation’s register');
     expect(page.text).toContain('href="/registers"');
@@ -482,7 +482,16 @@ describe('office pages', () => {
     const page = await clerk.get(posted.headers.location);
     expect(page.text).toContain('PDF to grower@handworked.test, office@handworked.test');
     const id = posted.headers.location.split('/').pop()!;
-    const sent = await clerk.post(`/registers/v/${id}/send`).type('form').send({ _csrf: csrfFromHtml(page.text) });
+    // First a confirmation page (no script needed): who gets what; nothing is sent yet.
+    const ask = await clerk.post(`/registers/v/${id}/send`).type('form').send({ _csrf: csrfFromHtml(page.text) });
+    expect(ask.status).toBe(200);
+    expect(ask.text).toContain('data-confirm-page');
+    expect(ask.text).toContain('To: grower@handworked.test, office@handworked.test');
+    expect(ask.text).toContain('name="confirmed" value="yes"');
+    expect(await t.db('mail_outbox').where('subject', 'like', 'Credit register%')).toHaveLength(0);
+    // The page's form also asks in a dialog when script runs (client/office.ts).
+    expect(page.text).toMatch(/data-confirm-page data-confirm="Send version 1 of this register as PDF to grower@handworked.test, office@handworked.test\?/);
+    const sent = await clerk.post(`/registers/v/${id}/send`).type('form').send({ _csrf: csrfFromHtml(ask.text), confirmed: 'yes' });
     expect(sent.status).toBe(303);
     expect((await clerk.get(sent.headers.location)).text).toContain('sent as PDF to grower@handworked.test, office@handworked.test');
     const mail = await t.db('mail_outbox').where('to_address', 'grower@handworked.test, office@handworked.test').first();
@@ -493,7 +502,7 @@ describe('office pages', () => {
     expect(attachment.filename).toBe('crowntip-register-hand-worked-ranch-2025-v1.pdf');
     expect(attachment.contentType).toBe('application/pdf');
     expect(attachment.size).toBeGreaterThan(1000);
-    expect(mail.text_body).toContain('Credit total: 1,125.0 lb N');
+    expect(mail.text_body).toContain('Credit total: 1,125 lb N');
     expect(mail.raw).toContain('Content-Type: application/pdf');
 
     const admin = await signInPages(t.app, 'admin@crowntip.test');
@@ -503,11 +512,11 @@ describe('office pages', () => {
     // The auditor may not send; a ranch without addresses cannot be sent to.
     const auditor = await signInPages(t.app, 'auditor@crowntip.test');
     const aPage = await auditor.get(`/registers/v/${id}`);
-    expect((await auditor.post(`/registers/v/${id}/send`).type('form').send({ _csrf: csrfFromHtml(aPage.text) })).status).toBe(403);
+    expect((await auditor.post(`/registers/v/${id}/send`).type('form').send({ _csrf: csrfFromHtml(aPage.text), confirmed: 'yes' })).status).toBe(403);
     await t.db('ranches').where('id', s.ranchId).update({ contact_emails: null });
     const bare = await clerk.get(`/registers/v/${id}`);
     expect(bare.text).toMatch(/disabled aria-describedby="send-hint">Send to grower/);
-    const refused = await clerk.post(`/registers/v/${id}/send`).type('form').send({ _csrf: csrfFromHtml(bare.text) });
+    const refused = await clerk.post(`/registers/v/${id}/send`).type('form').send({ _csrf: csrfFromHtml(bare.text), confirmed: 'yes' });
     expect((await clerk.get(refused.headers.location)).text).toContain('no grower addresses');
     expect(await t.db('mail_outbox').where('subject', 'like', 'Credit register%').count({ n: '*' }).first()).toEqual({ n: 1 });
   });
