@@ -338,6 +338,23 @@ export function calibrationPages(ctx: AppContext): Router {
     if (c.status !== 'draft') throw new HttpError('conflict', calibrations.IMMUTABLE_MESSAGE);
     const parsed = parseForm(publishFormSchema, req.body);
     if (!parsed.ok) return renderFitPage(req, res, c, { values: req.body ?? {}, errors: parsed.errors }, 400);
+    // Publishing is for good: confirmed on a page without script, in the form's dialog with it (client/office.ts).
+    if (req.body?.confirmed !== 'yes') {
+      const what = `${c.cropLabel}${c.variety ? ` ${c.variety}` : ''}${c.region ? `, ${c.region}` : ''}`;
+      return res.render('confirm', {
+        title: 'Publish this calibration?',
+        heading: `Publish the ${what} calibration?`,
+        lines: [
+          `Model: ${MODEL_LABELS[parsed.value.model] ?? parsed.value.model}; name: “${parsed.value.label}”.`,
+          'It becomes the next version and never changes afterwards: a correction is a new version.',
+          parsed.value.assign === 'yes' ? `${what} field-walk estimates use it from now on.` : 'Estimates do not use it until it is chosen under “Which calibration applies”.',
+        ],
+        action: `/calibrations/${c.id}/publish`,
+        fields: { model: parsed.value.model, label: parsed.value.label, ...(parsed.value.assign ? { assign: 'yes' } : {}) },
+        confirmLabel: 'Publish now',
+        cancelHref: `/calibrations/${c.id}`,
+      });
+    }
     try {
       const done = await calibrations.publish(db, contextOf(req), c.id, { model: parsed.value.model, label: parsed.value.label, assign: parsed.value.assign === 'yes' });
       req.session.flash = { kind: 'info', text: `Published as version ${done.version} (${done.label}).${done.assigned ? ` ${done.cropLabel} estimates now use it.` : ''}` };

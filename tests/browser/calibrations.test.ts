@@ -44,7 +44,10 @@ describe('calibrations in the browser', () => {
     // Publish the power curve.
     await page.getByRole('radio', { name: /^Power/ }).check();
     await page.getByLabel('Name of this version').fill('Browser trial, invented points');
+    // Asked first in a dialog (without script, on a confirmation page).
+    const asked = new Promise<string>((resolve) => page.once('dialog', (d) => (resolve(d.message()), void d.accept())));
     await page.getByRole('button', { name: 'Publish' }).click();
+    expect(await asked).toBe('Publish this calibration? A published version never changes.');
     await page.getByText(/Published as version 1/).waitFor();
     expect(page.url()).toBe(calibrationUrl);
     expect(await page.getByRole('button', { name: 'Publish' }).count()).toBe(0);

@@ -293,7 +293,15 @@ describe('publishing and retiring through the pages', () => {
     const missing = await agent.post(`/calibrations/${BARLEY_DRAFT}/publish`).type('form').send({ _csrf: csrf, model: 'power', label: '' });
     expect(missing.status).toBe(400);
     expect(missing.text).toContain('id="label-error"');
-    const ok = await agent.post(`/calibrations/${BARLEY_DRAFT}/publish`).type('form').send({ _csrf: csrf, model: 'quadratic', label: 'Barley 2026', assign: 'yes' });
+    // A confirmation page first (no script needed), carrying the choices; nothing is published yet.
+    const ask = await agent.post(`/calibrations/${BARLEY_DRAFT}/publish`).type('form').send({ _csrf: csrf, model: 'quadratic', label: 'Barley 2026', assign: 'yes' });
+    expect(ask.status).toBe(200);
+    expect(ask.text).toContain('Publish the Barley calibration?');
+    expect(ask.text).toContain('never changes afterwards');
+    expect(ask.text).toContain('name="model" value="quadratic"');
+    expect(ask.text).toContain('name="confirmed" value="yes"');
+    expect((await t.db('calibrations').where({ id: BARLEY_DRAFT }).first()).status).toBe('draft');
+    const ok = await agent.post(`/calibrations/${BARLEY_DRAFT}/publish`).type('form').send({ _csrf: csrf, model: 'quadratic', label: 'Barley 2026', assign: 'yes', confirmed: 'yes' });
     expect(ok.status).toBe(303);
     const page = await agent.get(`/calibrations/${BARLEY_DRAFT}`);
     expect(page.text).toContain('Published as version 1 (Barley 2026). Barley estimates now use it.');
@@ -311,7 +319,7 @@ describe('publishing and retiring through the pages', () => {
     expect((await agent.get(`/calibrations/${RYE}`)).text).toContain('Estimates for Cereal rye use this version');
     const draft = await agent.post(`/calibrations/${RYE}/drafts`).type('form').send({ _csrf: csrf });
     const draftId = draft.headers.location.split('/').pop();
-    await agent.post(`/calibrations/${draftId}/publish`).type('form').send({ _csrf: csrf, model: 'power', label: 'v2' });
+    await agent.post(`/calibrations/${draftId}/publish`).type('form').send({ _csrf: csrf, model: 'power', label: 'v2', confirmed: 'yes' });
     const set = await agent.post('/calibrations/assignments').type('form').send({ _csrf: csrf, crop: 'cereal_rye', variety: '', calibrationId: draftId });
     expect(set.status).toBe(303);
     expect((await agent.get('/calibrations/assignments')).text).toContain('version 2, v2');
