@@ -1,4 +1,4 @@
-import { Router } from 'express';
+import { Router, type Request, type Response } from 'express';
 import type { Knex } from 'knex';
 import { z } from 'zod';
 import type { AppContext } from '../platform/app-context';
@@ -7,12 +7,16 @@ import { HttpError } from '../platform/errors';
 import { can, rolesAllowed } from '../platform/permissions';
 import { addDaysIso, todayIso } from '../../shared/registry/season';
 import { currentCreditRule } from '../rules/public';
-import { assignWalk, listActiveAssignees, listAssignmentsBySampler, plannedTerminationOf, type AssignmentRow } from '../walks/public';
+import { assignWalk, listActiveAssignees, listAssignmentsBySampler, listAssignmentsOfPlanting, plannedTerminationOf, unassignWalk, type AssignmentRow } from '../walks/public';
+import { isoDate } from '../../shared/schemas/dates';
+import { seasonLabel } from '../../shared/registry/season';
+import { getPlanting } from './service';
 
 /*
- * Clerks ask samplers to walk plantings from the office: several at once from the season view,
- * and a per-sampler list of what each has, with due dates and what is overdue. Each assignment
- * goes through the same service as PUT /api/plantings/:id/assignment.
+ * Clerks ask samplers to walk plantings from the office: one at a time from the planting's own
+ * page, several at once from the season view, and a per-sampler list of what each has, with due
+ * dates, what is overdue and a way to take an assignment back. Each assignment goes through the
+ * same service as PUT /api/plantings/:id/assignment.
  */
 
 /**
@@ -65,6 +69,58 @@ export function assignmentPages(ctx: AppContext): Router {
     });
     const back = body.back && body.back.startsWith('/registry/season') ? body.back : '/registry/season';
     res.redirect(303, `${back}${back.includes('?') ? '&' : '?'}assigned=${ids.length}`);
+  });
+
+  // ---- one planting: its facts, who is asked to walk it, assign and take back ----
+  const showPlanting = async (req: Request, res: Response, status = 200, values: Record<string, string> = {}, errors: Record<string, string> = {}) => {
+    const orgId = contextOf(req).organisationId;
+    const planting = await getPlanting(ctx.db, orgId, String(req.params.id));
+    if (!planting) throw new HttpError('not_found');
+    const [assignments, samplers, rule] = await Promise.all([listAssignmentsOfPlanting(ctx.db, orgId, planting.id), samplerOptions(ctx.db, orgId), currentCreditRule(ctx.db, orgId)]);
+    const defaultDue = defaultDueOn(planting.plannedTerminationOn, rule.maxDaysSampleBeforeTermination, todayIso());
+    res.status(status).render('registry/planting', {
+      title: `${planting.fieldName}, ${seasonLabel(planting.season)}`,
+      planting,
+      assignments,
+      samplers,
+      defaultDue,
+      maxDays: rule.maxDaysSampleBeforeTermination,
+      values: { samplerId: '', dueOn: defaultDue ?? '', ...values },
+      errors,
+      seasonLabel,
+      canAssign: contextOf(req).can('walks.assign'),
+    });
+  };
+
+  router.get('/registry/plantings/:id', can('registry.read'), async (req, res, next) => {
+    if (req.params.id === 'new') return next(); // the new-planting form
+    await showPlanting(req, res);
+  });
+
+  router.post('/registry/plantings/:id/assign', can('walks.assign'), async (req, res) => {
+    const body = bulkSchema.parse(req.body ?? {});
+    const values = { samplerId: body.samplerId ?? '', dueOn: body.dueOn?.trim() ?? '' };
+    const errors: Record<string, string> = {};
+    if (!values.samplerId) errors.samplerId = 'Choose the sampler who should walk this planting.';
+    const due = values.dueOn ? isoDate.safeParse(values.dueOn) : null;
+    if (due && !due.success) errors.dueOn = due.error.issues[0].message;
+    if (Object.keys(errors).length) return showPlanting(req, res, 400, values, errors);
+    try {
+      await assignWalk(ctx.db, contextOf(req), String(req.params.id), { samplerId: values.samplerId, dueOn: values.dueOn || null });
+    } catch (err) {
+      if (err instanceof HttpError && err.fields) return showPlanting(req, res, 400, values, err.fields);
+      throw err;
+    }
+    req.session.flash = { kind: 'info', text: 'Assigned. The sampler sees it under “Assigned to you” on the phone.' };
+    res.redirect(303, `/registry/plantings/${String(req.params.id)}`);
+  });
+
+  router.post('/registry/plantings/:id/unassign', can('walks.assign'), async (req, res) => {
+    const samplerId = typeof req.body?.samplerId === 'string' ? req.body.samplerId : '';
+    await unassignWalk(ctx.db, contextOf(req), String(req.params.id), samplerId);
+    req.session.flash = { kind: 'info', text: 'Assignment removed. The planting stays on every sampler’s list of open plantings.' };
+    const back = req.body?.back === '/registry/assignments' ? '/registry/assignments' : `/registry/plantings/${String(req.params.id)}`;
+    res.redirect(303, back);
   });
 
   router.get('/registry/assignments', can('office.use'), async (req, res) => {

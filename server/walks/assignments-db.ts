@@ -63,3 +63,14 @@ export async function listAssignmentsBySampler(db: Knex, organisationId: string)
     walked: r.walked === true || Boolean(Number(r.walked)),
   }));
 }
+
+/** The assignments of one planting, with each sampler's name, by due date then name. */
+export async function listAssignmentsOfPlanting(db: Knex, organisationId: string, plantingId: string): Promise<{ samplerId: string; samplerName: string; dueOn: string | null }[]> {
+  const rows = await db('walk_assignments')
+    .join('users', 'users.id', 'walk_assignments.sampler_id')
+    .where({ 'walk_assignments.organisation_id': organisationId, 'walk_assignments.planting_id': plantingId })
+    .orderBy('walk_assignments.due_on')
+    .orderBy('users.name')
+    .select('users.id as samplerId', 'users.name as samplerName', 'walk_assignments.due_on as dueOn');
+  return rows.map((r) => ({ samplerId: r.samplerId, samplerName: r.samplerName, dueOn: r.dueOn ? String(r.dueOn).slice(0, 10) : null }));
+}
