@@ -56,3 +56,34 @@ export async function activeAssignees(db: Knex): Promise<{ id: string; organisat
 export async function allWalkAssignments(db: Knex): Promise<{ planting_id: string; sampler_id: string }[]> {
   return db('walk_assignments').select('planting_id', 'sampler_id');
 }
+
+/**
+ * Assigned plantings to remind their sampler of: not terminated, no approved walk, and due by
+ * `until` (overdue ones included), or, with no due date, planned for termination between the two dates.
+ */
+export async function assignedPlantingsDue(db: Knex, from: string, until: string): Promise<Record<string, string>[]> {
+  return db('walk_assignments')
+    .join('plantings', 'plantings.id', 'walk_assignments.planting_id')
+    .join('fields', 'fields.id', 'plantings.field_id')
+    .join('ranches', 'ranches.id', 'fields.ranch_id')
+    .whereRaw('walk_assignments.organisation_id = plantings.organisation_id')
+    .whereNull('plantings.terminated_on')
+    .where((q) =>
+      q
+        .where((d) => d.whereNotNull('walk_assignments.due_on').where('walk_assignments.due_on', '<=', until))
+        .orWhere((d) => d.whereNull('walk_assignments.due_on').whereBetween('plantings.planned_termination_on', [from, until])),
+    )
+    .whereNotExists(db('field_walks').whereRaw('field_walks.planting_id = plantings.id').where('field_walks.status', 'approved'))
+    .select(
+      'walk_assignments.sampler_id',
+      'walk_assignments.due_on',
+      'plantings.id',
+      'plantings.organisation_id',
+      'plantings.crop',
+      'plantings.planned_termination_on',
+      'fields.name as field_name',
+      'ranches.name as ranch_name',
+    )
+    .orderBy('ranches.name')
+    .orderBy('fields.name');
+}
