@@ -2,27 +2,9 @@ import nodemailer, { type Transporter } from 'nodemailer';
 import type { Knex } from 'knex';
 import type { Logger } from 'pino';
 import { insertOutboxMessage } from './db';
+import type { Mail, Mailer } from '../platform/mail';
 
-export interface MailAttachment {
-  filename: string;
-  contentType: string;
-  content: Buffer;
-}
-
-export interface Mail {
-  organisationId: string | null;
-  to: string;
-  subject: string;
-  text: string;
-  html?: string;
-  attachments?: MailAttachment[];
-  /** Live one-time links in the text: kept out of the stored copy when the mail really goes out. */
-  secrets?: string[];
-}
-
-export interface Mailer {
-  send(mail: Mail): Promise<string>;
-}
+export type { Mail, MailAttachment, Mailer } from '../platform/mail';
 
 /**
  * nodemailer with SMTP when SMTP_URL is set; otherwise its stream transport builds the complete

@@ -3,26 +3,9 @@ import type { Knex } from 'knex';
 import type { Role } from '../platform/roles';
 import { inOrganisation, nowIso } from '../platform/scope';
 import { rolesAllowed } from '../platform/permissions';
+import type { Language, Units, User } from '../platform/user';
 
-export type Units = 'us' | 'metric';
-export type Language = 'en' | 'es';
-
-export interface User {
-  id: string;
-  organisationId: string;
-  organisationName: string;
-  name: string;
-  email: string;
-  role: Role;
-  active: boolean;
-  units: Units;
-  language: Language;
-  lastSignInAt: string | null;
-  createdAt: string;
-  hasPassword: boolean;
-  /** Raised to end every session made before (server/people/passport.ts). */
-  sessionVersion: number;
-}
+export type { Language, Units, User } from '../platform/user';
 
 export interface UserRow {
   id: string;

@@ -1,7 +1,7 @@
 import type { Knex } from 'knex';
 import type { Logger } from 'pino';
 import type { Config } from './config';
-import type { Mailer } from '../mail/public';
+import type { Mailer } from './mail';
 import type { ObjectStore } from './object-store';
 import type { ReadCache } from './read-cache';
 

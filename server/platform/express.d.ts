@@ -1,4 +1,4 @@
-import type { User as CrowntipUser } from '../people/public';
+import type { User as CrowntipUser } from './user';
 import type { RequestContext } from './context';
 
 declare global {

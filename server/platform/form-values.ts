@@ -1,5 +1,5 @@
 import { acToHa, lbPerAcToKgPerHa } from '../../shared/calc/units';
-import type { Units } from '../people/public';
+import type { Units } from './user';
 
 /**
  * Office forms speak the user's units and plain text; the shared schemas speak SI and
