@@ -1,16 +1,16 @@
 import { queryOptions } from '@tanstack/react-query';
-import type { z } from 'zod';
 import { api } from './api';
+import type { Infer } from './check';
 import type { calibrationItemSchema, rulesSchema } from './estimate-schemas';
 
 /**
  * Published calibrations and the current credit rule, fetched while there is signal and kept on
  * the phone (query persistence) so the live estimate works offline. Today's screen asks for them
- * after it has drawn; their zod schemas (estimate-schemas.ts) load with that first fetch, so zod
- * is not part of the first screen's code (the service worker precaches it for offline use).
+ * after it has drawn; their checks (estimate-schemas.ts, without zod) load with that first fetch,
+ * so they are not part of the first screen's code and zod is not part of the first visit.
  */
-export type CalibrationItem = z.infer<typeof calibrationItemSchema>;
-export type CurrentRules = z.infer<typeof rulesSchema>;
+export type CalibrationItem = Infer<typeof calibrationItemSchema>;
+export type CurrentRules = Infer<typeof rulesSchema>;
 
 const schemas = () => import('./estimate-schemas');
 

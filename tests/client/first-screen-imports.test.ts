@@ -68,3 +68,12 @@ describe('the /capture first screen', () => {
     expect(offending).toEqual([]);
   });
 });
+
+describe('what Today loads right after it has drawn', () => {
+  // The sending engine, the live estimate's answer checks and the signal watcher all load on a
+  // sampler's first visit (app/shell.tsx, features/today/routes/today.tsx): zod stays out of them too.
+  it.each(['client/features/offline/outbox.ts', 'client/lib/estimate-schemas.ts', 'client/features/offline/resend.ts'])('%s imports no zod', (entry) => {
+    const { packages } = firstScreen(entry);
+    expect([...packages.keys()].filter((spec) => /^zod(\/|$)/.test(spec))).toEqual([]);
+  });
+});
