@@ -13,14 +13,19 @@ export const sessionKeys = {
   current: () => [...sessionKeys.all, 'current'] as const,
 };
 
+/** How long a session fetched on this page counts as current for screens mounting later. */
+export const SESSION_FRESH_MS = 30_000;
+
 /**
  * One options object for the shell, the hooks and invalidation. Kept on the phone (query
- * persistence) so the app opens offline; refetched on every start when there is signal.
+ * persistence) so the app opens offline; refetched on every start when there is signal (a copy
+ * restored from the phone is older than SESSION_FRESH_MS). Each screen or panel mounting later
+ * takes the one fetched on this page, rather than asking the server again on a slow link.
  */
 export const sessionQuery = queryOptions({
   queryKey: sessionKeys.current(),
   queryFn: ({ signal }) => api.session({ signal }),
-  staleTime: 0,
+  staleTime: SESSION_FRESH_MS,
   networkMode: 'offlineFirst',
 });
 
