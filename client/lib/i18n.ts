@@ -61,6 +61,10 @@ function remembered(): Language | null {
 export function initialLanguage(): Language {
   const kept = remembered();
   if (kept) return kept;
+  // The signed-in user's language, written on the page by the server (server/platform/capture-shell.ts),
+  // which has already started loading its text.
+  const given = typeof document !== 'undefined' ? document.documentElement.dataset.language : undefined;
+  if (given === 'en' || given === 'es') return given;
   const nav = typeof navigator !== 'undefined' ? navigator.language : '';
   return nav?.toLowerCase().startsWith('es') ? 'es' : 'en';
 }

@@ -5,7 +5,8 @@ import type { ViteDevServer } from 'vite';
 import { can } from './permissions';
 import { CLIENT_DIST } from './assets';
 import { PROJECT_ROOT } from './project-root';
-import { loadBuilt, sendBuilt } from './compress';
+import { loadBuilt, sendBuilt, type Built } from './compress';
+import { captureShells } from './capture-shell';
 
 /**
  * The sampler's React app: one index.html for /capture and every path below it (React Router
@@ -20,8 +21,8 @@ export function captureApp(vite?: ViteDevServer): Router {
   const router = Router();
   const guard = can('capture.use');
   // The built shell and worker with their brotli and gzip copies (scripts/precompress.ts), read once.
-  let builtHtml: ReturnType<typeof loadBuilt> | null = null;
-  let builtWorker: ReturnType<typeof loadBuilt> | null = null;
+  let shells: ReturnType<typeof captureShells> | null = null;
+  let builtWorker: Built | null = null;
 
   const serve = async (req: Request, res: Response) => {
     res.type('html'); // no-store, as every signed-in answer (server/platform/security.ts)
@@ -30,8 +31,9 @@ export function captureApp(vite?: ViteDevServer): Router {
       res.send(await vite.transformIndexHtml(req.originalUrl, source));
       return;
     }
-    builtHtml ??= loadBuilt(path.join(CLIENT_DIST, 'index.html'));
-    sendBuilt(req, res, builtHtml);
+    // The shell with the preloads of the sampler's language, session and (on Today) list (capture-shell.ts).
+    shells ??= captureShells();
+    sendBuilt(req, res, shells(req.user?.language === 'es' ? 'es' : 'en', req.path === '/capture' || req.path === '/capture/'));
   };
 
   const serviceWorker = (req: Request, res: Response) => {

@@ -33,7 +33,7 @@ export function staticAssets(root: string): RequestHandler {
   }) as RequestHandler;
 }
 
-interface Encoded {
+export interface Built {
   identity: Buffer;
   br: Buffer | null;
   gzip: Buffer | null;
@@ -42,7 +42,7 @@ interface Encoded {
 const readIfThere = (file: string) => (fs.existsSync(file) ? fs.readFileSync(file) : null);
 
 /** A built file and its .br/.gz copies, read once. */
-export function loadBuilt(file: string): Encoded {
+export function loadBuilt(file: string): Built {
   return { identity: fs.readFileSync(file), br: readIfThere(`${file}.br`), gzip: readIfThere(`${file}.gz`) };
 }
 
@@ -65,7 +65,7 @@ function qualityOf(header: string, name: string): number {
  * `gzip, deflate, br` all at q=1, and brotli is the smaller). Vary is set whatever is chosen, so a
  * cache never hands brotli to a browser that did not ask for it.
  */
-export function sendBuilt(req: Request, res: Response, built: Encoded) {
+export function sendBuilt(req: Request, res: Response, built: Built) {
   res.vary('Accept-Encoding');
   const header = req.headers['accept-encoding'] ?? '';
   let chosen: 'br' | 'gzip' | null = null;

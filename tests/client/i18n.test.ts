@@ -1,4 +1,4 @@
-import { describe, expect, it } from 'vitest';
+import { afterEach, describe, expect, it, vi } from 'vitest';
 import { en } from '../../client/locales/en';
 import { es } from '../../client/locales/es';
 import { screensEn } from '../../client/locales/screens-en';
@@ -65,5 +65,29 @@ describe('coverage of codes', () => {
     expect(screensEs.entry.stopOf).toBe('Parada {{n}} de {{total}}');
     expect(screensEs.entry.length).toBe('Largo del tallo principal');
     expect(es.queue.offlineWaiting_other).toBe('Sin señal: {{count}} recorridos en espera de envío');
+  });
+});
+
+describe('the language the app opens in', () => {
+  afterEach(() => {
+    vi.unstubAllGlobals();
+  });
+  const page = (language?: string) => ({ documentElement: { dataset: language ? { language } : {}, lang: '' } });
+  const phone = (kept: string | null) => ({ getItem: () => kept, setItem: () => undefined });
+
+  it('is the one kept on the phone, else the one the server wrote on the page, else the browser’s', async () => {
+    const { initialLanguage } = await import('../../client/lib/i18n');
+    vi.stubGlobal('navigator', { language: 'en-US' });
+    vi.stubGlobal('document', page('es'));
+    vi.stubGlobal('localStorage', phone(null));
+    expect(initialLanguage()).toBe('es'); // a first visit: the signed-in user's language
+    vi.stubGlobal('localStorage', phone('en'));
+    expect(initialLanguage()).toBe('en'); // chosen on this phone
+    vi.stubGlobal('localStorage', phone(null));
+    vi.stubGlobal('document', page('fr'));
+    expect(initialLanguage()).toBe('en'); // not a language of the app: the browser's
+    vi.stubGlobal('navigator', { language: 'es-AR' });
+    vi.stubGlobal('document', page());
+    expect(initialLanguage()).toBe('es');
   });
 });
