@@ -9,6 +9,7 @@ import express, { type Express } from 'express';
 import { afterAll, afterEach, beforeAll, beforeEach, describe, expect, it } from 'vitest';
 import { precompressDir } from '../../../scripts/precompress';
 import { loadBuilt, sendBuilt, staticAssets } from '../../../server/platform/compress';
+import { securityHeaders } from '../../../server/platform/security';
 import { CLIENT_DIST, clientIsBuilt } from '../../../server/platform/assets';
 import { createTestApp, csrfFromHtml, signInApi, signInPages, type TestApp } from '../../helpers/app';
 import { DEMO_ORGANISATIONS } from '../../../seeds/demo-people';
@@ -70,7 +71,7 @@ describe('built files under /static', () => {
     fs.writeFileSync(path.join(dir, 'index.html'), page);
     fs.writeFileSync(path.join(dir, 'assets/lato-Zz99.woff2'), font);
     await precompressDir(dir);
-    app = express().use('/static', staticAssets(dir));
+    app = express().use(securityHeaders(false)).use('/static', staticAssets(dir));
   });
   afterAll(() => fs.rmSync(dir, { recursive: true, force: true }));
 
@@ -109,6 +110,20 @@ describe('built files under /static', () => {
     expect(woff2.headers['content-encoding']).toBeUndefined();
     expect(woff2.headers['content-type']).toBe('font/woff2');
     expect(woff2.body.equals(font)).toBe(true);
+  });
+
+  it('a script or font carries nosniff and its resource policy but not the headers only a page acts on; a page keeps them all', async () => {
+    for (const file of ['assets/today-Ab12Cd34.js', 'assets/lato-Zz99.woff2']) {
+      const r = await rawGet(app, `/static/${file}`, { 'accept-encoding': BROWSER });
+      expect(r.headers['x-content-type-options'], file).toBe('nosniff');
+      expect(r.headers['cross-origin-resource-policy']).toBe('same-origin');
+      for (const name of ['content-security-policy', 'x-frame-options', 'strict-transport-security', 'referrer-policy', 'cross-origin-opener-policy']) {
+        expect(r.headers[name], `${file} ${name}`).toBeUndefined();
+      }
+    }
+    const html = await rawGet(app, '/static/index.html', { 'accept-encoding': BROWSER });
+    expect(html.headers['content-security-policy']).toContain("script-src 'self'");
+    expect(html.headers['x-frame-options']).toBe('SAMEORIGIN');
   });
 
   it('sendBuilt picks the same way for the shell and the service worker, read once from disk', async () => {
@@ -229,8 +244,8 @@ describe('answers made per request', () => {
       expect(r.headers['content-type']).toMatch(type);
       expect(r.headers['content-encoding']).toBe('br');
       expect(varies(r)).toBe(true);
-      const file = url === '/capture' ? 'index.html' : 'sw.js';
-      expect(decoded(r).equals(fs.readFileSync(path.join(CLIENT_DIST, file)))).toBe(true);
+      expect(decoded(r).equals((await get(url, 'identity')).body)).toBe(true);
+      if (url === '/capture/sw.js') expect(decoded(r).equals(fs.readFileSync(path.join(CLIENT_DIST, 'sw.js')))).toBe(true);
     }
     expect((await get('/capture/sw.js', BROWSER)).headers['service-worker-allowed']).toBe('/capture');
   });
