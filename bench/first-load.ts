@@ -48,6 +48,9 @@ export interface FirstLoadResult {
   workerResponses: number;
   lcpMs: number | null;
   lcpElement: string | null;
+  /** Every largest-contentful-paint entry, in order (the last is the LCP). */
+  lcpCandidates: { startTime: number; element: string | null }[];
+  fcpMs: number | null;
   keystrokeMs: number;
 }
 
@@ -153,25 +156,31 @@ export async function runFirstLoad(opts: { url: string; email: string; password:
     });
 
     await page.goto(`${opts.url}/capture`, { waitUntil: 'load', timeout: 60_000 });
-    // Then until the network has been quiet for 2 s (the app's data requests come after load).
+    // Today drawn (its heading), however slow the CPU; then until the network has been quiet for
+    // 2 s (the app's data requests come after load).
+    await page.waitForSelector('#today-title', { timeout: 45_000 }).catch(() => undefined);
     const deadline = performance.now() + 45_000;
     while (performance.now() < deadline && (inflight.size > 0 || performance.now() - lastActivity < 2000)) {
       await new Promise((r) => setTimeout(r, 100));
     }
 
-    const lcp = (await cdp.send('Runtime.evaluate', {
+    // Every LCP candidate (the last one counts) and the first contentful paint, to read what held it back.
+    const paints = (await cdp.send('Runtime.evaluate', {
       expression: `new Promise((resolve) => {
-        let last = null;
-        new PerformanceObserver((list) => { for (const e of list.getEntries()) last = e; })
+        const candidates = [];
+        const describe = (el) => el ? el.tagName.toLowerCase() + (el.textContent ? ': ' + el.textContent.trim().slice(0, 40) : '') : null;
+        new PerformanceObserver((list) => { for (const e of list.getEntries()) candidates.push({ startTime: e.startTime, element: describe(e.element) }); })
           .observe({ type: 'largest-contentful-paint', buffered: true });
-        setTimeout(() => resolve(last && {
-          startTime: last.startTime,
-          element: last.element ? last.element.tagName.toLowerCase() + (last.element.textContent ? ': ' + last.element.textContent.trim().slice(0, 40) : '') : null,
-        }), 200);
+        setTimeout(() => {
+          const fcp = performance.getEntriesByName('first-contentful-paint')[0];
+          resolve({ candidates, fcp: fcp ? fcp.startTime : null });
+        }, 200);
       })`,
       awaitPromise: true,
       returnByValue: true,
-    })) as { result: { value: { startTime: number; element: string | null } | null } };
+    })) as { result: { value: { candidates: { startTime: number; element: string | null }[]; fcp: number | null } } };
+    const candidates = paints.result.value.candidates;
+    const lcp = candidates[candidates.length - 1] ?? null;
 
     // The live estimate, timed in this page (CPU still slowed 4 times).
     const ks = (await cdp.send('Runtime.evaluate', {
@@ -190,8 +199,10 @@ export async function runFirstLoad(opts: { url: string; email: string; password:
       totalBytes: responses.reduce((s, r) => s + r.bytes, 0),
       workerBytes,
       workerResponses,
-      lcpMs: lcp.result.value?.startTime ?? null,
-      lcpElement: lcp.result.value?.element ?? null,
+      lcpMs: lcp?.startTime ?? null,
+      lcpElement: lcp?.element ?? null,
+      lcpCandidates: candidates,
+      fcpMs: paints.result.value.fcp,
       keystrokeMs: ks.result.value,
     };
   } finally {
@@ -211,6 +222,8 @@ export function printFirstLoad(r: FirstLoadResult, base: string) {
   }
   console.log(`  ${'total'.padEnd(w)}  ${String(r.responses.length).padStart(3)}  ${''.padEnd(8)}  ${kib(r.totalBytes).padStart(10)}`);
   console.log(`  the service worker's precache download: ${kib(r.workerBytes)} in ${r.workerResponses} responses (counted apart)`);
+  const at = (n: number) => `${(n / 1000).toFixed(2)} s`;
+  console.log(`  first contentful paint ${r.fcpMs === null ? 'none' : at(r.fcpMs)}; LCP candidates: ${r.lcpCandidates.map((c) => `${at(c.startTime)} ${c.element ?? '?'}`).join(' → ') || 'none'}`);
   console.log(`  LCP ${r.lcpMs === null ? 'none' : `${(r.lcpMs / 1000).toFixed(2)} s`} (${r.lcpElement ?? '?'}); live estimate ${r.keystrokeMs.toFixed(3)} ms per keystroke in the page`);
 }
 
