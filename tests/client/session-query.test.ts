@@ -1,6 +1,6 @@
 import { describe, expect, it, vi } from 'vitest';
 import { QueryClient, QueryObserver } from '@tanstack/react-query';
-import { SESSION_FRESH_MS, sessionQuery } from '../../client/features/session/api';
+import { PAGE_LOADED_AT, sessionQuery } from '../../client/features/session/api';
 
 /**
  * The session is asked for once per page load: screens and panels that mount after the shell (the
@@ -30,9 +30,9 @@ describe('GET /api/session on a page load', () => {
     expect(queryFn).toHaveBeenCalledTimes(1);
   });
 
-  it('is sent again when the only copy is one restored from the phone (older than the fresh window)', async () => {
+  it('is sent again when the only copy is one restored from the phone (fetched before this page load)', async () => {
     const qc = new QueryClient({ defaultOptions: { queries: { retry: false } } });
-    qc.setQueryData(sessionQuery.queryKey, session as never, { updatedAt: Date.now() - SESSION_FRESH_MS - 1000 });
+    qc.setQueryData(sessionQuery.queryKey, session as never, { updatedAt: PAGE_LOADED_AT - 1000 });
     const queryFn = vi.fn(async () => session);
     mount(qc, queryFn);
     await settle();

@@ -13,24 +13,22 @@ export const sessionKeys = {
   current: () => [...sessionKeys.all, 'current'] as const,
 };
 
-/** How long a session fetched on this page counts as current for screens mounting later. */
-export const SESSION_FRESH_MS = 30_000;
+/** When this page was loaded: session data fetched after it is known to match the cookie. */
+export const PAGE_LOADED_AT = Date.now();
 
 /**
  * One options object for the shell, the hooks and invalidation. Kept on the phone (query
- * persistence) so the app opens offline; refetched on every start when there is signal (a copy
- * restored from the phone is older than SESSION_FRESH_MS). Each screen or panel mounting later
- * takes the one fetched on this page, rather than asking the server again on a slow link.
+ * persistence) so the app opens offline; refetched on every start when there is signal. A screen
+ * or panel mounting later takes the answer already fetched on this page load rather than asking
+ * the server again over a slow link; a copy restored from the phone is still asked for again.
  */
 export const sessionQuery = queryOptions({
   queryKey: sessionKeys.current(),
   queryFn: ({ signal }) => api.session({ signal }),
-  staleTime: SESSION_FRESH_MS,
+  staleTime: 0,
+  refetchOnMount: (query) => query.state.dataUpdatedAt < PAGE_LOADED_AT,
   networkMode: 'offlineFirst',
 });
-
-/** When this page was loaded: session data fetched after it is known to match the cookie. */
-export const PAGE_LOADED_AT = Date.now();
 
 export function useSession() {
   return useQuery(sessionQuery);
