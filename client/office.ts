@@ -20,6 +20,26 @@ document.addEventListener('submit', (event) => {
   }
 });
 
+// Instants are written by the server in UTC, zone named ("Dec 2, 2026, 14:05 UTC": dateTime in
+// shared/format/figures.ts). The reader's browser writes them again in the reader's own time zone,
+// in the same form, keeping the UTC text as the title; a calendar date has no zone and stays. (The
+// browser's own formatter, not an import of shared/: the build would pull the capture app's first
+// chunk into the office pages with it.)
+const readerZone = Intl.DateTimeFormat().resolvedOptions().timeZone;
+if (readerZone && readerZone !== 'UTC') {
+  const inReaderZone = new Intl.DateTimeFormat('en-US', {
+    timeZone: readerZone, hourCycle: 'h23', month: 'short', day: 'numeric', year: 'numeric', hour: '2-digit', minute: '2-digit', timeZoneName: 'short',
+  });
+  for (const time of document.querySelectorAll('time[datetime]')) {
+    if (!(time instanceof HTMLTimeElement) || !/\d[T ]\d\d:\d\d/.test(time.dateTime)) continue;
+    const zoneless = !/(Z|[+-]\d\d:?\d\d)$/.test(time.dateTime); // SQLite's CURRENT_TIMESTAMP is UTC
+    const at = new Date(zoneless ? `${time.dateTime.replace(' ', 'T')}Z` : time.dateTime);
+    if (Number.isNaN(at.getTime())) continue;
+    time.title = time.textContent ?? '';
+    time.textContent = inReaderZone.format(at);
+  }
+}
+
 // <button type="button" data-print> opens the print dialog.
 document.addEventListener('click', (event) => {
   const target = event.target instanceof Element ? event.target.closest('[data-print]') : null;

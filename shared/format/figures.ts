@@ -100,8 +100,9 @@ export function date(iso: string, lang: Lang = 'en'): string {
 }
 
 /**
- * The time zone every timestamp is shown in. No organisation or user chooses one yet, so it is UTC,
- * and the zone is always written after the time so nobody reads it as local time.
+ * The time zone the server writes every timestamp in. No organisation chooses one yet, so it is UTC,
+ * and the zone is always written after the time so nobody reads it as local time; office pages are
+ * then rewritten in the reader's zone by the browser (client/office.ts).
  */
 export const TIME_ZONE = 'UTC';
 

@@ -15,6 +15,8 @@ export interface BrowserOptions {
   /** A fixed position for navigator.geolocation. */
   geolocation?: { latitude: number; longitude: number; accuracy?: number };
   locale?: string;
+  /** The browser's time zone (IANA name), e.g. 'Etc/GMT+8'. */
+  timezoneId?: string;
 }
 
 export async function openBrowser(options: BrowserOptions = {}): Promise<{
@@ -29,6 +31,7 @@ export async function openBrowser(options: BrowserOptions = {}): Promise<{
     permissions: options.permissions,
     geolocation: options.geolocation,
     locale: options.locale,
+    timezoneId: options.timezoneId,
     args: [
       '--no-sandbox',
       '--disable-gpu',
