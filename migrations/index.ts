@@ -17,6 +17,7 @@ import * as m20261202044500 from './20261202044500_register_signatures';
 import * as m20261202045000 from './20261202045000_walk_tissue_nitrogen';
 import * as m20261202045137 from './20261202045137_walk_own_review_waiver';
 import * as m20261202055317 from './20261202055317_walk_plan_seed';
+import * as m20261202061742 from './20261202061742_create_jobs_and_attempt_counts';
 import * as m20261202062741 from './20261202062741_field_boundary_proposals';
 
 interface Migration {
@@ -45,6 +46,7 @@ const migrations: Record<string, Migration> = {
   '20261202045000_walk_tissue_nitrogen': m20261202045000,
   '20261202045137_walk_own_review_waiver': m20261202045137,
   '20261202055317_walk_plan_seed': m20261202055317,
+  '20261202061742_create_jobs_and_attempt_counts': m20261202061742,
   '20261202062741_field_boundary_proposals': m20261202062741,
 };
 

@@ -23,6 +23,7 @@ import { PROJECT_ROOT } from './platform/project-root';
 import { healthRoutes, type Lifecycle } from './platform/health';
 import type { ObjectStore } from './platform/object-store';
 import { openObjectStore } from './platform/open-object-store';
+import { createJobQueue, type JobQueue } from './platform/jobs';
 import * as people from './people';
 import * as mail from './mail';
 import * as registry from './registry';
@@ -42,6 +43,8 @@ export interface AppDeps {
   fastReads?: FastReads;
   /** Where sign-in and reset-mail attempts are counted; in memory when not given. */
   attemptStore?: people.AttemptStore;
+  /** Background jobs; made for the database when not given (server/main.ts starts and stops it). */
+  jobs?: JobQueue;
   /** The secret that signs session cookies. */
   sessionSecret: string;
   /** Where uploaded files are kept; from the settings (UPLOADS_DIR or S3_BUCKET) when not given. */
@@ -56,7 +59,8 @@ export function createApp(deps: AppDeps): Express {
   const logger = deps.logger ?? pino({ level: config.isTest ? 'silent' : config.LOG_LEVEL });
   const mailer = deps.mailer ?? mail.createMailer(db, { smtpUrl: config.SMTP_URL, from: config.MAIL_FROM, logger });
   const files = deps.files ?? openObjectStore(config);
-  const ctx: AppContext = { config, db, logger, mailer, files, reads: readCache(deps.fastReads?.dataVersion) };
+  const jobs = deps.jobs ?? createJobQueue(db, { logger });
+  const ctx: AppContext = { config, db, logger, mailer, files, jobs, reads: readCache(deps.fastReads?.dataVersion) };
 
   const app = express();
   app.set('trust proxy', config.TRUST_PROXY);

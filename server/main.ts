@@ -5,6 +5,7 @@ import { pino } from 'pino';
 import { loadConfig, type Config } from './platform/config';
 import { openConfiguredDatabase, migrateLatest, waitForDatabase, databaseTarget, describeTarget, isPostgres } from './platform/database';
 import { shutDown, type Lifecycle } from './platform/health';
+import { createJobQueue } from './platform/jobs';
 import { countOrganisations } from './platform/organisations-db';
 import { createApp } from './app';
 import { openFastReads } from './platform/fast-reads';
@@ -68,7 +69,10 @@ async function main() {
   const lifecycle: Lifecycle = { draining: false };
   const files = openObjectStore(config);
   await files.health().catch((err: Error) => logger.warn(`the file store is not ready yet: ${err.message} (GET /readyz answers 503 until it is)`));
-  const app = createApp({ config, db, logger, mailer, vite, fastReads, lifecycle, files, sessionSecret: sessionSecret(config) });
+  const jobs = createJobQueue(db, { logger });
+  const app = createApp({ config, db, logger, mailer, vite, fastReads, lifecycle, files, jobs, sessionSecret: sessionSecret(config) });
+  // Every server works on jobs (register builds, imports, reminders) from any server.
+  await jobs.start();
   const stopDailyJobs = config.DAILY_JOBS
     ? scheduleDailyJobs({ db, mailer, logger, publicUrl: config.PUBLIC_URL, daysAhead: config.REMIND_DAYS_AHEAD })
     : () => {};
@@ -96,10 +100,14 @@ async function main() {
     stopping = true;
     logger.info({ signal }, 'shutting down: finishing requests in flight');
     stopDailyJobs();
+    // No more jobs are taken here; those running finish within the grace time or go back to the
+    // queue for another server (PostgreSQL) or the next start (SQLite).
+    const jobsStopped = jobs.stop(config.SHUTDOWN_GRACE_SECONDS * 1000);
     void shutDown(server, {
       lifecycle,
       graceMs: config.SHUTDOWN_GRACE_SECONDS * 1000,
       release: async () => {
+        await jobsStopped.catch((err) => logger.error({ err }, 'job queue did not stop cleanly'));
         fastReads?.close();
         await db.destroy();
       },

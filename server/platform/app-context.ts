@@ -4,6 +4,7 @@ import type { Config } from './config';
 import type { Mailer } from './mail';
 import type { ObjectStore } from './object-store';
 import type { ReadCache } from './read-cache';
+import type { JobQueue } from './jobs';
 
 /** What every resource's routers are built with: one per app (server/app.ts makes it). */
 export interface AppContext {
@@ -15,4 +16,6 @@ export interface AppContext {
   files: ObjectStore;
   /** List answers kept while the database is unchanged (server/platform/read-cache.ts). */
   reads: ReadCache;
+  /** Background jobs (server/platform/jobs.ts): register builds, imports, the daily reminder. */
+  jobs: JobQueue;
 }

@@ -1,7 +1,7 @@
-import { randomUUID } from 'node:crypto';
 import type { Knex } from 'knex';
 import type { Logger } from 'pino';
 import { HttpError } from '../platform/errors';
+import type { JobContext, JobQueue, JobRow } from '../platform/jobs';
 import type { Units } from '../people/public';
 import { approvedWalksFor, countFields, registerRanches } from './inputs-db';
 import { getRegister, latestRegistersOfYear } from './db';
@@ -22,31 +22,37 @@ import {
 } from './service';
 
 /*
- * The organisation's register for a year (every ranch, one after the other) built in the
- * background: an in-process queue runs one job at a time, computing rows in chunks with
- * setImmediate between them so the server keeps answering. Each ranch contributes its newest
- * finalised version when one exists, else its draft computed now. Progress counts every field
- * twice: once computed, once written into the PDF. Results stay in this process's memory (at most
- * MAX_JOBS, each for an hour); several app servers would each keep their own (README).
+ * The organisation's register for a year (every ranch, one after the other) built as a background
+ * job (server/platform/jobs.ts): any app server may build it, and its progress, CSV and PDF are
+ * kept in the database, so the server that is polled need not be the one that builds. Rows are
+ * computed in chunks with setImmediate between them so the building server keeps answering. Each
+ * ranch contributes its newest finalised version when one exists, else its draft computed now.
+ * Progress counts every field twice: once computed, once written into the PDF. Results are kept
+ * for an hour.
  */
+
+export const REGISTER_BUILD = 'register-build';
 
 export type JobPhase = 'queued' | 'computing' | 'writing' | 'done' | 'failed';
 
-export interface RegisterJob {
-  id: string;
+interface BuildPayload {
   organisationId: string;
   year: number;
   units: Units;
-  createdBy: string;
-  createdAt: number;
-  phase: JobPhase;
+}
+
+interface BuildProgress {
+  phase: 'computing' | 'writing';
   fieldsTotal: number;
   fieldsComputed: number;
   fieldsWritten: number;
-  startedAt: number | null;
-  finishedAt: number | null;
-  error: string | null;
-  result: { csv: string; pdf: Buffer; ranches: number; rows: number; creditKgN: number; stem: string } | null;
+}
+
+interface BuildResult {
+  ranches: number;
+  rows: number;
+  creditKgN: number;
+  stem: string;
 }
 
 export interface JobStatus {
@@ -64,9 +70,11 @@ export interface JobStatus {
 
 export interface RegisterJobsOptions {
   db: Knex;
+  jobs: JobQueue;
   logger: Logger;
   /** Fields computed between two yields to the event loop. */
   chunk?: number;
+  /** Most builds of one organisation queued or running at once. */
   maxJobs?: number;
   ttlMs?: number;
   now?: () => number;
@@ -75,40 +83,36 @@ export interface RegisterJobsOptions {
 }
 
 const yieldToLoop = () => new Promise<void>((resolve) => setImmediate(resolve));
+const FILES = { csv: 'text/csv; charset=utf-8', pdf: 'application/pdf' } as const;
 
 export function createRegisterJobs(opts: RegisterJobsOptions) {
   const chunk = opts.chunk ?? 250;
   const maxJobs = opts.maxJobs ?? 10;
-  const ttlMs = opts.ttlMs ?? 3_600_000;
   const now = opts.now ?? Date.now;
   const base = opts.basePath ?? '/registers/jobs';
-  const jobs = new Map<string, RegisterJob>();
-  let queue: Promise<void> = Promise.resolve();
 
-  const expired = (j: RegisterJob) => j.finishedAt !== null && now() - j.finishedAt > ttlMs;
-
-  function prune() {
-    for (const [id, j] of jobs) if (expired(j)) jobs.delete(id);
-    // Over the bound: forget the oldest finished jobs first.
-    const finished = [...jobs.values()].filter((j) => j.finishedAt !== null).sort((a, b) => a.finishedAt! - b.finishedAt!);
-    while (jobs.size >= maxJobs && finished.length) jobs.delete(finished.shift()!.id);
-  }
-
-  async function run(job: RegisterJob) {
+  async function build(job: JobContext<BuildPayload, BuildProgress>): Promise<BuildResult> {
     const { db } = opts;
-    const orgId = job.organisationId;
-    job.startedAt = now();
-    job.phase = 'computing';
-    job.fieldsTotal = await countFields(db, orgId);
+    const { organisationId: orgId, year, units } = job.payload;
+    const started = now();
+    const p: BuildProgress = { phase: 'computing', fieldsTotal: await countFields(db, orgId), fieldsComputed: 0, fieldsWritten: 0 };
+    // Progress is written at most every 200 ms: every server reads it, none waits on it.
+    let saved = 0;
+    const report = async (force = false) => {
+      if (!force && now() - saved < 200) return;
+      saved = now();
+      await job.progress({ ...p });
+    };
+    await report(true);
     const today = new Date(now()).toISOString().slice(0, 10);
-    const season = seasonOfYear(job.year);
-    const rule = ruleOfRegister(await creditRuleForYear(db, orgId, job.year));
+    const season = seasonOfYear(year);
+    const rule = ruleOfRegister(await creditRuleForYear(db, orgId, year));
     const ranches = await registerRanches(db, orgId);
-    const finals = await latestRegistersOfYear(db, orgId, job.year);
-    const projectionDate = projectionDateOf(job.year, today);
+    const finals = await latestRegistersOfYear(db, orgId, year);
+    const projectionDate = projectionDateOf(year, today);
     // Drafts read the registry as it stood at each ranch's cut-off (registry-as-of.ts).
     const drafts = ranches.filter((r) => !finals.has(r.id));
-    const inputs = new Map((await registerInputs(db, orgId, job.year, drafts, {}, drafts.length === ranches.length)).map((i) => [i.ranch.id, i]));
+    const inputs = new Map((await registerInputs(db, orgId, year, drafts, {}, drafts.length === ranches.length)).map((i) => [i.ranch.id, i]));
     const docs: RegisterDoc[] = [];
     for (const ranch of ranches) {
       const fin = finals.get(ranch.id);
@@ -116,7 +120,7 @@ export function createRegisterJobs(opts: RegisterJobsOptions) {
       if (stored) {
         const doc = asFinal(parseStored(stored));
         docs.push(doc);
-        job.fieldsComputed += doc.rows.length;
+        p.fieldsComputed += doc.rows.length;
         continue;
       }
       const { ranch: asOfRanch, fields } = inputs.get(ranch.id)!;
@@ -125,28 +129,32 @@ export function createRegisterJobs(opts: RegisterJobsOptions) {
       for (let i = 0; i < fields.length; i += chunk) {
         for (const f of fields.slice(i, i + chunk)) {
           rows.push(registerRow(f, (f.plantingId && walks.get(f.plantingId)) || [], rule, projectionDate, season));
-          job.fieldsComputed += 1;
+          p.fieldsComputed += 1;
         }
+        await report();
         await yieldToLoop();
       }
-      docs.push(asDraft(assembleRegister(orgId, asOfRanch, job.year, rule, today, rows)));
+      docs.push(asDraft(assembleRegister(orgId, asOfRanch, year, rule, today, rows)));
     }
-    job.fieldsTotal = Math.max(job.fieldsTotal, job.fieldsComputed);
+    p.fieldsTotal = Math.max(p.fieldsTotal, p.fieldsComputed);
 
-    job.phase = 'writing';
-    const csv = registerCsv(docs, job.units);
+    p.phase = 'writing';
+    await report(true);
+    const csv = registerCsv(docs, units);
     const totals = summarise(docs.flatMap((d) => d.rows));
-    const u = registerUnits(job.units);
+    const u = registerUnits(units);
     const finalCount = docs.filter((d) => d.status === 'final').length;
+    const pending: Promise<void>[] = [];
     const pdf = await registerPdf(docs, {
-      units: job.units,
+      units,
       onRow: () => {
-        job.fieldsWritten += 1;
+        p.fieldsWritten += 1;
+        pending.push(report());
       },
       cover: {
-        title: `Credit registers ${job.year}`,
+        title: `Credit registers ${year}`,
         lines: [
-          `Reporting year ${job.year}: plantings of the ${season.replace('-', '–')} season, under the credit rule in effect on 1 January ${job.year} (${rule.label}).`,
+          `Reporting year ${year}: plantings of the ${season.replace('-', '–')} season, under the credit rule in effect on 1 January ${year} (${rule.label}).`,
           `${docs.length} ranches, ${totals.fields} fields: ${finalCount} ranch register(s) finalised (their newest version), ${docs.length - finalCount} draft(s) computed on ${today}.`,
           `Eligible: ${totals.eligibleFields} fields, ${u.area(totals.eligibleAreaHa)}; credit total ${u.massN(totals.creditKgN)} (${u.num(totals.creditKgN, 1)} kg N).`,
           ...docs.map(
@@ -156,79 +164,64 @@ export function createRegisterJobs(opts: RegisterJobsOptions) {
         ],
       },
     });
-    job.result = { csv, pdf, ranches: docs.length, rows: totals.fields, creditKgN: totals.creditKgN, stem: `crowntip-registers-${job.year}` };
-    job.phase = 'done';
-    job.finishedAt = now();
-    opts.logger.info({ job: job.id, fields: totals.fields, ms: job.finishedAt - job.startedAt }, 'organisation register built');
+    await Promise.all(pending);
+    await report(true);
+    await job.output('csv', FILES.csv, Buffer.from(csv, 'utf8'));
+    await job.output('pdf', FILES.pdf, pdf);
+    opts.logger.info({ job: job.id, fields: totals.fields, ms: now() - started }, 'organisation register built');
+    return { ranches: docs.length, rows: totals.fields, creditKgN: totals.creditKgN, stem: `crowntip-registers-${year}` };
+  }
+
+  opts.jobs.define(REGISTER_BUILD, build, { retries: 1, retryDelaySeconds: 5, timeoutSeconds: 30 * 60, keepFinishedMs: opts.ttlMs ?? 3_600_000 });
+
+  function status(job: JobRow<BuildPayload, BuildProgress, BuildResult>): JobStatus {
+    const p = job.progress ?? { phase: 'computing', fieldsTotal: 0, fieldsComputed: 0, fieldsWritten: 0 };
+    const phase: JobPhase = job.state === 'done' ? 'done' : job.state === 'failed' ? 'failed' : job.state === 'queued' || !job.progress ? 'queued' : p.phase;
+    const steps = 2 * p.fieldsTotal;
+    const done = p.fieldsComputed + p.fieldsWritten;
+    const percent = phase === 'done' ? 100 : steps ? Math.min(99, Math.floor((100 * done) / steps)) : 0;
+    const startedAt = job.startedAt ? Date.parse(job.startedAt) : null;
+    const result = job.state === 'done' ? job.result : null;
+    return {
+      id: job.id,
+      year: job.payload.year,
+      phase,
+      percent,
+      fieldsTotal: p.fieldsTotal,
+      fieldsComputed: p.fieldsComputed,
+      fieldsWritten: p.fieldsWritten,
+      error: phase === 'failed' ? 'The register could not be built. The error was logged; try again.' : null,
+      elapsedMs: startedAt === null ? null : (job.finishedAt ? Date.parse(job.finishedAt) : now()) - startedAt,
+      result: result ? { ranches: result.ranches, rows: result.rows, creditKgN: result.creditKgN, csvUrl: `${base}/${job.id}.csv`, pdfUrl: `${base}/${job.id}.pdf` } : null,
+    };
   }
 
   return {
     /** Queues a build of the organisation's register for the year; answers at once. */
-    start(organisationId: string, year: number, user: { id: string; units: Units }): RegisterJob {
-      prune();
-      if ([...jobs.values()].filter((j) => j.finishedAt === null).length >= maxJobs) {
+    async start(organisationId: string, year: number, user: { id: string; units: Units }): Promise<JobStatus> {
+      const active = await opts.jobs.active(organisationId);
+      if ((active[REGISTER_BUILD] ?? 0) >= maxJobs) {
         throw new HttpError('rate_limited', 'Several registers are being built already. Try again in a few minutes.');
       }
-      const job: RegisterJob = {
-        id: randomUUID(),
-        organisationId,
-        year,
-        units: user.units,
-        createdBy: user.id,
-        createdAt: now(),
-        phase: 'queued',
-        fieldsTotal: 0,
-        fieldsComputed: 0,
-        fieldsWritten: 0,
-        startedAt: null,
-        finishedAt: null,
-        error: null,
-        result: null,
-      };
-      jobs.set(job.id, job);
-      queue = queue.then(async () => {
-        await yieldToLoop(); // answer the request that queued the job first
-        try {
-          await run(job);
-        } catch (err) {
-          opts.logger.error({ err, job: job.id }, 'organisation register failed');
-          job.phase = 'failed';
-          job.error = 'The register could not be built. The error was logged; try again.';
-          job.finishedAt = now();
-        }
-      });
-      return job;
+      const payload: BuildPayload = { organisationId, year, units: user.units };
+      const { id } = await opts.jobs.enqueue(REGISTER_BUILD, payload, { organisationId, createdBy: user.id });
+      const job = await opts.jobs.get<BuildPayload, BuildProgress, BuildResult>(id, organisationId);
+      return status(job!);
     },
 
-    /** The organisation's job, or undefined (unknown, expired, or another organisation's). */
-    get(organisationId: string, id: string): RegisterJob | undefined {
-      const job = jobs.get(id);
-      if (!job || job.organisationId !== organisationId || expired(job)) return undefined;
-      return job;
+    /** The organisation's build, or undefined (unknown, expired, or another organisation's). */
+    async status(organisationId: string, id: string): Promise<JobStatus | undefined> {
+      const job = await opts.jobs.get<BuildPayload, BuildProgress, BuildResult>(id, organisationId);
+      return job && job.kind === REGISTER_BUILD ? status(job) : undefined;
     },
 
-    status(job: RegisterJob): JobStatus {
-      const steps = 2 * job.fieldsTotal;
-      const done = job.fieldsComputed + job.fieldsWritten;
-      const percent = job.phase === 'done' ? 100 : steps ? Math.min(99, Math.floor((100 * done) / steps)) : 0;
-      return {
-        id: job.id,
-        year: job.year,
-        phase: job.phase,
-        percent,
-        fieldsTotal: job.fieldsTotal,
-        fieldsComputed: job.fieldsComputed,
-        fieldsWritten: job.fieldsWritten,
-        error: job.error,
-        elapsedMs: job.startedAt === null ? null : (job.finishedAt ?? now()) - job.startedAt,
-        result: job.result
-          ? { ranches: job.result.ranches, rows: job.result.rows, creditKgN: job.result.creditKgN, csvUrl: `${base}/${job.id}.csv`, pdfUrl: `${base}/${job.id}.pdf` }
-          : null,
-      };
+    /** A finished build's file with its download name, or undefined. */
+    async file(organisationId: string, id: string, kind: keyof typeof FILES) {
+      const job = await opts.jobs.get<BuildPayload, BuildProgress, BuildResult>(id, organisationId);
+      if (!job || job.kind !== REGISTER_BUILD) return undefined;
+      const file = job.state === 'done' && job.result ? await opts.jobs.output(id, organisationId, kind) : undefined;
+      return { ready: Boolean(file), name: `${job.result?.stem ?? 'crowntip-registers'}.${kind}`, ...file };
     },
-
-    /** Resolves when every queued job has finished (tests, shutdown). */
-    idle: () => queue,
   };
 }
 

@@ -48,7 +48,7 @@ export function registerPages(ctx: AppContext): Router {
   const keyring = keyringOf(ctx.config);
   const readers = can('registers.read');
   const writers = can('registers.finalise');
-  const jobs = createRegisterJobs({ db: ctx.db, logger: ctx.logger });
+  const jobs = createRegisterJobs({ db: ctx.db, jobs: ctx.jobs, logger: ctx.logger });
   router.use('/registers', readers);
 
   const parseYear = (raw: string) => {
@@ -77,7 +77,7 @@ export function registerPages(ctx: AppContext): Router {
           bars: summary.ranches.map((r) => ({ label: r.ranchName, value: rf.massValue(r.shown.creditKgN), valueText: rf.massN(r.shown.creditKgN), muted: !r.final })),
         })
       : '';
-    const job = q.job ? jobs.get(orgId, q.job) : undefined;
+    const job = q.job ? await jobs.status(orgId, q.job) : undefined;
     res.render('registers/index', {
       title: `Credit registers ${year}`,
       year,
@@ -85,7 +85,7 @@ export function registerPages(ctx: AppContext): Router {
       summary,
       chart,
       rf,
-      job: job ? jobs.status(job) : null,
+      job: job ?? null,
       shortId,
     });
   });
@@ -94,40 +94,30 @@ export function registerPages(ctx: AppContext): Router {
   router.post('/registers/jobs', async (req, res) => {
     const y = yearParam.safeParse(req.body?.year);
     if (!y.success) throw new HttpError('invalid', 'Choose a reporting year.', { year: 'Choose a reporting year.' });
-    const job = jobs.start(contextOf(req).organisationId, y.data, contextOf(req).user);
-    const status = jobs.status(job);
+    const status = await jobs.start(contextOf(req).organisationId, y.data, contextOf(req).user);
     if (wantsJson(req)) {
-      res.status(202).json({ ...status, statusUrl: `/registers/jobs/${job.id}` });
+      res.status(202).json({ ...status, statusUrl: `/registers/jobs/${status.id}` });
       return;
     }
-    res.redirect(303, `/registers?year=${y.data}&job=${job.id}#organisation-register`);
+    res.redirect(303, `/registers?year=${y.data}&job=${status.id}#organisation-register`);
   });
 
-  const findJob = (req: Request<{ id: string }>) => {
-    const job = jobs.get(contextOf(req).organisationId, req.params.id);
-    if (!job) throw new HttpError('not_found', 'This build is unknown or has expired (results are kept for an hour). Start a new one.');
-    return job;
+  const GONE = 'This build is unknown or has expired (results are kept for an hour). Start a new one.';
+  const sendFile = (kind: 'csv' | 'pdf') => async (req: Request<{ id: string }>, res: Response) => {
+    const file = await jobs.file(contextOf(req).organisationId, req.params.id, kind);
+    if (!file) throw new HttpError('not_found', GONE);
+    if (!file.ready || !file.data) throw new HttpError('conflict', 'The register is still being built.');
+    res.setHeader('Content-Type', file.contentType!);
+    res.setHeader('Content-Disposition', `attachment; filename="${file.name}"`);
+    res.send(file.data);
   };
-  const jobResult = (req: Request<{ id: string }>) => {
-    const job = findJob(req);
-    if (!job.result) throw new HttpError('conflict', 'The register is still being built.');
-    return job.result;
-  };
-  router.get('/registers/jobs/:id.csv', (req, res) => {
-    const result = jobResult(req);
-    res.setHeader('Content-Type', 'text/csv; charset=utf-8');
-    res.setHeader('Content-Disposition', `attachment; filename="${result.stem}.csv"`);
-    res.send(result.csv);
-  });
-  router.get('/registers/jobs/:id.pdf', (req, res) => {
-    const result = jobResult(req);
-    res.setHeader('Content-Type', 'application/pdf');
-    res.setHeader('Content-Disposition', `attachment; filename="${result.stem}.pdf"`);
-    res.send(result.pdf);
-  });
-  router.get('/registers/jobs/:id', (req, res) => {
+  router.get('/registers/jobs/:id.csv', sendFile('csv'));
+  router.get('/registers/jobs/:id.pdf', sendFile('pdf'));
+  router.get('/registers/jobs/:id', async (req, res) => {
+    const status = await jobs.status(contextOf(req).organisationId, req.params.id);
+    if (!status) throw new HttpError('not_found', GONE);
     res.setHeader('Cache-Control', 'no-store');
-    res.json(jobs.status(findJob(req)));
+    res.json(status);
   });
 
   // ---- a finalised version ----

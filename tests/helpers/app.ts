@@ -5,6 +5,8 @@ import type { Knex } from 'knex';
 import { loadConfig, type Config } from '../../server/platform/config';
 import { createApp } from '../../server/app';
 import { openDatabase, migrateLatest } from '../../server/platform/database';
+import { createJobQueue, type JobQueue } from '../../server/platform/jobs';
+import { pino } from 'pino';
 import { seedDemoScenario } from '../../seeds/01_demo_scenario';
 import { createThrowawayDatabase, dropDatabase } from './postgres';
 
@@ -18,6 +20,8 @@ export interface TestApp {
   config: Config;
   /** Where the database lives: ':memory:' on SQLite, its postgres:// address on PostgreSQL. */
   target: string;
+  /** The app's job queue (in-process on SQLite, pg-boss on PostgreSQL); close() stops it. */
+  jobs: JobQueue;
   close: () => Promise<void>;
 }
 
@@ -53,33 +57,46 @@ function takeDatabase(run: { adminUrl: string; prefix: string }, template: strin
 /**
  * A fresh app on its own database, migrated and loaded with the demo scenario: in memory on
  * SQLite; in the postgres project, a throwaway PostgreSQL database copied from the run's template
- * and dropped by close().
+ * and dropped by close(). With `sameDatabaseAs`, a second app server on that app's database (its
+ * own pool and job queue on PostgreSQL; on SQLite the same in-memory database), as behind a load
+ * balancer; its close() leaves the database to the first.
  */
-export async function createTestApp(overrides: Partial<Config> = {}, { seed = true } = {}): Promise<TestApp> {
+export async function createTestApp(overrides: Partial<Config> = {}, { seed = true, sameDatabaseAs }: { seed?: boolean; sameDatabaseAs?: TestApp } = {}): Promise<TestApp> {
   const config = loadConfig({ NODE_ENV: 'test', PUBLIC_URL: 'http://crowntip.test:3000' }, { BCRYPT_ROUNDS: 4, REGISTER_SIGNING_KEY: TEST_SIGNING_KEY, ...overrides });
   const pgRun = inject('postgres');
   let db: Knex;
   let target = ':memory:';
   let drop = async () => {};
-  if (pgRun) {
+  let release = async () => {};
+  if (sameDatabaseAs) {
+    target = sameDatabaseAs.target;
+    db = pgRun ? openDatabase(target, { poolMax: 4 }) : sameDatabaseAs.db;
+    if (pgRun) release = () => db.destroy();
+  } else if (pgRun) {
     const made = await takeDatabase(pgRun, seed ? pgRun.seededTemplate : pgRun.emptyTemplate);
     target = made.url;
     db = openDatabase(made.url, { poolMax: 4 });
+    release = () => db.destroy();
     // Not awaited: the next test need not wait for it; the run's teardown drops any left behind.
     drop = async () => void dropDatabase(pgRun.adminUrl, made.name).catch(() => {});
   } else {
     db = openDatabase(':memory:');
+    release = () => db.destroy();
     await prepareTestDatabase(db, seed);
   }
-  const app = createApp({ config, db, sessionSecret: TEST_SESSION_SECRET });
+  // Jobs are looked for every half second on PostgreSQL (2 s in production) so tests wait less.
+  const jobs = createJobQueue(db, { logger: pino({ level: 'silent' }), pollSeconds: 0.5, maintenanceSeconds: 1 });
+  const app = createApp({ config, db, jobs, sessionSecret: TEST_SESSION_SECRET });
   return {
     app,
     db,
     config,
     target,
+    jobs,
     close: async () => {
+      await jobs.stop(1000);
       await settled(db);
-      await db.destroy();
+      await release();
       await drop();
     },
   };
