@@ -71,11 +71,11 @@ async function main() {
   await files.health().catch((err: Error) => logger.warn(`the file store is not ready yet: ${err.message} (GET /readyz answers 503 until it is)`));
   const jobs = createJobQueue(db, { logger });
   const app = createApp({ config, db, logger, mailer, vite, fastReads, lifecycle, files, jobs, sessionSecret: sessionSecret(config) });
-  // Every server works on jobs (register builds, imports, reminders) from any server.
-  await jobs.start();
   const stopDailyJobs = config.DAILY_JOBS
-    ? scheduleDailyJobs({ db, mailer, logger, publicUrl: config.PUBLIC_URL, daysAhead: config.REMIND_DAYS_AHEAD })
+    ? scheduleDailyJobs({ db, jobs, mailer, logger, publicUrl: config.PUBLIC_URL, daysAhead: config.REMIND_DAYS_AHEAD })
     : () => {};
+  // Every server works on jobs (register builds, imports, reminders) queued by any server.
+  await jobs.start();
   const server = app.listen(config.PORT, config.HOST, () => {
     const url = config.PUBLIC_URL;
     const lines = [

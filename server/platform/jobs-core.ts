@@ -99,19 +99,19 @@ export async function runAttempt(
     payload: row.payload,
     organisationId: row.organisationId,
     attempt: row.attempts,
-    progress: (p) => jobsDb.saveProgress(db, id, p),
+    progress: (p) => jobsDb.saveProgress(db, id, row.attempts, p),
     output: (name, type, data) => jobsDb.putOutput(db, id, name, type, data),
   };
   try {
     const result = await def.handler(ctx);
-    await jobsDb.finishJob(db, id, { state: 'done', result: result ?? null });
+    await jobsDb.finishJob(db, id, row.attempts, { state: 'done', result: result ?? null });
     return 'done';
   } catch (err) {
     const message = err instanceof Error ? err.message : String(err);
     const last = isLastAttempt(row);
     logger.error({ err, job: id, kind: def.kind, attempt: row.attempts, last }, last ? 'job failed' : 'job failed; it will be tried again');
-    if (last) await jobsDb.finishJob(db, id, { state: 'failed', error: message });
-    else await jobsDb.requeueJob(db, id, message);
+    if (last) await jobsDb.finishJob(db, id, row.attempts, { state: 'failed', error: message });
+    else await jobsDb.requeueJob(db, id, row.attempts, message);
     return { retry: !last, err };
   }
 }

@@ -130,26 +130,28 @@ export async function claimJob(db: Knex, id: string): Promise<JobRow | undefined
   return n ? getJob(db, id) : undefined;
 }
 
-export async function saveProgress(db: Knex, id: string, progress: unknown): Promise<void> {
-  await db('jobs').where({ id, state: 'running' }).update({ progress: JSON.stringify(progress) });
+// Writes below name the attempt: one handed to another server while still running here (a slow
+// shutdown) cannot overwrite what the newer attempt records.
+export async function saveProgress(db: Knex, id: string, attempt: number, progress: unknown): Promise<void> {
+  await db('jobs').where({ id, attempts: attempt, state: 'running' }).update({ progress: JSON.stringify(progress) });
 }
 
 /** Ends the job; its singleton key is let go unless it was taken for ever and the job is done. */
-export async function finishJob(db: Knex, id: string, end: { state: 'done' | 'failed'; result?: unknown; error?: string | null }) {
+export async function finishJob(db: Knex, id: string, attempt: number, end: { state: 'done' | 'failed'; result?: unknown; error?: string | null }) {
   const update = {
     state: end.state,
     result: end.result === undefined ? null : JSON.stringify(end.result),
     error: end.error ?? null,
     finished_at: nowIso(),
   };
-  await db('jobs').where({ id }).update(update);
+  if (!(await db('jobs').where({ id, attempts: attempt, state: 'running' }).update(update))) return;
   const release = db('jobs').where({ id }).whereNotNull('singleton_key');
   await (end.state === 'done' ? release.where({ keep_key: false }) : release).update({ singleton_key: null });
 }
 
 /** Back in the queue after a failed attempt, with what went wrong. */
-export async function requeueJob(db: Knex, id: string, error: string): Promise<void> {
-  await db('jobs').where({ id }).whereIn('state', UNFINISHED).update({ state: 'queued', error });
+export async function requeueJob(db: Knex, id: string, attempt: number, error: string): Promise<void> {
+  await db('jobs').where({ id, attempts: attempt, state: 'running' }).update({ state: 'queued', error });
 }
 
 /** Queued or running jobs of the kinds (a restarted in-process queue takes them up again). */

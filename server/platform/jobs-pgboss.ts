@@ -29,8 +29,12 @@ export function pgBossQueue(db: Knex, opts: JobQueueOptions): JobQueue {
 
   async function ensureQueue(def: Definition, update = true) {
     const queue = { name: def.kind, retryLimit: def.retries, retryDelay: def.retryDelaySeconds, expireInSeconds: def.timeoutSeconds };
-    await boss.createQueue(def.kind, queue); // does nothing when the queue exists
-    if (update) await boss.updateQueue(def.kind, queue);
+    // Two servers making one queue at once deadlock inside pg-boss: one at a time, under a lock.
+    await db.transaction(async (trx) => {
+      await trx.raw('select pg_advisory_xact_lock(hashtext(?))', ['crowntip job queues']);
+      if (!(await boss.getQueue(def.kind))) await boss.createQueue(def.kind, queue);
+      else if (update) await boss.updateQueue(def.kind, queue);
+    });
   }
 
   async function work(def: Definition) {
