@@ -24,6 +24,7 @@ import { healthRoutes, type Lifecycle } from './platform/health';
 import type { ObjectStore } from './platform/object-store';
 import { openObjectStore } from './platform/open-object-store';
 import { createJobQueue, type JobQueue } from './platform/jobs';
+import { isPostgres } from './platform/database';
 import * as people from './people';
 import * as mail from './mail';
 import * as registry from './registry';
@@ -41,7 +42,7 @@ export interface AppDeps {
   vite?: ViteDevServer;
   /** Prepared-statement reads of sessions and users on a database file (see server/platform/fast-reads.ts). */
   fastReads?: FastReads;
-  /** Where sign-in and reset-mail attempts are counted; in memory when not given. */
+  /** Where sign-in, reset-mail and upload attempts are counted; the database on PostgreSQL (every server counts together), else memory. */
   attemptStore?: people.AttemptStore;
   /** Background jobs; made for the database when not given (server/main.ts starts and stops it). */
   jobs?: JobQueue;
@@ -125,7 +126,7 @@ export function createApp(deps: AppDeps): Express {
       forgotPerAddress: config.FORGOT_LIMIT_PER_ADDRESS,
       forgotPerAccount: config.FORGOT_LIMIT_PER_ACCOUNT,
     },
-    deps.attemptStore,
+    deps.attemptStore ?? (isPostgres(db) ? new people.DatabaseAttemptStore(db) : undefined),
   );
   app.post('/login', limits.signIn);
   app.post('/api/session', limits.signIn);

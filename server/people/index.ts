@@ -7,3 +7,4 @@ export { userAdminPages } from './user-pages';
 export { configurePassport, sessionUser } from './passport';
 export { SessionStore } from './session-store';
 export { accessLimits, MemoryAttemptStore, type AttemptStore, type AccessLimits } from './sign-in-limits';
+export { DatabaseAttemptStore } from './attempts-db';
