@@ -94,6 +94,14 @@ export async function insertField(db: Knex, organisationId: string, field: Field
   return id;
 }
 
+/** Inserts many fields, 500 rows per statement; ids are made here, in the order given. */
+export async function insertFields(db: Knex, organisationId: string, fields: FieldWrite[]): Promise<string[]> {
+  const now = nowIso();
+  const rows = fields.map((f) => ({ id: randomUUID(), organisation_id: organisationId, ...toRow(f), created_at: now, updated_at: now }));
+  for (let i = 0; i < rows.length; i += 500) await db('fields').insert(rows.slice(i, i + 500));
+  return rows.map((r) => r.id);
+}
+
 export async function updateField(db: Knex, organisationId: string, id: string, changes: Partial<FieldWrite>): Promise<void> {
   await inOrganisation(db, 'fields', organisationId).where('id', id).update({ ...toRow(changes), updated_at: nowIso() });
 }

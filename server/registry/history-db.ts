@@ -43,6 +43,24 @@ export async function appendChange(db: Knex, organisationId: string, c: ChangeWr
   });
 }
 
+/** Appends many entries in order, 500 per statement (an import's). */
+export async function appendChanges(db: Knex, organisationId: string, changes: ChangeWrite[]): Promise<void> {
+  const at = nowIso();
+  const rows = changes.map((c) => ({
+    organisation_id: organisationId,
+    entity_type: c.entityType,
+    entity_id: c.entityId,
+    action: c.action,
+    user_id: c.user?.id ?? null,
+    user_name: c.user?.name ?? null,
+    at,
+    before: c.before ? JSON.stringify(c.before) : null,
+    after: c.after ? JSON.stringify(c.after) : null,
+    summary: c.summary.slice(0, 500),
+  }));
+  for (let i = 0; i < rows.length; i += 500) await db('change_history').insert(rows.slice(i, i + 500));
+}
+
 export interface HistoryQuery {
   entityType?: EntityType;
   entityId?: string;

@@ -121,11 +121,28 @@ const toRow = (p: Partial<PlantingWrite>) => {
   return row;
 };
 
+/** Rows per multi-row insert: well under SQLite's and PostgreSQL's limits on bound values. */
+const INSERT_CHUNK = 500;
+
 export async function insertPlanting(db: Knex, organisationId: string, p: PlantingWrite): Promise<string> {
   const id = randomUUID();
   const now = nowIso();
   await db('plantings').insert({ id, organisation_id: organisationId, ...toRow(p), created_at: now, updated_at: now });
   return id;
+}
+
+/**
+ * Inserts many plantings, a few hundred rows per statement (the import: one statement per row took
+ * ~26 s for 10,000 rows on PostgreSQL); ids are made here, in the order given.
+ */
+export async function insertPlantings(db: Knex, organisationId: string, plantings: PlantingWrite[], onChunk: (done: number) => Promise<void> | void = () => {}): Promise<string[]> {
+  const now = nowIso();
+  const rows = plantings.map((p) => ({ id: randomUUID(), organisation_id: organisationId, ...toRow(p), created_at: now, updated_at: now }));
+  for (let i = 0; i < rows.length; i += INSERT_CHUNK) {
+    await db('plantings').insert(rows.slice(i, i + INSERT_CHUNK));
+    await onChunk(Math.min(rows.length, i + INSERT_CHUNK));
+  }
+  return rows.map((r) => r.id);
 }
 
 export async function updatePlanting(db: Knex, organisationId: string, id: string, changes: Partial<PlantingWrite>): Promise<void> {

@@ -2,7 +2,7 @@ import type { Knex } from 'knex';
 import * as ranchesDb from '../ranches-db';
 import * as fieldsDb from '../fields-db';
 import * as plantingsDb from '../plantings-db';
-import { appendChange } from '../history-db';
+import { appendChange, appendChanges, type ChangeWrite } from '../history-db';
 import { cropName } from '../../../shared/registry/crops';
 import { Mapping } from './columns';
 import { ParsedCsv } from './read';
@@ -102,49 +102,55 @@ export async function commitImport(
       fieldIds.set(key, f.id);
       fieldNames.set(key, f.name);
     }
-    for (const f of check.newFields) {
-      const name = f.name.trim();
-      const ranchId = ranchIds.get(f.ranchKey)!;
-      const id = await fieldsDb.insertField(trx, org, { ranchId, name, areaHa: f.areaHa!, boundary: null, boundaryAreaHa: null, notes: null });
-      fieldIds.set(f.key, id);
-      fieldNames.set(f.key, name);
-      await appendChange(trx, org, {
-        entityType: 'field',
-        entityId: id,
-        action: 'import',
-        user,
-        before: null,
-        after: { ranchId, name, areaHa: f.areaHa, boundary: null, notes: null },
-        summary: `Field “${name}” created on ${ranchNames.get(f.ranchKey)} by the import of “${file}” (row ${f.line})`,
-      });
-    }
+    // Fields and plantings go in a few hundred rows per statement, each with its history entry.
+    const newFields = check.newFields.map((f) => ({ ranchId: ranchIds.get(f.ranchKey)!, name: f.name.trim(), areaHa: f.areaHa!, boundary: null, boundaryAreaHa: null, notes: null }));
+    const newFieldIds = await fieldsDb.insertFields(trx, org, newFields);
+    await appendChanges(
+      trx,
+      org,
+      check.newFields.map((f, i): ChangeWrite => {
+        const { ranchId, name, areaHa } = newFields[i];
+        fieldIds.set(f.key, newFieldIds[i]);
+        fieldNames.set(f.key, name);
+        return {
+          entityType: 'field',
+          entityId: newFieldIds[i],
+          action: 'import',
+          user,
+          before: null,
+          after: { ranchId, name, areaHa, boundary: null, notes: null },
+          summary: `Field “${name}” created on ${ranchNames.get(f.ranchKey)} by the import of “${file}” (row ${f.line})`,
+        };
+      }),
+    );
 
-    let done = 0;
-    for (const row of check.rows) {
-      const fieldId = fieldIds.get(row.fieldKey)!;
-      const planting = {
-        fieldId,
-        season: row.season!,
-        crop: row.crop!,
-        variety: row.variety,
-        seededOn: row.seededOn!,
-        seedingRateKgHa: row.seedingRateKgHa,
-        plannedTerminationOn: row.plannedTerminationOn,
-        terminatedOn: row.terminatedOn,
-        notes: row.notes,
-      };
-      const id = await plantingsDb.insertPlanting(trx, org, planting);
-      await appendChange(trx, org, {
-        entityType: 'planting',
-        entityId: id,
-        action: 'import',
-        user,
-        before: null,
-        after: planting,
-        summary: `Planting ${row.season} (${cropName(row.crop ?? 'other')}) on ${fieldNames.get(row.fieldKey)}, ${ranchNames.get(row.ranchKey)}, imported from “${file}” (row ${row.line})`,
-      });
-      if (++done % 500 === 0) onProgress({ phase: 'writing', done, total });
-    }
+    const plantings = check.rows.map((row) => ({
+      fieldId: fieldIds.get(row.fieldKey)!,
+      season: row.season!,
+      crop: row.crop!,
+      variety: row.variety,
+      seededOn: row.seededOn!,
+      seedingRateKgHa: row.seedingRateKgHa,
+      plannedTerminationOn: row.plannedTerminationOn,
+      terminatedOn: row.terminatedOn,
+      notes: row.notes,
+    }));
+    const plantingIds = await plantingsDb.insertPlantings(trx, org, plantings, (done) => onProgress({ phase: 'writing', done, total }));
+    await appendChanges(
+      trx,
+      org,
+      check.rows.map(
+        (row, i): ChangeWrite => ({
+          entityType: 'planting',
+          entityId: plantingIds[i],
+          action: 'import',
+          user,
+          before: null,
+          after: plantings[i],
+          summary: `Planting ${row.season} (${cropName(row.crop ?? 'other')}) on ${fieldNames.get(row.fieldKey)}, ${ranchNames.get(row.ranchKey)}, imported from “${file}” (row ${row.line})`,
+        }),
+      ),
+    );
     onProgress({ phase: 'writing', done: total, total });
     return {
       ok: true,
