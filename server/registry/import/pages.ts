@@ -60,7 +60,7 @@ const previewUrl = (id: string, params?: Record<string, string>, extra: Record<s
 const resultUrl = (id: string) => `${BASE}/${id}/result`;
 
 export function registryImportPages(ctx: AppContext): Router {
-  const imports = createRegistryImports(ctx.db, ctx.files);
+  const imports = createRegistryImports(ctx.db, ctx.files, ctx.jobs);
   const router = Router();
   router.use(can('registry.write'));
 
@@ -145,10 +145,11 @@ export function registryImportPages(ctx: AppContext): Router {
     const meta = await imports.load(contextOf(req).organisationId, idParam(req));
     if (meta.status === 'imported') return res.redirect(303, resultUrl(meta.id));
     const preview = await imports.preview(meta, req.query as Record<string, unknown>, unitsOf(req));
-    renderPreview(res, preview, 200, req.query.failed === '1');
+    await renderPreview(res, preview, 200, req.query.failed === '1');
   }
 
-  function renderPreview(res: Response, p: ImportPreview, status: number, failed: boolean) {
+  async function renderPreview(res: Response, p: ImportPreview, status: number, failed: boolean) {
+    const running = await imports.isRunning(p.meta.organisationId, p.meta.id);
     const { check, parsed, mapping } = p;
     const used = new Set(Object.values(mapping.columns).filter((i) => i !== null));
     const cropLabels = Object.fromEntries(p.crops.map((c) => [c.code, c.label]));
@@ -181,7 +182,7 @@ export function registryImportPages(ctx: AppContext): Router {
       cropLabels,
       canImport: canImport(check),
       failed,
-      running: imports.jobs.isRunning(p.meta.id),
+      running,
       errorsUrl: `${BASE}/${p.meta.id}/errors.csv?${new URLSearchParams(params)}`,
       num: (n: number, digits = 2) => n.toLocaleString('en-US', { maximumFractionDigits: digits }),
     });
@@ -197,7 +198,7 @@ export function registryImportPages(ctx: AppContext): Router {
       total: job?.total ?? meta.result?.rows ?? 0,
       percent: job ? jobPercent(job) : phase === 'imported' ? 100 : 0,
       result: job?.result ?? meta.result ?? null,
-      problemCount: job?.check ? job.check.problems.length + job.check.fileProblems.length : null,
+      problemCount: job?.problemCount ?? null,
       message: phase === 'error' ? 'The import stopped on an error and nothing was written. Try again; if it happens again, the error is in the server log.' : null,
       previewUrl: previewUrl(meta.id, params, phase === 'failed' ? { failed: '1' } : {}),
       statusUrl: `${BASE}/${meta.id}/status`,
@@ -216,27 +217,27 @@ export function registryImportPages(ctx: AppContext): Router {
     }
     const { job } = start;
     if (wantsJson(req)) return res.status(202).json(statusBody(meta, job));
-    // Without JavaScript: wait for the job, then show the result or the problems.
-    await job.promise;
-    if (job.phase === 'imported') return res.redirect(303, resultUrl(meta.id));
-    if (job.phase === 'failed') {
-      const again = await imports.preview(await imports.load(meta.organisationId, meta.id), mappingToParams(job.mapping), unitsOf(req));
+    // Without JavaScript: wait for the job (on whichever server runs it), then show the result or the problems.
+    const ended = await imports.waitFor(meta.organisationId, job);
+    if (ended.phase === 'imported') return res.redirect(303, resultUrl(meta.id));
+    if (ended.phase === 'failed') {
+      const again = await imports.preview(await imports.load(meta.organisationId, meta.id), mappingToParams(ended.mapping), unitsOf(req));
       return renderPreview(res, again, 400, true);
     }
-    ctx.logger.error({ err: job.error, importId: meta.id }, 'registry import failed');
+    if (ended.phase !== 'error') return res.redirect(303, previewUrl(meta.id, mappingToParams(ended.mapping)));
+    ctx.logger.error({ message: ended.message, importId: meta.id }, 'registry import failed');
     throw new HttpError('internal', 'The import stopped on an error and nothing was written. Try again; if it happens again, the error is in the server log.');
   }
 
   async function status(req: Request, res: Response) {
     const meta = await imports.load(contextOf(req).organisationId, idParam(req));
-    const job = imports.jobs.get(meta.organisationId, meta.id);
-    if (job?.phase === 'error' && job.error) ctx.logger.error({ err: job.error, importId: meta.id }, 'registry import failed');
+    const job = await imports.latestJob(meta.organisationId, meta.id);
     res.set('Cache-Control', 'no-store').json(statusBody(meta, job));
   }
 
   async function resultPage(req: Request, res: Response) {
     const meta = await imports.load(contextOf(req).organisationId, idParam(req));
-    const job = imports.jobs.get(meta.organisationId, meta.id);
+    const job = await imports.latestJob(meta.organisationId, meta.id);
     const result = meta.result ?? (job?.phase === 'imported' ? job.result : undefined);
     if (!result) return res.redirect(303, previewUrl(meta.id, meta.mapping && mappingToParams(meta.mapping)));
     res.render('registry/import-result', { title: 'Import finished', meta, result, ranchListUrl: RANCH_LIST_URL, seasonUrl, importUrl: BASE });

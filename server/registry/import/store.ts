@@ -2,7 +2,6 @@ import { randomBytes } from 'node:crypto';
 import type { ObjectStore } from '../../platform/object-store';
 import { readAll } from '../../platform/object-store';
 import { Mapping } from './columns';
-import { CheckResult } from './check';
 import { ImportResult } from './write';
 
 // 6. Uploads kept between preview and commit ------------------------------------------------
@@ -82,25 +81,22 @@ export class ImportStore {
   }
 }
 
-// 7. Jobs: the commit runs in the background and the page polls its progress -------------------
+// 7. Jobs: the commit runs in the background (server/platform/jobs.ts) and the page polls it -------
 
 export type JobPhase = 'checking' | 'writing' | 'imported' | 'failed' | 'error';
 
+/** An import's commit as the pages show it, from its job (readable on every server). */
 export interface ImportJob {
   id: string;
-  organisationId: string;
   phase: JobPhase;
   done: number;
   total: number;
   result?: ImportResult;
-  /** On "failed": the check that found problems (nothing was written). */
-  check?: CheckResult;
+  /** On "failed": how many problems the check found (nothing was written). */
+  problemCount?: number;
   mapping: Mapping;
+  /** On "error": what went wrong, for the log. */
   message?: string;
-  /** What went wrong, for the log. */
-  error?: unknown;
-  finishedAt?: number;
-  promise: Promise<void>;
 }
 
 /** Progress as one number: checking is the first half, writing the second. */
@@ -110,43 +106,4 @@ export function jobPercent(job: Pick<ImportJob, 'phase' | 'done' | 'total'>): nu
   if (job.phase === 'checking') return Math.floor(50 * part);
   if (job.phase === 'writing') return 50 + Math.floor(49 * part);
   return 0;
-}
-
-/**
- * In-process jobs, one per upload at a time. The transaction is all-or-nothing whatever happens to
- * this list; the list only serves progress. Finished jobs are forgotten after ten minutes (the
- * sidecar keeps an import's final status).
- */
-export class ImportJobs {
-  private jobs = new Map<string, ImportJob>();
-
-  get(organisationId: string, id: string): ImportJob | undefined {
-    this.forgetOld();
-    const job = this.jobs.get(id);
-    return job && job.organisationId === organisationId ? job : undefined;
-  }
-
-  isRunning(id: string): boolean {
-    const job = this.jobs.get(id);
-    return Boolean(job && (job.phase === 'checking' || job.phase === 'writing'));
-  }
-
-  /** Registers the job before its first await, so two quick commits of one upload start it once. */
-  start(id: string, organisationId: string, mapping: Mapping, total: number, run: (job: ImportJob) => Promise<void>): ImportJob {
-    const job = { id, organisationId, phase: 'checking', done: 0, total, mapping } as ImportJob;
-    this.jobs.set(id, job);
-    job.promise = run(job).catch((err: unknown) => {
-      job.error = err;
-      if (job.phase === 'imported') return; // written and committed; only the sidecar failed
-      job.phase = 'error';
-      job.message = err instanceof Error ? err.message : String(err);
-      job.finishedAt = Date.now();
-    });
-    return job;
-  }
-
-  private forgetOld() {
-    const cutoff = Date.now() - 10 * 60_000;
-    for (const [id, job] of this.jobs) if (job.finishedAt && job.finishedAt < cutoff) this.jobs.delete(id);
-  }
 }
