@@ -1,5 +1,6 @@
 import type { Knex } from 'knex';
 import { addDaysIso } from '../../shared/registry/season';
+import { jsonValue } from '../platform/json-column';
 
 /*
  * The office home's work queue: what the office has to do next, each with its count, the oldest
@@ -21,6 +22,22 @@ export interface WorkQueue {
   overdue: { count: number };
   /** Ranches without a finalised register of the reporting year. */
   draftRegisters: { count: number };
+  /** Registry imports and organisation register builds queued or running (any server); `latest` is the newest. */
+  imports: { count: number; latest: { id: string; uploadId: string } | null };
+  registerBuilds: { count: number; latest: { id: string; year: number } | null };
+}
+
+// The job kinds as server/registry/import/service.ts and server/registers/jobs.ts name them.
+const IMPORT_JOB = 'registry-import';
+const BUILD_JOB = 'register-build';
+
+/** Queued and running jobs of one kind: how many, and the newest with its payload. */
+async function activeJobs(db: Knex, organisationId: string, kind: string) {
+  const active = db('jobs').where({ organisation_id: organisationId, kind }).whereIn('state', ['queued', 'running']);
+  const n = await active.clone().count({ n: '*' }).first();
+  const newest = await active.clone().orderBy('created_at', 'desc').first('id', 'subject', 'payload');
+  const payload = newest ? (jsonValue<{ year?: number }>(newest.payload) ?? {}) : {};
+  return { count: Number(n?.n ?? 0), newest: newest ? { id: newest.id as string, subject: newest.subject as string | null, year: payload.year } : null };
 }
 
 /** The reporting year whose season contains the date: the winter in progress ends in it. */
@@ -52,6 +69,8 @@ export async function workQueue(db: Knex, organisationId: string, today: string)
     .whereNotExists(db('registers').whereRaw('registers.ranch_id = ranches.id').where('registers.year', year))
     .count({ n: '*' })
     .first();
+  const imports = await activeJobs(db, organisationId, IMPORT_JOB);
+  const builds = await activeJobs(db, organisationId, BUILD_JOB);
   return {
     today,
     reportingYear: year,
@@ -59,5 +78,7 @@ export async function workQueue(db: Knex, organisationId: string, today: string)
     dueSoon: { count: Number(soon?.n ?? 0) },
     overdue: { count: Number(late?.n ?? 0) },
     draftRegisters: { count: Number(drafts?.n ?? 0) },
+    imports: { count: imports.count, latest: imports.newest?.subject ? { id: imports.newest.id, uploadId: imports.newest.subject } : null },
+    registerBuilds: { count: builds.count, latest: builds.newest?.year ? { id: builds.newest.id, year: builds.newest.year } : null },
   };
 }

@@ -134,4 +134,35 @@ describe('the office work queue', () => {
     expect(res.status).toBe(302);
     expect(res.headers.location).toBe('/capture');
   });
+
+  it('counts the imports and register builds running or waiting, on any server, with links to follow them', async () => {
+    const job = (id: string, kind: string, state: string, extra: Record<string, unknown> = {}) =>
+      t.db('jobs').insert({ id, kind, state, organisation_id: ORG, payload: '{}', max_attempts: 1, created_at: new Date(Date.now() - 1000 * Number(id.slice(-1))).toISOString(), ...extra });
+    const upload = 'a'.repeat(32);
+    // Running: one import (newest), one queued import, one build of 2026; not counted: a finished
+    // import, a failed build, and another organisation's running build.
+    await job('00000000-0000-4000-8000-000000000001', 'registry-import', 'running', { subject: upload });
+    await job('00000000-0000-4000-8000-000000000002', 'registry-import', 'queued', { subject: 'b'.repeat(32) });
+    await job('00000000-0000-4000-8000-000000000003', 'register-build', 'running', { payload: JSON.stringify({ organisationId: ORG, year: 2026 }) });
+    await job('00000000-0000-4000-8000-000000000004', 'registry-import', 'done', { subject: 'c'.repeat(32) });
+    await job('00000000-0000-4000-8000-000000000005', 'register-build', 'failed');
+    await job('00000000-0000-4000-8000-000000000006', 'register-build', 'running', { organisation_id: DEMO_ORGANISATIONS[1].id });
+
+    const q = await workQueue(t.db, ORG, TODAY);
+    expect(q.imports).toEqual({ count: 2, latest: { id: '00000000-0000-4000-8000-000000000001', uploadId: upload } });
+    expect(q.registerBuilds).toEqual({ count: 1, latest: { id: '00000000-0000-4000-8000-000000000003', year: 2026 } });
+
+    const clerk = await signInPages(t.app, 'clerk@crowntip.test');
+    const page = await clerk.get('/office');
+    expect(page.text).toMatch(/data-queue="running-jobs"[\s\S]*?data-count>3</);
+    expect(page.text).toContain('2 registry imports, 1 register build');
+    expect(page.text).toContain(`href="/registry/import/${upload}">Follow the import`);
+    expect(page.text).toContain('href="/registers?year=2026&amp;job=00000000-0000-4000-8000-000000000003#organisation-register">Follow the register build');
+
+    // Once they end, the card says nothing runs and where to start one.
+    await t.db('jobs').update({ state: 'done' });
+    const empty = await clerk.get('/office');
+    expect(empty.text).toMatch(/data-queue="running-jobs"[\s\S]*?data-count>0</);
+    expect(empty.text).toContain('Nothing is running. Imports start from');
+  });
 });
