@@ -125,11 +125,13 @@ export function createApp(deps: AppDeps): Express {
       slowdownMs: config.SIGNIN_SLOWDOWN_MS,
       forgotPerAddress: config.FORGOT_LIMIT_PER_ADDRESS,
       forgotPerAccount: config.FORGOT_LIMIT_PER_ACCOUNT,
+      uploadsPerHour: config.UPLOAD_LIMIT_PER_HOUR,
     },
     deps.attemptStore ?? (isPostgres(db) ? new people.DatabaseAttemptStore(db) : undefined),
   );
   app.post('/login', limits.signIn);
   app.post('/api/session', limits.signIn);
+  app.use(limits.uploads); // before any multipart body is read
 
   // Page defaults first, so that even a page rejected by the CSRF check renders its error.
   app.locals.assets = readOfficeAssets(Boolean(deps.vite));

@@ -43,6 +43,7 @@ export class MemoryAttemptStore implements AttemptStore {
 
 export const WINDOW_MS = 15 * 60 * 1000;
 const FORGOT_WINDOW_MS = 60 * 60 * 1000;
+const UPLOAD_WINDOW_MS = 60 * 60 * 1000;
 const MAX_DELAY_MS = 10_000;
 
 export interface AccessLimitSettings {
@@ -57,6 +58,8 @@ export interface AccessLimitSettings {
   /** Reset e-mails per client address, and per target account, per hour. */
   forgotPerAddress: number;
   forgotPerAccount: number;
+  /** Multipart uploads (photos, CSV and boundary files) per signed-in user, or per address, per hour. */
+  uploadsPerHour: number;
 }
 
 /**
@@ -121,7 +124,29 @@ export function accessLimits(settings: AccessLimitSettings, store: AttemptStore 
     return byAddress <= settings.forgotPerAddress && byAccount <= settings.forgotPerAccount;
   }
 
-  return { signIn, allowResetMail };
+  /**
+   * Counts every multipart upload (photos, registry and calibration CSVs, boundary files) before
+   * its body is read, per user (per address when signed out), in the same store as the sign-in
+   * counters, so every server counts against one limit.
+   */
+  const uploads: RequestHandler = async (req, _res, next) => {
+    try {
+      if (req.method === 'GET' || req.method === 'HEAD' || !req.is('multipart/form-data')) return next();
+      const who = req.context?.user?.id ?? `addr:${addressOf(req)}`;
+      const count = await store.hit(`upload:${who}`, UPLOAD_WINDOW_MS);
+      if (count > settings.uploadsPerHour) {
+        throw new HttpError(
+          'rate_limited',
+          `${settings.uploadsPerHour} files have been sent from this account in the last hour, the most this server takes. Nothing of this file was kept; wait a while, then send it again.`,
+        );
+      }
+      next();
+    } catch (err) {
+      next(err);
+    }
+  };
+
+  return { signIn, allowResetMail, uploads };
 }
 
 export type AccessLimits = ReturnType<typeof accessLimits>;

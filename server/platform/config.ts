@@ -84,6 +84,8 @@ const envSchema = z.object({
   FORGOT_LIMIT_PER_ADDRESS: z.coerce.number().int().positive().default(10),
   /** Password-reset e-mails per account per hour. */
   FORGOT_LIMIT_PER_ACCOUNT: z.coerce.number().int().positive().default(3),
+  /** Uploads (photos, CSV and boundary files) per user per hour. */
+  UPLOAD_LIMIT_PER_HOUR: z.coerce.number().int().positive().default(600),
   /** Sampling reminders cover plantings whose planned termination is within this many days. */
   REMIND_DAYS_AHEAD: z.coerce.number().int().min(1).max(120).default(14),
   /** Run the daily jobs (sampling reminders) inside the server; false when an outside scheduler runs `npm run remind`. */

@@ -1,11 +1,11 @@
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import request from 'supertest';
-import { createTestApp, DEMO_PASSWORD, settled, type TestApp } from '../helpers/app';
+import { createTestApp, DEMO_PASSWORD, settled, signInApi, type TestApp } from '../helpers/app';
 import { DatabaseAttemptStore } from '../../server/people/attempts-db';
 
 /*
  * Two app servers on one PostgreSQL database count sign-in failures and reset e-mails in one
- * store (table attempt_counts), so a client alternating between them meets one limit.
+ * store (table attempt_counts), so a client alternating between them meets one limit; uploads too.
  */
 let a: TestApp;
 let b: TestApp;
@@ -32,6 +32,25 @@ describe('limits shared by two servers', () => {
     expect(await signIn(b, DEMO_PASSWORD)).toBe(429);
     const stored = await a.db('attempt_counts').where({ key: 'pair:clerk@crowntip.test|203.0.113.9' }).first();
     expect(Number(stored.count)).toBe(5);
+  });
+
+  it('counts uploads sent to A and B against one hourly limit', async () => {
+    const small = await createTestApp({ UPLOAD_LIMIT_PER_HOUR: 2 }, { sameDatabaseAs: a });
+    const smallB = await createTestApp({ UPLOAD_LIMIT_PER_HOUR: 2 }, { sameDatabaseAs: a });
+    try {
+      const onA = await signInApi(small.app, 'sampler@crowntip.test');
+      const onB = await signInApi(smallB.app, 'sampler@crowntip.test');
+      const png = Buffer.from('iVBORw0KGgoAAAANSUhEUgAAAAEAAAABCAIAAACQd1PeAAAADElEQVR4nGPwqtEDAAIIAPXOsRDEAAAAAElFTkSuQmCC', 'base64');
+      const send = (c: typeof onA) => c.agent.post('/api/walks/00000000-0000-4000-8000-0000000000aa/photos').set('X-CSRF-Token', c.csrf).field('stop', '1').attach('photo', png, 'stop.png');
+      // One upload on each server (both reach the route: no such walk), then the third is refused on either.
+      expect((await send(onA)).status).toBe(404);
+      expect((await send(onB)).status).toBe(404);
+      expect((await send(onA)).status).toBe(429);
+      expect((await send(onB)).status).toBe(429);
+    } finally {
+      await smallB.close();
+      await small.close();
+    }
   });
 
   it('counts concurrent hits atomically and starts a new window once the old one has ended', async () => {
