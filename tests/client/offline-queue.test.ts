@@ -162,6 +162,34 @@ async function settle(queue: ReturnType<typeof createQueue>, clock: ReturnType<t
   for (let k = 0; k < maxTimers && clock.fireNext(); k++) await queue.run();
 }
 
+describe('a new job', () => {
+  it('starts alike for a walk and a traced boundary: first step, waiting, due at once, nothing tried', () => {
+    const start = {
+      step: 'create',
+      state: 'waiting',
+      attempts: 0,
+      nextAttemptAt: 1_000,
+      createdAt: 1_000,
+      attention: null,
+      lastError: null,
+      doneAt: null,
+      userId: 'u1',
+      label: { fieldName: 'North', ranchName: 'Ranch' },
+    };
+    const walk = newJob({ body: walkBody(uuid(3)), userId: 'u1', photos: [{ stop: 2, key: 'k2' }], label: { fieldName: 'North', ranchName: 'Ranch' }, now: 1_000 });
+    expect(walk).toMatchObject({ ...start, id: uuid(3), photos: [{ stop: 2, key: 'k2', state: 'pending' }] });
+    expect(walk.kind).toBeUndefined();
+    const body: BoundaryProposalCreate = {
+      id: uuid(4),
+      boundary: { type: 'Polygon', coordinates: [[[-134.9, 36.2], [-134.898, 36.2], [-134.898, 36.201], [-134.9, 36.2]]] },
+      pointsRecorded: 40,
+      medianAccuracyM: 5,
+    };
+    const traced = newBoundaryJob({ fieldId: 'field-9', body, userId: 'u1', label: { fieldName: 'North', ranchName: 'Ranch' }, now: 1_000 });
+    expect(traced).toEqual({ ...start, id: uuid(4), kind: 'boundary', fieldId: 'field-9', body, photos: [] });
+  });
+});
+
 describe('backoff', () => {
   it('doubles its ceiling per failure, from base/2 up to the cap, with jitter in the upper half', () => {
     const { baseMs, maxMs } = DEFAULT_BACKOFF;

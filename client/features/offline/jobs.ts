@@ -24,7 +24,7 @@ export interface JobError {
   message: string;
 }
 
-interface JobBase {
+export interface JobBase {
   /** The client-made UUID of the walk or traced boundary: the server's key, so a re-send never duplicates. */
   id: string;
   /** Only the person who made a walk sends it (the session decides who the walk belongs to). */
@@ -79,16 +79,12 @@ export function summarise(jobs: readonly QueueJob[]): QueueSummary {
   return s;
 }
 
-/** A traced boundary's job: one step, the proposal, idempotent on its client-made id. */
-export function newBoundaryJob(input: { fieldId: string; body: BoundaryProposalCreate; userId: string; label: QueueJob['label']; now: number }): BoundaryJob {
+/** What every new job starts as, walk or boundary: at its first step, nothing tried yet, due now. */
+export function freshJob(input: { id: string; userId: string; label: QueueJob['label']; now: number }): JobBase {
   return {
-    kind: 'boundary',
-    id: input.body.id,
-    fieldId: input.fieldId,
+    id: input.id,
     userId: input.userId,
     createdAt: input.now,
-    body: input.body,
-    photos: [],
     label: input.label,
     step: 'create',
     state: 'waiting',
@@ -98,4 +94,9 @@ export function newBoundaryJob(input: { fieldId: string; body: BoundaryProposalC
     lastError: null,
     doneAt: null,
   };
+}
+
+/** A traced boundary's job: one step, the proposal, idempotent on its client-made id. */
+export function newBoundaryJob(input: { fieldId: string; body: BoundaryProposalCreate; userId: string; label: QueueJob['label']; now: number }): BoundaryJob {
+  return { ...freshJob({ id: input.body.id, userId: input.userId, label: input.label, now: input.now }), kind: 'boundary', fieldId: input.fieldId, body: input.body, photos: [] };
 }

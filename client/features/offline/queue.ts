@@ -1,6 +1,6 @@
 import type { WalkCreate } from '../../../shared/schemas/walks';
 import type { BoundaryProposalCreate } from '../../../shared/schemas/boundary-proposals';
-import type { AttentionKind, JobError, JobPhoto, JobStep, QueueJob, WalkJob } from './jobs';
+import { freshJob, type AttentionKind, type JobError, type JobPhoto, type JobStep, type QueueJob, type WalkJob } from './jobs';
 
 export * from './jobs';
 
@@ -93,19 +93,9 @@ export function newJob(input: {
   now: number;
 }): WalkJob {
   return {
-    id: input.body.id,
-    userId: input.userId,
-    createdAt: input.now,
+    ...freshJob({ id: input.body.id, userId: input.userId, label: input.label, now: input.now }),
     body: input.body,
     photos: input.photos.map((p) => ({ ...p, state: 'pending' as const })),
-    label: input.label,
-    step: 'create',
-    state: 'waiting',
-    attempts: 0,
-    nextAttemptAt: input.now,
-    attention: null,
-    lastError: null,
-    doneAt: null,
   };
 }
 
