@@ -37,7 +37,7 @@ export function measure(name: string, fn: () => unknown, opts: { batch: number; 
     times.push((performance.now() - t0) / opts.batch);
   }
   times.sort((a, b) => a - b);
-  const medianMs = times[Math.floor(times.length / 2)];
+  const medianMs = times[Math.floor(times.length / 2)] ?? NaN;
   return { name, medianUs: medianMs * 1000, opsPerSec: 1000 / medianMs, samples: opts.samples, batch: opts.batch };
 }
 

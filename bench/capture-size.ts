@@ -60,6 +60,7 @@ export function firstScreenSizes(): SizeRow[] {
     if (seen.has(key)) return;
     seen.add(key);
     const entry = manifest[key];
+    if (!entry) throw new Error(`${key} is not in ${MANIFEST}: rebuild the client`);
     add('js', entry.file);
     entry.css?.forEach((c) => css.add(c));
     entry.imports?.forEach(visit);
@@ -70,12 +71,13 @@ export function firstScreenSizes(): SizeRow[] {
   const languages = Object.values(manifest).filter((e) => /(^|\/)locales\/(en|es)\.ts$/.test(e.src ?? ''));
   const sizes = languages.map((e) => ({ e, size: gz(fs.readFileSync(path.join(DIST, e.file))) }));
   sizes.sort((a, b) => b.size - a.size);
-  if (sizes[0]) visit(Object.keys(manifest).find((k) => manifest[k] === sizes[0].e)!);
+  const [larger] = sizes;
+  if (larger) visit(Object.keys(manifest).find((k) => manifest[k] === larger.e)!);
 
   for (const c of css) add('css', c);
   // The Lato subset the stylesheet asks for first (woff2: every browser that runs the app reads it).
   const cssText = [...css].map((c) => fs.readFileSync(path.join(DIST, c), 'utf8')).join('\n');
-  const fonts = new Set([...cssText.matchAll(/url\(\/static\/(assets\/lato-[^)]+\.woff2)\)/g)].map((m) => m[1]));
+  const fonts = new Set([...cssText.matchAll(/url\(\/static\/(assets\/lato-[^)]+\.woff2)\)/g)].flatMap((m) => (m[1] ? [m[1]] : [])));
   for (const f of fonts) add('font', f);
   return rows;
 }

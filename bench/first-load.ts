@@ -150,7 +150,7 @@ export async function runFirstLoad(opts: { url: string; email: string; password:
         const bytes = sz.responseHeadersSize + sz.responseBodySize;
         workerBytes += bytes;
         workerResponses++;
-        const url = req.url().split('?')[0];
+        const [url = ''] = req.url().split('?');
         if (!workerFetched.has(url)) workerFetched.set(url, { bytes, encoding: res?.headers()['content-encoding'] ?? '' });
       });
     });
@@ -191,7 +191,7 @@ export async function runFirstLoad(opts: { url: string; email: string; password:
 
     // A file the page got without the network crossed the wire once, in the worker's download.
     const responses = [...seen.values()].map((r) => {
-      const fetched = r.bytes === 0 ? workerFetched.get(r.url.split('?')[0]) : undefined;
+      const fetched = r.bytes === 0 ? workerFetched.get(r.url.split('?')[0] ?? r.url) : undefined;
       return fetched ? { ...r, bytes: fetched.bytes, encoding: fetched.encoding, viaWorker: true } : r;
     });
     return {

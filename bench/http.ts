@@ -46,7 +46,7 @@ export async function signIn(url: string, email: string, password: string): Prom
     body: JSON.stringify({ email, password }),
   });
   if (!res.ok) throw new Error(`sign-in as ${email} answered ${res.status}`);
-  const cookie = String(res.headers.get('set-cookie') ?? '').split(';')[0];
+  const [cookie = ''] = String(res.headers.get('set-cookie') ?? '').split(';');
   const me = (await (await fetch(`${url}/api/session`, { headers: { cookie } })).json()) as { csrfToken: string };
   return { cookie, csrfToken: me.csrfToken };
 }
@@ -78,7 +78,7 @@ export interface WalkLoadResult {
 
 function percentile(sorted: number[], p: number) {
   if (!sorted.length) return NaN;
-  return sorted[Math.min(sorted.length - 1, Math.ceil((p / 100) * sorted.length) - 1)];
+  return sorted[Math.min(sorted.length - 1, Math.ceil((p / 100) * sorted.length) - 1)] ?? NaN;
 }
 
 /**

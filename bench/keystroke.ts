@@ -53,5 +53,5 @@ export function timeKeystroke(fn: () => unknown, batch = 200, samples = 40): num
   }
   times.sort((a, b) => a - b);
   if (sink === -1) console.log(sink);
-  return times[Math.floor(times.length / 2)];
+  return times[Math.floor(times.length / 2)] ?? NaN;
 }

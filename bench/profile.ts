@@ -32,10 +32,10 @@ interface CpuProfile {
 function area(url: string, name: string): string {
   if (!url) return name.startsWith('(') ? name : '(native)';
   const pkg = /node_modules\/((?:@[^/]+\/)?[^/]+)/.exec(url);
-  if (pkg) return pkg[1];
+  if (pkg?.[1]) return pkg[1];
   if (url.startsWith('node:')) return 'node';
   const own = /\/(server|shared|migrations|seeds)\/(.*?)(?:\/[^/]+)?$/.exec(url);
-  return own ? `${own[1]}/${own[2].split('/')[0]}` : url;
+  return own ? `${own[1]}/${own[2]?.split('/')[0]}` : url;
 }
 
 /** Self time of each function and each area. */
@@ -44,8 +44,8 @@ function summarise(profile: CpuProfile) {
   const fns = new Map<string, number>();
   const areas = new Map<string, number>();
   let total = 0;
-  for (let i = 0; i < profile.samples.length; i++) {
-    const { functionName, url, lineNumber } = byId.get(profile.samples[i])!.callFrame;
+  for (const sample of profile.samples) {
+    const { functionName, url, lineNumber } = byId.get(sample)!.callFrame;
     if (functionName === '(idle)') continue;
     total++;
     const where = area(url, functionName);

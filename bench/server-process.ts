@@ -145,7 +145,8 @@ function findListener(root: number, port: number): { pid: number; rss: number; c
     if (!fs.existsSync(table)) continue;
     for (const line of fs.readFileSync(table, 'utf8').split('\n').slice(1)) {
       const cols = line.trim().split(/\s+/);
-      if (cols.length > 9 && cols[1].endsWith(`:${hexPort}`) && cols[3] === '0A') inodes.add(cols[9]); // 0A = LISTEN
+      const [, local, , state, , , , , , inode] = cols;
+      if (inode && local?.endsWith(`:${hexPort}`) && state === '0A') inodes.add(inode); // 0A = LISTEN
     }
   }
   for (const pid of descendants(root)) {
@@ -158,7 +159,7 @@ function findListener(root: number, port: number): { pid: number; rss: number; c
     const listens = fds.some((fd) => {
       try {
         const m = /^socket:\[(\d+)\]$/.exec(fs.readlinkSync(`/proc/${pid}/fd/${fd}`));
-        return m !== null && inodes.has(m[1]);
+        return m?.[1] !== undefined && inodes.has(m[1]);
       } catch {
         return false;
       }
