@@ -60,15 +60,16 @@ function parentsFirst(tables: string[], fks: Map<string, ForeignKey[]>): string[
  */
 function selfParentsFirst(rows: Record<string, unknown>[], selfKeys: ForeignKey[]): Record<string, unknown>[] {
   if (!selfKeys.length) return rows;
-  const groups = [...new Set(selfKeys.map((k) => k.id))].map((id) => selfKeys.filter((k) => k.id === id));
-  const target = (g: ForeignKey[], r: Record<string, unknown>) => `${g[0].id}:${JSON.stringify(g.map((k) => r[k.to]))}`;
-  const points = (g: ForeignKey[], r: Record<string, unknown>) => `${g[0].id}:${JSON.stringify(g.map((k) => r[k.from]))}`;
+  const groups = [...new Set(selfKeys.map((k) => k.id))].map((id) => ({ id, keys: selfKeys.filter((k) => k.id === id) }));
+  type Group = (typeof groups)[number];
+  const target = (g: Group, r: Record<string, unknown>) => `${g.id}:${JSON.stringify(g.keys.map((k) => r[k.to]))}`;
+  const points = (g: Group, r: Record<string, unknown>) => `${g.id}:${JSON.stringify(g.keys.map((k) => r[k.from]))}`;
   const placed = new Set<string>();
   const out: Record<string, unknown>[] = [];
   let left = rows;
   while (left.length) {
     const ready = left.filter((r) =>
-      groups.every((g) => g.some((k) => r[k.from] == null) || placed.has(points(g, r)) || points(g, r) === target(g, r)),
+      groups.every((g) => g.keys.some((k) => r[k.from] == null) || placed.has(points(g, r)) || points(g, r) === target(g, r)),
     );
     if (!ready.length) throw new Error(`${left.length} rows refer to each other in a circle`);
     for (const r of ready) {
@@ -82,6 +83,7 @@ function selfParentsFirst(rows: Record<string, unknown>[], selfKeys: ForeignKey[
 
 async function count(db: Knex, table: string): Promise<number> {
   const [row] = await db(table).count<{ n: number | string }[]>({ n: '*' });
+  if (!row) throw new Error(`counting the rows of ${table} gave no answer`);
   return Number(row.n);
 }
 

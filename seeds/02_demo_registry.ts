@@ -4,7 +4,7 @@ import { acToHa, lbPerAcToKgPerHa } from '../shared/calc/units';
 import type { Boundary } from '../shared/registry/boundary';
 import { boundaryAreaHa } from '../shared/registry/boundary-area';
 import { addDaysIso, seasonOfDate, seasonStartYear, seasonStarting, todayIso } from '../shared/registry/season';
-import { DEMO_ORGANISATIONS } from './demo-people';
+import { demoOrganisationId } from './demo-people';
 import { DEMO_RANCHES, type DemoField } from './demo-registry';
 
 /** Stable ids from names, so running the seed twice finds the same rows. */
@@ -22,13 +22,14 @@ function drawBoundary(origin: [number, number], offsetM: number, areaHa: number,
   const x = (m: number) => lon0 + (offsetM + m) / mPerDegLon;
   const y = (m: number) => lat0 + m / mPerDegLat;
   const shift = skew * widthM;
-  const ring = [
+  const corners: [number, number][] = [
     [x(0), y(0)],
     [x(widthM), y(0)],
     [x(widthM + shift), y(heightM)],
     [x(shift), y(heightM)],
     [x(0), y(0)],
-  ].map(([a, b]) => [Math.round(a * 1e7) / 1e7, Math.round(b * 1e7) / 1e7]);
+  ];
+  const ring = corners.map(([a, b]) => [Math.round(a * 1e7) / 1e7, Math.round(b * 1e7) / 1e7]);
   return { type: 'Polygon', coordinates: [ring] };
 }
 
@@ -39,7 +40,7 @@ export async function seedDemoRegistry(db: Knex, today = todayIso()): Promise<vo
   const current = seasonStartYear(seasonOfDate(today));
   await db.transaction(async (trx) => {
     for (const [orgIndex, ranches] of DEMO_RANCHES.entries()) {
-      const orgId = DEMO_ORGANISATIONS[orgIndex].id;
+      const orgId = demoOrganisationId(orgIndex);
       for (const ranch of ranches) {
         const ranchId = demoId(orgId, ranch.name);
         await trx('ranches')

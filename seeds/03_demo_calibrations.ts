@@ -4,7 +4,7 @@ import type { Knex } from 'knex';
 import { fitCalibration, type ModelKind } from '../shared/calc';
 import { checkCalibrationCsv } from '../server/calibrations/import';
 import { PROJECT_ROOT } from '../server/platform/project-root';
-import { DEMO_ORGANISATIONS, DEMO_USERS } from './demo-people';
+import { DEMO_USERS, demoOrganisationId } from './demo-people';
 
 /*
  * The demo calibrations: the estimation core's invented data sets (seeds/data, made by
@@ -45,7 +45,7 @@ export async function seedDemoCalibrations(db: Knex): Promise<void> {
     const points = check.points;
     const fit = fitCalibration(points.map(({ x, y }) => ({ x, y })), set.model);
     for (const orgIndex of set.orgs) {
-      const organisationId = DEMO_ORGANISATIONS[orgIndex].id;
+      const organisationId = demoOrganisationId(orgIndex);
       const admin = DEMO_USERS.find((u) => u.org === orgIndex && u.role === 'admin')!.id;
       const datasetId = demoCalibrationId('d', set.key, orgIndex);
       const calibrationId = demoCalibrationId('c', set.key, orgIndex);

@@ -42,6 +42,7 @@ export async function seedDemoHistory(db: Knex, today = todayIso()): Promise<voi
     if (await findWalkRecord(db, orgId, id)) continue;
     const rand = mulberry32(1000 + i);
     const mean = MEAN_LENGTHS_CM[i % MEAN_LENGTHS_CM.length];
+    if (mean === undefined) throw new Error('MEAN_LENGTHS_CM is empty');
     const lengths = Array.from({ length: 10 }, () => Math.round(Math.max(20, mean + 9 * normal(rand)) * 2) / 2);
     const daysBefore = i === 3 ? 45 : 5 + (i % 11); // one walk too early for the rule's 30-day gap
     let walkedOn = addDaysIso(p.terminated_on, -daysBefore);

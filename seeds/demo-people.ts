@@ -7,6 +7,13 @@ export const DEMO_ORGANISATIONS = [
   { id: '0b7d3f7e-0000-4000-8000-000000000002', name: 'Quillwater Vegetable Co. (demo)' },
 ] as const;
 
+/** The id of the demo organisation at `index` in DEMO_ORGANISATIONS. */
+export function demoOrganisationId(index: number): string {
+  const organisation = DEMO_ORGANISATIONS[index];
+  if (!organisation) throw new Error(`the demo has no organisation number ${index}`);
+  return organisation.id;
+}
+
 export const DEMO_USERS = [
   { id: '0b7d3f7e-0000-4000-8000-000000000101', org: 0, name: 'Noor Halvane', email: 'admin@crowntip.test', role: 'admin' },
   { id: '0b7d3f7e-0000-4000-8000-000000000102', org: 0, name: 'Jonah Pellbrook', email: 'clerk@crowntip.test', role: 'clerk' },
