@@ -187,7 +187,7 @@ export function createApp(deps: AppDeps): Express {
     ['/', registry.boundaryProposalPages(ctx)],
     ['/', registry.registryPages(ctx)],
     ['/', registry.seasonPages(ctx)],
-    ['/', registry.assignmentPages(ctx)],
+    ['/', walks.assignmentPages(ctx)],
     ['/', registry.historyPages(ctx)],
     ['/registry/import', registry.registryImportPages(ctx)],
     ['/', rules.rulesPages(ctx)],

@@ -8,6 +8,5 @@ export { cropsApi } from './crops-routes';
 export { historyApi } from './history-routes';
 export { registryPages, boundaryUpload, FIELD_FORM_PATHS } from './pages';
 export { seasonPages } from './season-pages';
-export { assignmentPages } from './assignment-pages';
 export { historyPages } from './history-pages';
 export { registryImportPages, importUploadBeforeCsrf, IMPORT_UPLOAD_PATHS } from './import/pages';

@@ -3,3 +3,4 @@ export { walksApi } from './routes';
 export { todayApi } from './today-routes';
 export { walkReviewPages } from './review-pages';
 export { tissueNApi } from './tissue-n-routes';
+export { assignmentPages } from './assignment-pages';

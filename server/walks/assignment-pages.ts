@@ -7,10 +7,10 @@ import { HttpError } from '../platform/errors';
 import { can, rolesAllowed } from '../platform/permissions';
 import { addDaysIso, todayIso } from '../../shared/registry/season';
 import { currentCreditRule } from '../rules/public';
-import { assignWalk, listActiveAssignees, listAssignmentsBySampler, listAssignmentsOfPlanting, plannedTerminationOf, unassignWalk, type AssignmentRow } from '../walks/public';
+import { assignWalk, listActiveAssignees, listAssignmentsBySampler, listAssignmentsOfPlanting, plannedTerminationOf, unassignWalk, type AssignmentRow } from './public';
 import { isoDate } from '../../shared/schemas/dates';
 import { seasonLabel } from '../../shared/registry/season';
-import { getPlanting } from './service';
+import { getPlanting } from '../registry/public';
 
 /*
  * Clerks ask samplers to walk plantings from the office: one at a time from the planting's own
