@@ -24,6 +24,12 @@ module.exports = {
       { path: '^server/[^/]+/', pathNot: ['^server/$1/', '^server/platform/', '^server/[^/]+/public\\.ts$'] },
     ),
     rule(
+      'registry-knows-no-walks',
+      'The registry (ranches, fields, plantings) imports nothing of field walks: walks reads plantings through server/registry/public.ts, never the reverse.',
+      { path: '^server/registry/' },
+      { path: '^server/walks/' },
+    ),
+    rule(
       'app-uses-resource-entries',
       "server/app.ts and main.ts take routers from each resource's index.ts, and anything else from platform/ or public.ts.",
       { path: '^server/[^/]+\\.ts$' },

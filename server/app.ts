@@ -165,6 +165,7 @@ export function createApp(deps: AppDeps): Express {
     ['/api/fields', registry.fieldsApi(ctx)],
     ['/api/fields', registry.boundaryProposalsApi(ctx)],
     ['/api/plantings', registry.plantingsApi(ctx)],
+    ['/api/plantings', walks.assignmentsApi(ctx)],
     ['/api/crops', registry.cropsApi(ctx)],
     ['/api/history', registry.historyApi(ctx)],
     ['/api/calibrations', calibrations.calibrationsApi(ctx)],

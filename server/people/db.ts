@@ -184,3 +184,8 @@ export async function countActiveAdmins(db: Knex, organisationId: string): Promi
     .first();
   return Number(row?.n ?? 0);
 }
+
+/** Active users of the organisation who may be asked to walk a planting, by name: the assign forms' choices. */
+export function listAssignableSamplers(db: Knex, organisationId: string): Promise<{ id: string; name: string }[]> {
+  return inOrganisation(db, 'users', organisationId).where({ active: true }).whereIn('role', rolesAllowed('walks.assignee')).orderBy('name').select('id', 'name');
+}

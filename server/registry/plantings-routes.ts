@@ -7,8 +7,7 @@ import { HttpError } from '../platform/errors';
 import { validateBody, validateQuery } from '../platform/validation';
 import { getPlanting, listPlantings } from './service';
 import { createPlanting, updatePlanting } from './service';
-import { assignWalk, unassignWalk } from '../walks/public';
-import { cropSchema, isoDate, pagingSchema, plantingInputSchema, plantingPatchSchema, seasonSchema } from '../../shared/schemas/registry';
+import { cropSchema, pagingSchema, plantingInputSchema, plantingPatchSchema, seasonSchema } from '../../shared/schemas/registry';
 import { idFilter, listQuery } from '../platform/query';
 
 const listSchema = listQuery(
@@ -20,15 +19,10 @@ const listSchema = listQuery(
   }),
 );
 
-const assignmentSchema = z.object({
-  samplerId: z.string({ message: 'Choose a sampler.' }).min(1, 'Choose a sampler.').max(100),
-  dueOn: isoDate.nullable().optional(),
-});
-
 /**
  * /api/plantings (README, "API"): everyone in the organisation reads, clerk and admin
- * write. Walk assignments live under /api/plantings/:id/assignment: a clerk or admin asks a sampler
- * to walk a planting (PUT again changes the due date) or takes the request back.
+ * write. Walk assignments under /api/plantings/:id/assignment are field walks' own
+ * (server/walks/assignments-routes.ts).
  */
 export function plantingsApi(ctx: AppContext): Router {
   const router = Router();
@@ -53,19 +47,9 @@ export function plantingsApi(ctx: AppContext): Router {
     res.json(await updatePlanting(ctx.db, contextOf(req), req.params.id, req.body));
   };
 
-  const assign = async (req: Request<{ id: string }>, res: Response) => {
-    res.json(await assignWalk(ctx.db, contextOf(req), req.params.id, req.body));
-  };
-  const unassign = async (req: Request<{ id: string; samplerId: string }>, res: Response) => {
-    await unassignWalk(ctx.db, contextOf(req), req.params.id, req.params.samplerId);
-    res.status(204).end();
-  };
-
   router.get('/', can('registry.read'), validateQuery(listSchema), list);
   router.post('/', writers, validateBody(plantingInputSchema), create);
   router.get('/:id', can('registry.read'), show);
   router.patch('/:id', writers, validateBody(plantingPatchSchema), update);
-  router.put('/:id/assignment', can('walks.assign'), validateBody(assignmentSchema), assign);
-  router.delete('/:id/assignment/:samplerId', can('walks.assign'), unassign);
   return router;
 }

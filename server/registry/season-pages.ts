@@ -2,7 +2,7 @@ import { Router, type Request } from 'express';
 import { z } from 'zod';
 import type { AppContext } from '../platform/app-context';
 import { contextOf } from '../platform/context';
-import { can, rolesAllowed } from '../platform/permissions';
+import { can } from '../platform/permissions';
 import { CROPS } from '../../shared/calc/rules';
 import { seasonLabel, seasonOfDate, seasonStartYear, seasonStarting, todayIso } from '../../shared/registry/season';
 import { seasonSchema } from '../../shared/schemas/registry';
@@ -11,7 +11,7 @@ import { currentCreditRule } from '../rules/public';
 import { seasonRows } from './season-view';
 import { toCsv } from '../platform/csv-safe';
 import { cropName } from '../../shared/registry/crops';
-import { listActiveAssignees } from '../walks/public';
+import { listAssignableSamplers } from '../people/public';
 
 const seasonQuery = z.object({
   season: seasonSchema.optional().catch(undefined),
@@ -47,7 +47,7 @@ export function seasonPages(ctx: AppContext): Router {
       crops: CROPS,
       rule,
       today,
-      samplers: await listActiveAssignees(ctx.db, contextOf(req).organisationId, rolesAllowed('walks.assignee')),
+      samplers: await listAssignableSamplers(ctx.db, contextOf(req).organisationId),
       assignedCount: Number(req.query.assigned) || 0,
       currentUrl: req.originalUrl.replace(/[?&]assigned=\d+/, ''),
       csvHref: `/registry/season.csv?${new URLSearchParams(Object.entries({ season, ranchId: q.ranchId ?? '', crop: q.crop ?? '' }).filter(([, v]) => v))}`,

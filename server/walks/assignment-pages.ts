@@ -1,33 +1,19 @@
 import { Router, type Request, type Response } from 'express';
-import type { Knex } from 'knex';
 import { z } from 'zod';
 import type { AppContext } from '../platform/app-context';
 import { contextOf } from '../platform/context';
 import { HttpError } from '../platform/errors';
-import { can, rolesAllowed } from '../platform/permissions';
-import { addDaysIso, todayIso } from '../../shared/registry/season';
-import { currentCreditRule } from '../rules/public';
-import { assignWalk, listActiveAssignees, listAssignmentsBySampler, listAssignmentsOfPlanting, plannedTerminationOf, unassignWalk, type AssignmentRow } from './public';
+import { can } from '../platform/permissions';
+import { seasonLabel, todayIso } from '../../shared/registry/season';
 import { isoDate } from '../../shared/schemas/dates';
-import { seasonLabel } from '../../shared/registry/season';
-import { getPlanting } from '../registry/public';
+import { assignWalk, assignWalks, assignmentsBySampler, plantingAssignments, unassignWalk } from './assignments-service';
 
 /*
  * Clerks ask samplers to walk plantings from the office: one at a time from the planting's own
  * page, several at once from the season view, and a per-sampler list of what each has, with due
- * dates, what is overdue and a way to take an assignment back. Each assignment goes through the
- * same service as PUT /api/plantings/:id/assignment.
+ * dates, what is overdue and a way to take an assignment back. The rules are
+ * server/walks/assignments-service.ts's.
  */
-
-/**
- * The default due-by date: the rule's latest walk date before planned termination (planned
- * termination minus the rule's maximum days between walk and termination), never before today.
- */
-export function defaultDueOn(plannedTerminationOn: string | null, maxDaysBeforeTermination: number, today: string): string | null {
-  if (!plannedTerminationOn) return null;
-  const latest = addDaysIso(plannedTerminationOn, -maxDaysBeforeTermination);
-  return latest < today ? today : latest;
-}
 
 const isoDay = /^\d{4}-\d{2}-\d{2}$/;
 const bulkSchema = z.object({
@@ -36,10 +22,6 @@ const bulkSchema = z.object({
   dueOn: z.string().optional(),
   back: z.string().optional(),
 });
-
-export function samplerOptions(db: Knex, organisationId: string) {
-  return listActiveAssignees(db, organisationId, rolesAllowed('walks.assignee'));
-}
 
 export function assignmentPages(ctx: AppContext): Router {
   const router = Router();
@@ -54,37 +36,24 @@ export function assignmentPages(ctx: AppContext): Router {
     const dueOn = body.dueOn?.trim() || null;
     if (dueOn && (!isoDay.test(dueOn) || Number.isNaN(Date.parse(dueOn)))) fields.dueOn = 'Enter the due date as a date, for example 2027-03-15, or leave it empty for the rule’s latest walk date.';
     if (Object.keys(fields).length) throw new HttpError('invalid', Object.values(fields).join(' '), fields);
-    const orgId = contextOf(req).organisationId;
-    const today = todayIso();
-    const rule = await currentCreditRule(ctx.db, orgId);
-    const actor = contextOf(req);
     // All or nothing: one unknown planting or a refused sampler leaves every assignment as it was.
-    await ctx.db.transaction(async (trx) => {
-      for (const id of ids) {
-        const planned = await plannedTerminationOf(trx, orgId, id);
-        if (planned === undefined) throw new HttpError('not_found', 'One of the selected plantings does not exist (it may have been deleted). Reload the season view.');
-        const due = dueOn ?? defaultDueOn(planned, rule.maxDaysSampleBeforeTermination, today);
-        await assignWalk(trx, actor, id, { samplerId: body.samplerId!, dueOn: due });
-      }
-    });
+    await assignWalks(ctx.db, contextOf(req), ids, { samplerId: body.samplerId!, dueOn });
     const back = body.back && body.back.startsWith('/registry/season') ? body.back : '/registry/season';
     res.redirect(303, `${back}${back.includes('?') ? '&' : '?'}assigned=${ids.length}`);
   });
 
   // ---- one planting: its facts, who is asked to walk it, assign and take back ----
   const showPlanting = async (req: Request, res: Response, status = 200, values: Record<string, string> = {}, errors: Record<string, string> = {}) => {
-    const orgId = contextOf(req).organisationId;
-    const planting = await getPlanting(ctx.db, orgId, String(req.params.id));
-    if (!planting) throw new HttpError('not_found');
-    const [assignments, samplers, rule] = await Promise.all([listAssignmentsOfPlanting(ctx.db, orgId, planting.id), samplerOptions(ctx.db, orgId), currentCreditRule(ctx.db, orgId)]);
-    const defaultDue = defaultDueOn(planting.plannedTerminationOn, rule.maxDaysSampleBeforeTermination, todayIso());
+    const view = await plantingAssignments(ctx.db, contextOf(req).organisationId, String(req.params.id));
+    if (!view) throw new HttpError('not_found');
+    const { planting, assignments, samplers, defaultDue, maxDays } = view;
     res.status(status).render('registry/planting', {
       title: `${planting.fieldName}, ${seasonLabel(planting.season)}`,
       planting,
       assignments,
       samplers,
       defaultDue,
-      maxDays: rule.maxDaysSampleBeforeTermination,
+      maxDays,
       values: { samplerId: '', dueOn: defaultDue ?? '', ...values },
       errors,
       seasonLabel,
@@ -124,16 +93,8 @@ export function assignmentPages(ctx: AppContext): Router {
   });
 
   router.get('/registry/assignments', can('office.use'), async (req, res) => {
-    const orgId = contextOf(req).organisationId;
     const today = todayIso();
-    const rows = await listAssignmentsBySampler(ctx.db, orgId);
-    const bySampler = new Map<string, { name: string; items: (AssignmentRow & { overdue: boolean })[] }>();
-    for (const r of rows) {
-      const overdue = !r.walked && !r.terminatedOn && r.dueOn !== null && r.dueOn < today;
-      if (!bySampler.has(r.samplerId)) bySampler.set(r.samplerId, { name: r.samplerName, items: [] });
-      bySampler.get(r.samplerId)!.items.push({ ...r, overdue });
-    }
-    res.render('registry/assignments', { title: 'Assignments', samplers: [...bySampler.values()], today });
+    res.render('registry/assignments', { title: 'Assignments', samplers: await assignmentsBySampler(ctx.db, contextOf(req).organisationId, today), today });
   });
 
   return router;

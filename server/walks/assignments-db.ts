@@ -1,15 +1,9 @@
 import type { Knex } from 'knex';
-import type { Role } from '../platform/roles';
 
 /*
- * Reads behind the office's assignment pages: who can be asked to walk, a planting's planned
- * termination (for the default due date), and every assignment of the organisation by sampler.
+ * Reads behind the office's assignment pages: a planting's planned termination (for the default
+ * due date), and the assignments of one planting or of the whole organisation by sampler.
  */
-
-/** Active users of the organisation who hold one of the roles, by name. */
-export function listActiveAssignees(db: Knex, organisationId: string, roles: Role[]): Promise<{ id: string; name: string }[]> {
-  return db('users').where({ organisation_id: organisationId, active: true }).whereIn('role', roles).orderBy('name').select('id', 'name');
-}
 
 /** The planting's planned termination date (YYYY-MM-DD or null), or undefined when it is not the organisation's. */
 export async function plannedTerminationOf(db: Knex, organisationId: string, plantingId: string): Promise<string | null | undefined> {
