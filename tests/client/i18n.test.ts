@@ -64,7 +64,7 @@ describe('coverage of codes', () => {
     expect(es.today.title).toBe('Recorridos de hoy');
     expect(screensEs.entry.stopOf).toBe('Parada {{n}} de {{total}}');
     expect(screensEs.entry.length).toBe('Largo del tallo principal');
-    expect(es.queue.offlineWaiting_other).toBe('Sin señal: {{count}} recorridos en espera de envío');
+    expect(es.queue.offlineWaiting).toBe('Sin señal: {{what}} en espera de envío');
   });
 });
 

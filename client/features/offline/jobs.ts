@@ -68,14 +68,16 @@ export interface QueueSummary {
   done: number;
 }
 
+/** Where a job stands for the sampler: waiting its turn, waiting for a person, waiting for a sign-in, or sent. */
+export function bucketOf(j: QueueJob): keyof QueueSummary {
+  if (j.state === 'done') return 'done';
+  if (j.state === 'attention') return 'attention';
+  return j.attention === 'signin' ? 'signin' : 'waiting';
+}
+
 export function summarise(jobs: readonly QueueJob[]): QueueSummary {
   const s: QueueSummary = { waiting: 0, attention: 0, signin: 0, done: 0 };
-  for (const j of jobs) {
-    if (j.state === 'done') s.done++;
-    else if (j.state === 'attention') s.attention++;
-    else if (j.attention === 'signin') s.signin++;
-    else s.waiting++;
-  }
+  for (const j of jobs) s[bucketOf(j)]++;
   return s;
 }
 

@@ -1,15 +1,17 @@
 import { lazy, Suspense, useEffect, useRef, useState } from 'react';
 import { useTranslation } from '../../../lib/i18n';
 import { loadOutbox, useOnline, useQueueJobs, useSendingId } from '../public';
-import { summarise, type QueueJob } from '../jobs';
+import { bucketOf, type QueueJob } from '../jobs';
+import { whatWaits } from '../words';
 
 // Shown only on a tap on Details: loaded then (precached for offline use), not with the first screen.
 const JobList = lazy(() => import('./job-list'));
 const SentNote = lazy(() => import('./sent-note'));
 
 /**
- * The outbox's state on every screen: "No signal: 3 walks waiting to send", a walk being sent,
- * walks that need a person (a conflict, a refusal, a sign-in). Nothing here can delete a walk.
+ * The outbox's state on every screen: "No signal: 2 walks and 1 field outline waiting to send"
+ * (walks, and boundaries traced on the phone, go through the same outbox), one being sent, those
+ * that need a person (a conflict, a refusal, a sign-in). Nothing here can delete a walk.
  */
 export function QueueBanner() {
   const { t } = useTranslation();
@@ -17,8 +19,10 @@ export function QueueBanner() {
   const online = useOnline();
   const sending = useSendingId();
   const [open, setOpen] = useState(false);
-  const s = summarise(jobs);
   const pending = jobs.filter((j) => j.state !== 'done');
+  const waiting = pending.filter((j) => bucketOf(j) === 'waiting');
+  const signin = pending.filter((j) => bucketOf(j) === 'signin');
+  const attention = pending.filter((j) => bucketOf(j) === 'attention');
 
   // Walks seen waiting on this screen that have since reached the office: said once, until closed.
   const seenWaiting = useRef(new Set<string>());
@@ -34,7 +38,7 @@ export function QueueBanner() {
   const sentNote =
     arrived.length > 0 ? (
       <Suspense fallback={null}>
-        <SentNote fields={arrived.map((j) => j.label.fieldName)} onClose={() => setArrived([])} />
+        <SentNote jobs={arrived} onClose={() => setArrived([])} />
       </Suspense>
     ) : null;
 
@@ -50,30 +54,32 @@ export function QueueBanner() {
     );
   }
 
-  const tone = s.attention > 0 ? 'bg-clay text-white' : 'bg-straw text-loam';
+  const tone = attention.length > 0 ? 'bg-clay text-white' : 'bg-straw text-loam';
   return (
     <>
     {sentNote}
     <div role="status" className={tone} data-testid="queue-banner">
       <div className="mx-auto max-w-2xl px-4 py-3">
-        {s.waiting > 0 && (
+        {waiting.length > 0 && (
           <p className="text-lg font-bold">
             {sending ? t('queue.sending') + ' · ' : ''}
-            {online ? t('queue.waiting', { count: s.waiting }) : t('queue.offlineWaiting', { count: s.waiting })}
+            {t(online ? 'queue.waiting' : 'queue.offlineWaiting', { what: whatWaits(t, waiting) })}
           </p>
         )}
-        {s.waiting > 0 && !online && <p>{t('queue.autoRetry')}</p>}
-        {s.signin > 0 && (
+        {waiting.length > 0 && !online && <p>{t('queue.autoRetry')}</p>}
+        {signin.length > 0 && (
           <p className="text-lg font-bold">
-            {t('queue.signin', { count: s.signin })}{' '}
+            {t('queue.signin', { what: whatWaits(t, signin) })}{' '}
             <a className="underline underline-offset-4" href={`/login?next=${encodeURIComponent('/capture')}`}>
               {t('queue.signInLink')}
             </a>
           </p>
         )}
-        {s.attention > 0 && <p className="text-lg font-bold">{t('queue.attention', { count: s.attention })}</p>}
+        {attention.length > 0 && (
+          <p className="text-lg font-bold">{t('queue.attention', { count: attention.length, what: whatWaits(t, attention) })}</p>
+        )}
         <div className="mt-2 flex flex-wrap gap-2">
-          {online && (s.waiting > 0 || s.signin > 0) && !sending && (
+          {online && (waiting.length > 0 || signin.length > 0) && !sending && (
             <button
               type="button"
               onClick={() => void loadOutbox().then((q) => q.retryNow())}
