@@ -114,8 +114,15 @@ export async function signInApi(app: Express, email: string, password = DEMO_PAS
 /** The hidden _csrf value of a rendered form. */
 export function csrfFromHtml(html: string): string {
   const m = html.match(/name="_csrf" value="([^"]+)"/);
-  if (!m) throw new Error('no CSRF token in the page');
+  if (!m?.[1]) throw new Error('no CSRF token in the page');
   return m[1];
+}
+
+/** Where a redirect answer points; throws (with the status) when the answer carries no Location. */
+export function locationOf(res: { status: number; headers: Record<string, string | undefined> }): string {
+  const location = res.headers.location;
+  if (!location) throw new Error(`expected a redirect, got ${res.status} without a Location header`);
+  return location;
 }
 
 /** A signed-in browser-like client for the office pages (form posts with the page's token). */

@@ -16,17 +16,29 @@ export interface TwinFeature {
 
 const polygonsOf = (g: TwinFeature['geometry']): Polygon[] => (g.type === 'Polygon' ? [g.coordinates] : g.coordinates);
 
+/** A position's longitude/easting and latitude/northing; throws on a position with fewer than two numbers. */
+export function xy(p: Position): [number, number] {
+  const [x, y] = p;
+  if (x === undefined || y === undefined) throw new Error(`a position needs two numbers, got ${JSON.stringify(p)}`);
+  return [x, y];
+}
+
 // KML 2.2 (OGC 07-147r2): Placemark > Polygon > outerBoundaryIs/innerBoundaryIs > LinearRing.
 const coords = (ring: Ring) => ring.map(([x, y]) => `${x},${y},0`).join(' ');
-const kmlPolygon = (p: Polygon) =>
-  `<Polygon><outerBoundaryIs><LinearRing><coordinates>${coords(p[0])}</coordinates></LinearRing></outerBoundaryIs>` +
-  p.slice(1).map((h) => `<innerBoundaryIs><LinearRing><coordinates>${coords(h)}</coordinates></LinearRing></innerBoundaryIs>`).join('') +
-  '</Polygon>';
+function kmlPolygon([outer, ...holes]: Polygon): string {
+  if (!outer) throw new Error('a polygon needs an outer ring');
+  return (
+    `<Polygon><outerBoundaryIs><LinearRing><coordinates>${coords(outer)}</coordinates></LinearRing></outerBoundaryIs>` +
+    holes.map((h) => `<innerBoundaryIs><LinearRing><coordinates>${coords(h)}</coordinates></LinearRing></innerBoundaryIs>`).join('') +
+    '</Polygon>'
+  );
+}
 
 export function kmlOf(features: TwinFeature[], extra = ''): string {
   const placemarks = features.map((f) => {
     const polys = polygonsOf(f.geometry);
-    const geometry = polys.length === 1 ? kmlPolygon(polys[0]) : `<MultiGeometry>${polys.map(kmlPolygon).join('')}</MultiGeometry>`;
+    const [one] = polys;
+    const geometry = polys.length === 1 && one ? kmlPolygon(one) : `<MultiGeometry>${polys.map((p) => kmlPolygon(p)).join('')}</MultiGeometry>`;
     return `<Placemark><name>${f.name}</name><ExtendedData><Data name="block"><value>B-${f.name}</value></Data></ExtendedData>${geometry}</Placemark>`;
   });
   return `<?xml version="1.0" encoding="UTF-8"?>\n<kml xmlns="http://www.opengis.net/kml/2.2"><Document><name>Invented</name>${placemarks.join('')}${extra}</Document></kml>`;
@@ -38,10 +50,18 @@ export async function kmzOf(features: TwinFeature[]): Promise<Buffer> {
   return zip.generateAsync({ type: 'nodebuffer', compression: 'DEFLATE' });
 }
 
-/** Twice the signed area (shoelace): positive when anticlockwise. */
-const signed = (ring: Ring) => ring.slice(1).reduce((s, p, i) => s + (ring[i][0] * p[1] - p[0] * ring[i][1]), 0);
+/** Twice the signed area of a closed ring (shoelace): positive when anticlockwise. */
+export function twiceSignedArea(ring: Ring): number {
+  let sum = 0;
+  let previous: [number, number] | undefined;
+  for (const [x, y] of ring.map(xy)) {
+    if (previous) sum += previous[0] * y - x * previous[1];
+    previous = [x, y];
+  }
+  return sum;
+}
 /** The shapefile's own winding: outer rings clockwise, holes anticlockwise (Technical Description, p. 8). */
-const wound = (ring: Ring, outer: boolean) => ((signed(ring) < 0) === outer ? ring : [...ring].reverse());
+const wound = (ring: Ring, outer: boolean) => ((twiceSignedArea(ring) < 0) === outer ? ring : [...ring].reverse());
 
 function header(buf: Buffer, fileWords: number, shapeType: number, box: number[]) {
   buf.writeInt32BE(9994, 0); // file code
@@ -58,10 +78,10 @@ function header(buf: Buffer, fileWords: number, shapeType: number, box: number[]
 export function shapefileOf(features: TwinFeature[], project: (p: Position) => Position = (p) => p) {
   const records = features.map((f) => {
     const rings = polygonsOf(f.geometry).flatMap((p) => p.map((ring, r) => wound(ring, r === 0).map(project)));
-    const points = rings.flat();
-    const xs = points.map((p) => p[0]);
-    const ys = points.map((p) => p[1]);
-    const box = [Math.min(...xs), Math.min(...ys), Math.max(...xs), Math.max(...ys)];
+    const points = rings.flat().map(xy);
+    const xs = points.map(([x]) => x);
+    const ys = points.map(([, y]) => y);
+    const box: [number, number, number, number] = [Math.min(...xs), Math.min(...ys), Math.max(...xs), Math.max(...ys)];
     const content = Buffer.alloc(44 + 4 * rings.length + 16 * points.length);
     content.writeInt32LE(5, 0);
     box.forEach((v, i) => content.writeDoubleLE(v, 4 + 8 * i));
@@ -72,13 +92,19 @@ export function shapefileOf(features: TwinFeature[], project: (p: Position) => P
       content.writeInt32LE(start, 44 + 4 * i);
       start += ring.length;
     });
-    points.forEach((p, i) => {
-      content.writeDoubleLE(p[0], 44 + 4 * rings.length + 16 * i);
-      content.writeDoubleLE(p[1], 44 + 4 * rings.length + 16 * i + 8);
+    points.forEach(([x, y], i) => {
+      content.writeDoubleLE(x, 44 + 4 * rings.length + 16 * i);
+      content.writeDoubleLE(y, 44 + 4 * rings.length + 16 * i + 8);
     });
     return { content, box };
   });
-  const box = [0, 1, 2, 3].map((i) => (i < 2 ? Math.min : Math.max)(...records.map((r) => r.box[i])));
+  const boxes = records.map((r) => r.box);
+  const box = [
+    Math.min(...boxes.map((b) => b[0])),
+    Math.min(...boxes.map((b) => b[1])),
+    Math.max(...boxes.map((b) => b[2])),
+    Math.max(...boxes.map((b) => b[3])),
+  ];
   const shpLength = 100 + records.reduce((s, r) => s + 8 + r.content.length, 0);
   const shp = Buffer.alloc(shpLength);
   const shx = Buffer.alloc(100 + 8 * records.length);
@@ -148,7 +174,8 @@ export function utmNorth(lon0: number) {
   const k0 = 0.9996;
   const e = (2 * Math.sqrt(n)) / (1 + n);
   const rad = Math.PI / 180;
-  return ([lon, lat]: Position): Position => {
+  return (p: Position): [number, number] => {
+    const [lon, lat] = xy(p);
     const phi = lat * rad;
     const dl = (lon - lon0) * rad;
     const t = Math.sinh(Math.atanh(Math.sin(phi)) - e * Math.atanh(e * Math.sin(phi)));
