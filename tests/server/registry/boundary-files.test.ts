@@ -3,7 +3,8 @@ import path from 'node:path';
 import geodesic from 'geographiclib-geodesic';
 import { describe, expect, it } from 'vitest';
 import { MAX_UNZIPPED_BYTES, readBoundaryFile, type BoundaryFileResult } from '../../../server/registry/boundary-files';
-import { kmlOf, kmzOf, shapefileOf, utmNorth, UTM10N_PRJ, WGS84_PRJ, zipOf, type TwinFeature } from '../../helpers/boundary-files';
+import { kmlOf, kmzOf, shapefileOf, twiceSignedArea, utmNorth, UTM10N_PRJ, WGS84_PRJ, xy, zipOf, type TwinFeature } from '../../helpers/boundary-files';
+import { at, only } from '../../helpers/lists';
 
 // GeoJSON twins: the invented outlines in the open Pacific near 36° N, 125° W (tests/fixtures/boundaries/make.mjs).
 const twin = (name: string): TwinFeature => {
@@ -16,11 +17,11 @@ const TWINS = ['rectangle', 'ell', 'hole', 'two-part'].map(twin);
 type Ring = number[][];
 /** A ring written from its smallest corner, anticlockwise for outer rings and clockwise for holes (RFC 7946). */
 function canonical(ring: Ring, outer: boolean): string {
-  const open = ring.slice(0, -1).map(([x, y]) => [x, y]);
-  const signed = open.reduce((s, p, i) => { const q = open[(i + 1) % open.length]; return s + (p[0] * q[1] - q[0] * p[1]); }, 0);
-  const oriented = (signed > 0) === outer ? open : open.reverse();
-  let start = 0;
-  oriented.forEach((p, i) => { if (p[0] < oriented[start][0] || (p[0] === oriented[start][0] && p[1] < oriented[start][1])) start = i; });
+  const open = ring.slice(0, -1).map(xy);
+  const oriented = (twiceSignedArea(ring) > 0) === outer ? open : open.reverse();
+  // The first of the smallest corners (by x, then y): the sort is stable, so ties keep their order.
+  const [smallest] = [...oriented].sort((p, q) => p[0] - q[0] || p[1] - q[1]);
+  const start = smallest ? oriented.indexOf(smallest) : 0;
   return JSON.stringify([...oriented.slice(start), ...oriented.slice(0, start)]);
 }
 const polygonsOf = (g: { type: string; coordinates: unknown }) => (g.type === 'Polygon' ? [g.coordinates as Ring[]] : (g.coordinates as Ring[][]));
@@ -37,19 +38,17 @@ describe('boundary files import to the same polygon as their GeoJSON twin', () =
     expect(result.ok && result.format).toBe('kml');
     const shapes = shapesOf(result);
     expect(shapes.map((s) => s.properties.name)).toEqual(TWINS.map((t) => t.name));
-    expect(shapes[0].properties.block).toBe('B-rectangle');
-    shapes.forEach((s, i) => {
-      expect(s.problem).toBeNull();
-      expect(canonicalShape(s.boundary!)).toEqual(canonicalShape(TWINS[i].geometry));
-    });
-    expect(shapes[3].boundary!.type).toBe('MultiPolygon');
+    expect(at(shapes, 0).properties.block).toBe('B-rectangle');
+    expect(shapes.map((s) => s.problem)).toEqual(TWINS.map(() => null));
+    expect(shapes.map((s) => canonicalShape(s.boundary!))).toEqual(TWINS.map((t) => canonicalShape(t.geometry)));
+    expect(at(shapes, 3).boundary?.type).toBe('MultiPolygon');
     expect(result.ok && result.nameKeys[0]).toBe('name');
   });
 
   it('reads KMZ (zipped KML)', async () => {
     const result = await readBoundaryFile('fields.kmz', await kmzOf(TWINS));
     expect(result.ok && result.format).toBe('kmz');
-    shapesOf(result).forEach((s, i) => expect(canonicalShape(s.boundary!)).toEqual(canonicalShape(TWINS[i].geometry)));
+    expect(shapesOf(result).map((s) => canonicalShape(s.boundary!))).toEqual(TWINS.map((t) => canonicalShape(t.geometry)));
   });
 
   it('reads a zipped shapefile in WGS84 (outer rings clockwise in the file) with its .dbf names', async () => {
@@ -58,19 +57,17 @@ describe('boundary files import to the same polygon as their GeoJSON twin', () =
     expect(result.ok && result.format).toBe('shapefile');
     const shapes = shapesOf(result);
     expect(shapes.map((s) => s.properties.NAME)).toEqual(TWINS.map((t) => t.name));
-    shapes.forEach((s, i) => {
-      // Written as doubles, read back through the WGS84 .prj and kept to the nanodegree: exact.
-      expect(canonicalShape(s.boundary!)).toEqual(canonicalShape(TWINS[i].geometry));
-    });
+    // Written as doubles, read back through the WGS84 .prj and kept to the nanodegree: exact.
+    expect(shapes.map((s) => canonicalShape(s.boundary!))).toEqual(TWINS.map((t) => canonicalShape(t.geometry)));
   });
 
   it('the twins keep RFC 7946 winding whatever the file had', async () => {
     const { shp, dbf } = shapefileOf([twin('hole')]);
-    const [s] = shapesOf(await readBoundaryFile('pond.zip', await zipOf({ 'pond.shp': shp, 'pond.dbf': dbf })));
-    const [outer, hole] = (s.boundary as { coordinates: Ring[] }).coordinates;
-    const signed = (r: Ring) => r.slice(1).reduce((a, p, i) => a + (r[i][0] * p[1] - p[0] * r[i][1]), 0);
-    expect(signed(outer)).toBeGreaterThan(0); // anticlockwise
-    expect(signed(hole)).toBeLessThan(0); // clockwise
+    const s = only(shapesOf(await readBoundaryFile('pond.zip', await zipOf({ 'pond.shp': shp, 'pond.dbf': dbf }))));
+    const rings = (s.boundary as { coordinates: Ring[] }).coordinates;
+    expect(rings).toHaveLength(2);
+    expect(twiceSignedArea(at(rings, 0))).toBeGreaterThan(0); // outer: anticlockwise
+    expect(twiceSignedArea(at(rings, 1))).toBeLessThan(0); // hole: clockwise
   });
 });
 
@@ -92,9 +89,10 @@ describe('a projected shapefile is reprojected to WGS84 through its .prj', () =>
     expect(shp.readDoubleLE(36)).toBeGreaterThan(300_000);
     const shapes = shapesOf(await readBoundaryFile('utm.zip', await zipOf({ 'utm.shp': shp, 'utm.dbf': dbf, 'utm.prj': UTM10N_PRJ })));
     let worst = 0;
+    expect(shapes).toHaveLength(twins.length);
     shapes.forEach((s, i) => {
-      const got = polygonsOf(s.boundary!).flat(2);
-      const want = polygonsOf(twins[i].geometry).flat(2);
+      const got = polygonsOf(s.boundary!).flat(2).map(xy);
+      const want = polygonsOf(at(twins, i).geometry).flat(2).map(xy);
       // Same corners in some order and winding: compare each corner to its nearest twin corner, in metres (geographiclib).
       for (const [lon, lat] of got) {
         const d = Math.min(...want.map(([x, y]) => geodesic.Geodesic.WGS84.Inverse(lat, lon, y, x).s12!));
@@ -121,15 +119,16 @@ describe('refusals', () => {
 
   it('a self-intersecting shape is refused with the validity check’s words, the others stay usable', async () => {
     const shapes = shapesOf(await readBoundaryFile('mixed.kml', Buffer.from(kmlOf([twin('rectangle'), bowtie]))));
-    expect(shapes[0].problem).toBeNull();
-    expect(shapes[1].boundary).toBeNull();
-    expect(shapes[1].problem).toMatch(/crosses itself/);
+    expect(shapes).toHaveLength(2);
+    expect(at(shapes, 0).problem).toBeNull();
+    expect(at(shapes, 1).boundary).toBeNull();
+    expect(at(shapes, 1).problem).toMatch(/crosses itself/);
   });
 
   it('bounds the corners of one shape', async () => {
     const ring = Array.from({ length: 6000 }, (_, i) => [-125 + 0.01 * Math.cos((2 * Math.PI * i) / 6000), 36 + 0.01 * Math.sin((2 * Math.PI * i) / 6000)]);
-    const many = { name: 'Round', geometry: { type: 'Polygon' as const, coordinates: [[...ring, ring[0]]] } };
-    const [s] = shapesOf(await readBoundaryFile('round.kml', Buffer.from(kmlOf([many]))));
+    const many = { name: 'Round', geometry: { type: 'Polygon' as const, coordinates: [[...ring, at(ring, 0)]] } };
+    const s = only(shapesOf(await readBoundaryFile('round.kml', Buffer.from(kmlOf([many])))));
     expect(s.problem).toMatch(/6,000 corners; at most 5,000/);
   });
 

@@ -3,7 +3,7 @@ import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import request from 'supertest';
-import { createTestApp, csrfFromHtml, signInPages, type TestApp } from '../../helpers/app';
+import { createTestApp, csrfFromHtml, signInPages, type TestApp, locationOf } from '../../helpers/app';
 import { kmlOf, kmzOf, shapefileOf, zipOf, WGS84_PRJ, type TwinFeature } from '../../helpers/boundary-files';
 
 let t: TestApp;
@@ -86,7 +86,7 @@ describe('field form: boundary from KML, KMZ or a zipped shapefile', () => {
     const outsider = await signInPages(t.app, 'clerk@quillwater.test');
     const form = await outsider.get('/registry/ranches/new');
     const made = await outsider.post('/registry/ranches').type('form').send({ _csrf: csrfFromHtml(form.text), name: 'Heron Spit' });
-    const otherRanch = made.headers.location.split('/').pop();
+    const otherRanch = locationOf(made).split('/').pop();
     expect((await clerk.get(`/registry/ranches/${ranchId}/boundaries/${upload}`)).status).toBe(200);
     expect((await outsider.get(`/registry/ranches/${otherRanch}/boundaries/${upload}`)).status).toBe(404);
     expect((await outsider.get(`/registry/ranches/${ranchId}/boundaries`)).status).toBe(404);
@@ -107,13 +107,13 @@ describe('many fields from one file', () => {
     const { shp, dbf } = shapefileOf(features);
     const res = await upload(clerk, ranchId, await zipOf({ 'b.shp': shp, 'b.dbf': dbf, 'b.prj': WGS84_PRJ }), 'blocks.zip');
     expect(res.status).toBe(302);
-    const preview = await clerk.get(res.headers.location);
+    const preview = await clerk.get(locationOf(res));
     expect(preview.status).toBe(200);
     expect(preview.text).toContain('No problems found: all 3 shapes can be imported.');
     expect(preview.text).toMatch(new RegExp(`(Replaces the boundary of|Adds a boundary to) field “${existing.name}”`));
     expect(preview.text).toContain('New field “Tern 7”, area 9.86 ac from the boundary.');
 
-    const commit = await clerk.post(res.headers.location).type('form').send({ _csrf: csrfFromHtml(preview.text), name: 'NAME' });
+    const commit = await clerk.post(locationOf(res)).type('form').send({ _csrf: csrfFromHtml(preview.text), name: 'NAME' });
     expect(commit.status).toBe(302);
     const after = await t.db('fields').where('id', existing.id).first();
     expect(JSON.parse(after.boundary).coordinates[0][0]).toEqual([-130, 36.2]);
@@ -132,7 +132,7 @@ describe('many fields from one file', () => {
     const before = await t.db('fields').count({ n: '*' }).first();
     const kml = kmlOf([box('Tern 1', -130), box('Tern 1', -129.99), bowtie, box('Tern 3', -129.98)]);
     const res = await upload(clerk, ranchId, kml, 'blocks.kml');
-    const preview = await clerk.get(res.headers.location);
+    const preview = await clerk.get(locationOf(res));
     expect(preview.text).toContain('3 shapes have a problem');
     expect(preview.text).toContain('2 shapes in the file are named “Tern 1”; a field takes one boundary.');
     expect(preview.text).toMatch(/The outline crosses itself/);
@@ -140,7 +140,7 @@ describe('many fields from one file', () => {
     // The names can come from another attribute (here the KML's extended data).
     const byBlock = await clerk.get(`${res.headers.location}?name=block`);
     expect(byBlock.text).toContain('New field “B-Tern 3”');
-    const commit = await clerk.post(res.headers.location).type('form').send({ _csrf: csrfFromHtml(preview.text), name: 'name' });
+    const commit = await clerk.post(locationOf(res)).type('form').send({ _csrf: csrfFromHtml(preview.text), name: 'name' });
     expect(commit.status).toBe(400);
     expect(commit.text).toContain('Nothing was imported');
     expect(await t.db('fields').count({ n: '*' }).first()).toEqual(before);

@@ -20,7 +20,7 @@ afterEach(async () => {
  * offshore: a demo point inside it cannot be a real farm.
  */
 const OPEN_SEA = { west: -140, east: -130, south: 34, north: 38.5 };
-const atSea = ([lon, lat]: number[]) => lon >= OPEN_SEA.west && lon <= OPEN_SEA.east && lat >= OPEN_SEA.south && lat <= OPEN_SEA.north;
+const atSea = ([lon, lat]: number[]) => lon !== undefined && lat !== undefined && lon >= OPEN_SEA.west && lon <= OPEN_SEA.east && lat >= OPEN_SEA.south && lat <= OPEN_SEA.north;
 
 function vertices(geojson: string): number[][] {
   const g = JSON.parse(geojson) as { type: string; coordinates: unknown };

@@ -25,18 +25,14 @@ const del = (c: Client, path: string) => c.agent.delete(path).set('X-CSRF-Token'
  * (R = 6 378 137 m): 0.001° of latitude = R·π/180·0.001 ≈ 111.32 m; 0.001° of longitude at the
  * middle latitude 36.0005° ≈ 111.32 m × cos 36.0005° ≈ 90.06 m; area ≈ 10 025 m² ≈ 1.0025 ha.
  */
-const SQUARE = {
-  type: 'Polygon',
-  coordinates: [
-    [
-      [-135.0, 36.0],
-      [-134.999, 36.0],
-      [-134.999, 36.001],
-      [-135.0, 36.001],
-      [-135.0, 36.0],
-    ],
-  ],
-};
+const SQUARE_RING: [number, number][] = [
+  [-135.0, 36.0],
+  [-134.999, 36.0],
+  [-134.999, 36.001],
+  [-135.0, 36.001],
+  [-135.0, 36.0],
+];
+const SQUARE = { type: 'Polygon', coordinates: [SQUARE_RING] };
 const SQUARE_HA_BY_HAND = 1.0025;
 
 async function makeRanch(c: Client, name = 'Thistlecombe Ranch', extra: object = {}) {
@@ -79,7 +75,7 @@ describe('signed out', () => {
       const r = await a.get('/api/session');
       return { agent: a, body: r.body as { csrfToken: string } };
     })();
-    const routes: [string, string][] = [
+    const routes: ['get' | 'post' | 'patch' | 'delete', string][] = [
       ['get', '/api/ranches'],
       ['post', '/api/ranches'],
       ['get', '/api/ranches/any'],
@@ -97,7 +93,7 @@ describe('signed out', () => {
       ['get', '/api/history'],
     ];
     for (const [method, path] of routes) {
-      const req = (agent as unknown as Record<string, (p: string) => request.Test>)[method](path);
+      const req = agent[method](path);
       const res = method === 'get' ? await req : await req.set('X-CSRF-Token', body.csrfToken).send({});
       expect(res.status, `${method} ${path}`).toBe(401);
       expect(res.body.error.code).toBe('unauthenticated');
@@ -130,7 +126,7 @@ describe('roles', () => {
     const clerk = await as('clerk@crowntip.test');
     const { ranch, field, planting } = await makeChain(clerk);
     const reader = await as(email);
-    const writes: [string, string, object][] = [
+    const writes: ['post' | 'patch' | 'delete', string, object][] = [
       ['post', '/api/ranches', { name: 'Foxglove Hollow' }],
       ['patch', `/api/ranches/${ranch.id}`, { name: 'Renamed' }],
       ['delete', `/api/ranches/${ranch.id}`, {}],
@@ -140,7 +136,7 @@ describe('roles', () => {
       ['patch', `/api/plantings/${planting.id}`, { crop: 'oats' }],
     ];
     for (const [method, path, body] of writes) {
-      const req = (reader.agent as unknown as Record<string, (p: string) => request.Test>)[method](path);
+      const req = reader.agent[method](path);
       const res = await req.set('X-CSRF-Token', reader.csrf).send(body);
       expect(res.status, `${method} ${path}`).toBe(403);
       expect(res.body.error.code).toBe('forbidden');
@@ -455,8 +451,8 @@ describe('registry rules', () => {
   it('refuses invalid GeoJSON with 400 on the boundary', async () => {
     const clerk = await as('clerk@crowntip.test');
     const { ranch, field } = await makeChain(clerk);
-    const open = { type: 'Polygon', coordinates: [SQUARE.coordinates[0].slice(0, 4).concat([[-134.9995, 36.0]])] };
-    const farNorth = { type: 'Polygon', coordinates: [SQUARE.coordinates[0].map(([lon, lat]) => [lon, lat + 164])] };
+    const open = { type: 'Polygon', coordinates: [SQUARE_RING.slice(0, 4).concat([[-134.9995, 36.0]])] };
+    const farNorth = { type: 'Polygon', coordinates: [SQUARE_RING.map(([lon, lat]) => [lon, lat + 164])] };
     const point = { type: 'Point', coordinates: [10, 36] };
     for (const boundary of [open, farNorth, point]) {
       expectInvalid(await post(clerk, '/api/fields', { ranchId: ranch.id, name: 'Bad Shape', areaHa: 1, boundary }), /^boundary/);

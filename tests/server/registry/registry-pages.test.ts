@@ -1,6 +1,6 @@
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import request from 'supertest';
-import { createTestApp, csrfFromHtml, signInPages, type TestApp } from '../../helpers/app';
+import { createTestApp, csrfFromHtml, signInPages, type TestApp, locationOf } from '../../helpers/app';
 import { acToHa } from '../../../shared/calc/units';
 import { seasonOfDate, todayIso } from '../../../shared/registry/season';
 
@@ -55,14 +55,14 @@ describe('clerk keeps the registry through the forms', () => {
     const clerk = await signInPages(t.app, 'clerk@crowntip.test');
     const ranch = await postForm(clerk, '/registry/ranches/new', '/registry/ranches', { name: 'Mallow Creek', code: 'MC', county: 'Example County', contactEmails: 'a@mallow.test, b@mallow.test' });
     expect(ranch.status).toBe(302);
-    const ranchId = idFrom(ranch.headers.location);
+    const ranchId = idFrom(locationOf(ranch));
 
     const field = await postFieldForm(clerk, ranchId, { name: 'Mallow 1', area: '10' }, {
       content: JSON.stringify({ type: 'Feature', properties: {}, geometry: SQUARE }),
       name: 'mallow-1.geojson',
     });
     expect(field.status).toBe(302);
-    const fieldId = idFrom(field.headers.location);
+    const fieldId = idFrom(locationOf(field));
     const stored = await t.db('fields').where('id', fieldId).first();
     expect(stored.area_ha).toBeCloseTo(acToHa(10), 10); // entered in acres, stored in hectares
     expect(stored.boundary_area_ha).toBeGreaterThan(3.9);
@@ -99,7 +99,7 @@ describe('clerk keeps the registry through the forms', () => {
     const ranchId = (await t.db('ranches').where('name', 'Sandpiper Bench').first()).id;
     // 20 ac = 8.1 ha entered against about 4.0 ha drawn.
     const res = await postFieldForm(clerk, ranchId, { name: 'Too Big On Paper', area: '20' }, { content: JSON.stringify(SQUARE), name: 'b.geojson' });
-    const page = await clerk.get(res.headers.location);
+    const page = await clerk.get(locationOf(res));
     expect(page.text).toContain('differs from the entered area');
   });
 
