@@ -6,6 +6,7 @@ import { assignedCalibrationFor } from '../../../server/calibrations/db';
 import { DEMO_CALIBRATION_LABEL, demoCalibrationId } from '../../../seeds/03_demo_calibrations';
 import { DEMO_ORGANISATIONS } from '../../../seeds/demo-people';
 import { readDemo } from '../../shared/demo-data';
+import { at, only } from '../../helpers/lists';
 
 const RYE = demoCalibrationId('c', '1', 0);
 const TRITICALE = demoCalibrationId('c', '2', 0);
@@ -350,18 +351,18 @@ describe('GET /api/calibrations/:id/table', () => {
       expect(res.status).toBe(200);
       expect(res.body).toMatchObject({ unit, step, version: 1 });
       const fit = (await agent.get(`/api/calibrations/${TRITICALE}`)).body.fit as Fit;
-      const at = lengthForBiomass(fit, res.body.thresholdKgHa);
-      if (!at.ok) throw new Error('triticale demo curve should reach the threshold');
-      expect(res.body.thresholdLengthCm).toBe(at.x);
+      const reach = lengthForBiomass(fit, res.body.thresholdKgHa);
+      if (!reach.ok) throw new Error('triticale demo curve should reach the threshold');
+      expect(res.body.thresholdLengthCm).toBe(reach.x);
       const rows = res.body.items as { length: number; threshold: boolean; biomassKgHa: number; extrapolated: boolean }[];
-      const marked = rows.filter((r) => r.threshold);
-      expect(marked).toHaveLength(1);
-      expect(marked[0].length).toBe(Math.ceil(at.x / perUnit / step - 1e-9) * step);
-      expect(marked[0].biomassKgHa).toBeGreaterThanOrEqual(res.body.thresholdKgHa);
-      const before = rows[rows.indexOf(marked[0]) - 1];
+      const marked = only(rows.filter((r) => r.threshold), 'threshold row');
+      expect(marked.length).toBe(Math.ceil(reach.x / perUnit / step - 1e-9) * step);
+      expect(marked.biomassKgHa).toBeGreaterThanOrEqual(res.body.thresholdKgHa);
+      expect(rows.indexOf(marked)).toBeGreaterThan(0);
+      const before = at(rows, rows.indexOf(marked) - 1, 'row below the threshold');
       expect(before.biomassKgHa).toBeLessThan(res.body.thresholdKgHa);
       // The triticale rule of thumb: about 27 in (69 cm) for 4,500 lb/ac (product brief).
-      expect(Math.abs(at.x - 69)).toBeLessThan(4);
+      expect(Math.abs(reach.x - 69)).toBeLessThan(4);
     }
     const bad = await agent.get(`/api/calibrations/${TRITICALE}/table?unit=ft&from=0`);
     expect(bad.status).toBe(400);

@@ -1,7 +1,8 @@
 import { readFileSync } from 'node:fs';
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import request from 'supertest';
-import { createTestApp, csrfFromHtml, signInPages, type TestApp } from '../../helpers/app';
+import { createTestApp, csrfFromHtml, signInPages, type TestApp, locationOf } from '../../helpers/app';
+import { at, only } from '../../helpers/lists';
 import { CM_PER_IN, compareModels, fitCalibration, inToCm, lbPerAcToKgPerHa, lengthForBiomass, type Fit } from '../../../shared/calc';
 import { currentCreditRule } from '../../../server/rules/service';
 import { demoCalibrationId } from '../../../seeds/03_demo_calibrations';
@@ -143,13 +144,13 @@ describe('upload, preview and save', () => {
   it('g/m² in a semicolon file is stored ×10 as kg/ha', async () => {
     const { agent, csrf } = await pagesAs('admin');
     const up = await agent.post('/calibrations/uploads').field('_csrf', csrf).attach('file', `${FIXTURES}/g-m2-semicolon.csv`);
-    const preview = await agent.get(up.headers.location);
+    const preview = await agent.get(locationOf(up));
     const save = await agent
-      .post(up.headers.location)
+      .post(locationOf(up))
       .type('form')
       .send({ _csrf: csrfFromHtml(preview.text), action: 'save', crop: 'oats', name: 'Oats g/m²', lengthUnit: 'cm', biomassUnit: 'g_m2' });
     expect(save.status).toBe(303);
-    const c = await t.db('calibrations').where({ id: save.headers.location.split('/').pop() }).first();
+    const c = await t.db('calibrations').where({ id: locationOf(save).split('/').pop() }).first();
     const points = JSON.parse((await t.db('calibration_datasets').where({ id: c.dataset_id }).first()).points);
     expect(points.map((p: { x: number; y: number }) => [p.x, p.y])).toEqual([
       [30.5, 1200],
@@ -163,12 +164,12 @@ describe('upload, preview and save', () => {
   it('a file with bad rows lists each one and saves nothing (400)', async () => {
     const { agent, csrf } = await pagesAs('admin');
     const up = await agent.post('/calibrations/uploads').field('_csrf', csrf).attach('file', `${FIXTURES}/bad-rows.csv`);
-    const preview = await agent.get(up.headers.location);
+    const preview = await agent.get(locationOf(up));
     expect(preview.text).toContain('5 problems in the rows');
     for (const line of [3, 4, 5, 6, 7]) expect(preview.text).toContain(`Line ${line}:`);
     const before = await t.db('calibrations').count({ n: '*' }).first();
     const save = await agent
-      .post(up.headers.location)
+      .post(locationOf(up))
       .type('form')
       .send({ _csrf: csrfFromHtml(preview.text), action: 'save', crop: 'barley', name: 'Bad', lengthUnit: 'cm', biomassUnit: 'kg_ha' });
     expect(save.status).toBe(400);
@@ -179,13 +180,13 @@ describe('upload, preview and save', () => {
   it('form errors show beside their inputs; "check again" re-reads with other units', async () => {
     const { agent, csrf } = await pagesAs('admin');
     const up = await agent.post('/calibrations/uploads').field('_csrf', csrf).attach('file', Buffer.from('length,biomass\n40,1500\n50,2000\n60,2500\n70,3200\n'), 'plain.csv');
-    const preview = await agent.get(up.headers.location);
+    const preview = await agent.get(locationOf(up));
     expect(preview.text).toContain('Choose the unit of the “length” column');
     const token = csrfFromHtml(preview.text);
-    const save = await agent.post(up.headers.location).type('form').send({ _csrf: token, action: 'save', crop: '', name: '' });
+    const save = await agent.post(locationOf(up)).type('form').send({ _csrf: token, action: 'save', crop: '', name: '' });
     expect(save.status).toBe(400);
     for (const id of ['crop-error', 'name-error', 'lengthUnit-error', 'biomassUnit-error']) expect(save.text).toContain(`id="${id}"`);
-    const check = await agent.post(up.headers.location).type('form').send({ _csrf: token, action: 'check', lengthUnit: 'in', biomassUnit: 'lb_ac' });
+    const check = await agent.post(locationOf(up)).type('form').send({ _csrf: token, action: 'check', lengthUnit: 'in', biomassUnit: 'lb_ac' });
     expect(check.status).toBe(200);
     expect(check.text).toContain('All 4 rows are good');
     expect(check.text).toContain(`${(40).toFixed(1)} in`);
@@ -218,9 +219,9 @@ describe('upload, preview and save', () => {
     const { agent, csrf } = await pagesAs('admin');
     const up = await agent.post('/calibrations/uploads').field('_csrf', csrf).attach('file', `${FIXTURES}/g-m2-semicolon.csv`);
     const other = await signInPages(t.app, 'admin@quillwater.test');
-    expect((await other.get(up.headers.location)).status).toBe(404);
+    expect((await other.get(locationOf(up))).status).toBe(404);
     const token = csrfFromHtml((await other.get('/account')).text);
-    expect((await other.post(up.headers.location).type('form').send({ _csrf: token, action: 'save' })).status).toBe(404);
+    expect((await other.post(locationOf(up)).type('form').send({ _csrf: token, action: 'save' })).status).toBe(404);
   });
 });
 
@@ -245,10 +246,11 @@ describe('the fit page', () => {
       const shown = tableNumbers(page.text);
       expect(shown.map((r) => r.model)).toEqual(cmp.ranked.map((r) => r.model));
       for (const [i, r] of cmp.ranked.entries()) {
-        expect(shown[i].rSquared).toBe(r.fit.rSquared);
-        expect(shown[i].residualStdError).toBe(r.fit.residualStdError);
-        expect(shown[i].looRmse).toBe(r.fit.looRmse);
-        expect(shown[i].coefficients).toEqual(r.fit.coefficients.map((c, k) => [c, r.fit.standardErrors[k]]));
+        const row = at(shown, i, 'table row');
+        expect(row.rSquared).toBe(r.fit.rSquared);
+        expect(row.residualStdError).toBe(r.fit.residualStdError);
+        expect(row.looRmse).toBe(r.fit.looRmse);
+        expect(row.coefficients).toEqual(r.fit.coefficients.map((c, k) => [c, r.fit.standardErrors[k]]));
       }
       expect(unescape(page.text)).toContain(cmp.recommendation.message);
     }
@@ -318,7 +320,7 @@ describe('publishing and retiring through the pages', () => {
     expect(refused.status).toBe(303);
     expect((await agent.get(`/calibrations/${RYE}`)).text).toContain('Estimates for Cereal rye use this version');
     const draft = await agent.post(`/calibrations/${RYE}/drafts`).type('form').send({ _csrf: csrf });
-    const draftId = draft.headers.location.split('/').pop();
+    const draftId = locationOf(draft).split('/').pop();
     await agent.post(`/calibrations/${draftId}/publish`).type('form').send({ _csrf: csrf, model: 'power', label: 'v2', confirmed: 'yes' });
     const set = await agent.post('/calibrations/assignments').type('form').send({ _csrf: csrf, crop: 'cereal_rye', variety: '', calibrationId: draftId });
     expect(set.status).toBe(303);
@@ -354,15 +356,14 @@ describe('the printable lookup table', () => {
     const threshold = Number(page.text.match(/data-threshold-kg-ha="([^"]+)"/)![1]);
     expect(threshold).toBe((await currentCreditRule(t.db, ORG1)).thresholdKgHa);
     const fit = JSON.parse((await t.db('calibrations').where({ id: RYE }).first()).fit) as Fit;
-    const at = lengthForBiomass(fit, threshold);
-    if (!at.ok) throw new Error('the rye demo curve reaches the threshold');
-    const marked = [...page.text.matchAll(/<tr data-threshold="true"[^>]*data-length="([^"]+)" data-biomass-kg-ha="([^"]+)"/g)];
-    expect(marked).toHaveLength(1);
-    expect(Number(marked[0][1])).toBe(Math.ceil(at.x / perUnit / step - 1e-9) * step);
-    expect(Number(marked[0][2])).toBeGreaterThanOrEqual(threshold);
+    const reach = lengthForBiomass(fit, threshold);
+    if (!reach.ok) throw new Error('the rye demo curve reaches the threshold');
+    const marked = only([...page.text.matchAll(/<tr data-threshold="true"[^>]*data-length="([^"]+)" data-biomass-kg-ha="([^"]+)"/g)], 'highlighted row');
+    expect(Number(marked[1])).toBe(Math.ceil(reach.x / perUnit / step - 1e-9) * step);
+    expect(Number(marked[2])).toBeGreaterThanOrEqual(threshold);
     // Every row is a whole step; rows outside the data are marked.
     const lengths = [...page.text.matchAll(/data-length="([^"]+)"/g)].map((m) => Number(m[1]));
-    for (const [i, l] of lengths.entries()) if (i) expect(l - lengths[i - 1]).toBeCloseTo(step, 9);
+    for (const [i, l] of lengths.entries()) if (i) expect(l - at(lengths, i - 1)).toBeCloseTo(step, 9);
     const extrapolated = [...page.text.matchAll(/data-extrapolated="true" data-length="([^"]+)"/g)].map((m) => Number(m[1]) * perUnit);
     for (const x of extrapolated) expect(x < fit.xRange[0] || x > fit.xRange[1]).toBe(true);
     // Provenance and caution; printable on two sheets at most (two columns when long).

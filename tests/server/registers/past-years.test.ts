@@ -1,6 +1,6 @@
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import request from 'supertest';
-import { createTestApp, csrfFromHtml, signInApi, signInPages, type TestApp } from '../../helpers/app';
+import { createTestApp, csrfFromHtml, signInApi, signInPages, type TestApp, locationOf } from '../../helpers/app';
 import { ORG, YEAR, buildHandWorkedScenario } from '../../helpers/register-scenario';
 import { acToHa } from '../../../shared/calc/units';
 import { computeRegister } from '../../../server/registers/service';
@@ -90,7 +90,7 @@ describe('past years are protected: registers read the registry as it stood', ()
 
     const amended = await clerk.post(`/registers/${s.ranchId}/${YEAR}`).type('form').send({ _csrf: csrfFromHtml(today.text), confirm: 'yes', registry: 'today' });
     expect(amended.status).toBe(303);
-    const v2 = await clerk.get(amended.headers.location);
+    const v2 = await clerk.get(locationOf(amended));
     expect(v2.text).toContain('Amendment: changes from version 1');
     expect(v2.text).toContain('data-diff-field="A North" data-diff-key="areaHa"');
     const stored = await t.db('registers').where({ ranch_id: s.ranchId, year: YEAR, version: 2 }).first();

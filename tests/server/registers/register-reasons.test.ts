@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { registerRow, type RegisterRule } from '../../../server/registers/service';
+import { at, only } from '../../helpers/lists';
 
 /*
  * A register row says what is true about a missing estimate. Hand-made inputs: 4 ha of oats seeded
@@ -38,11 +39,11 @@ describe('the reason for a missing estimate', () => {
   it('names the approved walk without an estimate and the crop without a calibration', () => {
     const row = registerRow(field, [{ id: 'w1', plantingId: 'p1', walkedOn: '2027-03-07', estimate: null }], rule, '2027-03-25', '2026-27');
     expect(row.reasons.map((r) => r.code)).toEqual(['no_estimate']);
-    expect(row.reasons[0].message).toBe('The approved walk of 7 Mar has no estimate: no calibration is assigned for oats.');
+    expect(only(row.reasons).message).toBe('The approved walk of 7 Mar has no estimate: no calibration is assigned for oats.');
   });
 
   it('asks for a walk when there is none', () => {
     const row = registerRow(field, [], rule, '2027-03-25', '2026-27');
-    expect(row.reasons[0].message).toBe('No biomass estimate yet: a field walk is needed.');
+    expect(at(row.reasons, 0).message).toBe('No biomass estimate yet: a field walk is needed.');
   });
 });

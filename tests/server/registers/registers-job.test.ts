@@ -3,7 +3,7 @@ import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import bcrypt from 'bcryptjs';
 import { parse } from 'csv-parse/sync';
 import { extractText, getDocumentProxy } from 'unpdf';
-import { createTestApp, DEMO_PASSWORD, signInApi, signInPages, type TestApp } from '../../helpers/app';
+import { createTestApp, csrfFromHtml, DEMO_PASSWORD, signInApi, signInPages, type TestApp, locationOf } from '../../helpers/app';
 import { estimateSnapshot, YEAR, SEASON } from '../../helpers/register-scenario';
 import { acToHa } from '../../../shared/calc/units';
 
@@ -163,12 +163,12 @@ describe('the organisation’s register as a background job', () => {
   it('shows the job on the page without script, keeps it to its organisation, and 404s when unknown', async () => {
     const pages = await signInPages(t.app, email);
     const page = await pages.get(`/registers?year=${YEAR}`);
-    const token = page.text.match(/name="_csrf" value="([^"]+)"/)![1];
+    const token = csrfFromHtml(page.text);
     const posted = await pages.post('/registers/jobs').type('form').send({ _csrf: token, year: String(YEAR) });
     expect(posted.status).toBe(303);
     expect(posted.headers.location).toMatch(new RegExp(`^/registers\\?year=${YEAR}&job=[0-9a-f-]+#organisation-register$`));
-    const jobId = new URL(posted.headers.location, 'http://x').searchParams.get('job')!;
-    const followed = await pages.get(posted.headers.location);
+    const jobId = new URL(locationOf(posted), 'http://x').searchParams.get('job')!;
+    const followed = await pages.get(locationOf(posted));
     expect(followed.text).toContain('<progress');
     expect(followed.text).toContain(`data-register-job-status="/registers/jobs/${jobId}"`);
 
