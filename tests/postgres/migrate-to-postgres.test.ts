@@ -15,6 +15,7 @@ import { seedDemoScenario } from '../../seeds/01_demo_scenario';
 import { DEMO_ORGANISATIONS, DEMO_USERS } from '../../seeds/demo-people';
 import { DEMO_PASSWORD, signInApi, TEST_SESSION_SECRET, TEST_SIGNING_KEY } from '../helpers/app';
 import { createThrowawayDatabase, dropDatabase } from '../helpers/postgres';
+import { only } from '../helpers/lists';
 
 /*
  * `npm run migrate-to-postgres` on the demo data: an SQLite file with the demo scenario, last
@@ -76,8 +77,8 @@ describe('npm run migrate-to-postgres', () => {
       const ids = async (db: Knex) => (await db(t).select('*')).map((r) => JSON.stringify(r.id ?? r.seq ?? r.code ?? null)).sort();
       expect(await ids(dest), t).toEqual(await ids(src));
     }
-    const registers = await src('registers').count({ n: '*' });
-    expect(Number(registers[0].n)).toBeGreaterThan(0);
+    const registers = only(await src('registers').count({ n: '*' }), 'count row');
+    expect(Number(registers.n)).toBeGreaterThan(0);
 
     // The same questions to an app on each database get the same answers.
     const config = loadConfig({ NODE_ENV: 'test', PUBLIC_URL: 'http://crowntip.test:3000' }, { BCRYPT_ROUNDS: 4, REGISTER_SIGNING_KEY: TEST_SIGNING_KEY });
@@ -93,11 +94,11 @@ describe('npm run migrate-to-postgres', () => {
     expect((await onPostgres.agent.get(`/api/registers/${registerId}`)).body.hashVerified).toBe(true);
 
     // The change history's numbering continues after the copied rows instead of colliding with them.
-    const before = Number((await dest('change_history').max({ m: 'seq' }))[0].m);
+    const before = Number(only(await dest('change_history').max({ m: 'seq' }), 'max row').m);
     expect(before).toBeGreaterThan(0);
     const ranch = await onPostgres.agent.post('/api/ranches').set('X-CSRF-Token', onPostgres.csrf).send({ name: 'Copied Ranch' });
     expect(ranch.status).toBe(201);
-    const after = Number((await dest('change_history').max({ m: 'seq' }))[0].m);
+    const after = Number(only(await dest('change_history').max({ m: 'seq' }), 'max row').m);
     expect(after).toBeGreaterThan(before);
   }, 180_000);
 

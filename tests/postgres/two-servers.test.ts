@@ -8,6 +8,7 @@ import { DEMO_PASSWORD, TEST_SESSION_SECRET, TEST_SIGNING_KEY } from '../helpers
 import { startFakeS3, type FakeS3 } from '../helpers/fake-s3';
 import { createThrowawayDatabase, dropDatabase } from '../helpers/postgres';
 import { startServer, type RunningServer } from '../helpers/server';
+import { at } from '../helpers/lists';
 
 /*
  * The proof that Crowntip runs on several machines: two real server processes (server/main.ts,
@@ -110,8 +111,7 @@ class Client {
 
 async function duePlanting(sampler: Client, server: RunningServer): Promise<string> {
   const today = (await (await sampler.send(server, 'GET', '/api/today')).json()) as { items: { plantingId: string }[] };
-  expect(today.items.length).toBeGreaterThan(0);
-  return today.items[0].plantingId;
+  return at(today.items, 0, 'planting due today').plantingId;
 }
 
 const walkBody = (id: string, plantingId: string) => ({
@@ -242,7 +242,7 @@ describe('two servers, one database, one file store', () => {
         return c;
       }),
     );
-    const plantingId = await duePlanting(clients[0], a);
+    const plantingId = await duePlanting(at(clients, 0), a);
 
     const acknowledged = new Map<string, { client: number; by: string; attempts: number }>();
     let failedAttempts = 0;
@@ -258,7 +258,7 @@ describe('two servers, one database, one file store', () => {
           for (let attempt = 0; ; attempt++) {
             if (attempt > 20) throw new Error(`walk ${id} was never acknowledged`);
             const servers = alive();
-            const server = servers[(i + k + attempt) % servers.length];
+            const server = at(servers, (i + k + attempt) % servers.length);
             try {
               const created = await client.send(server, 'POST', '/api/walks', walkBody(id, plantingId));
               if (created.status >= 500) throw new Error(`create answered ${created.status}`);

@@ -3,6 +3,7 @@ import { createTestApp, signInPages, type TestApp } from '../../helpers/app';
 import { workQueue } from '../../../server/people/work-queue-db';
 import { DEMO_ORGANISATIONS, DEMO_USERS } from '../../../seeds/demo-people';
 import { addDaysIso } from '../../../shared/registry/season';
+import { at, only } from '../../helpers/lists';
 
 let t: TestApp;
 const TODAY = '2027-02-20'; // reporting year 2027 (season 2026-27)
@@ -27,11 +28,13 @@ afterEach(async () => {
   await t.close();
 });
 
-async function plantings(count: number): Promise<string[]> {
+/** The ids of the organisation's first `count` plantings (by id), as a tuple of that length. */
+async function plantings<N extends number>(count: N): Promise<Tuple<string, N>> {
   const rows = await t.db('plantings').where('organisation_id', ORG).orderBy('id').limit(count).select('id');
   expect(rows).toHaveLength(count);
-  return rows.map((r) => r.id);
+  return rows.map((r) => r.id) as Tuple<string, N>;
 }
+type Tuple<T, N extends number, Acc extends T[] = []> = Acc['length'] extends N ? Acc : Tuple<T, N, [...Acc, T]>;
 
 async function walk(plantingId: string, status: string, walkedOn: string) {
   n += 1;
@@ -76,7 +79,7 @@ describe('the office work queue', () => {
     // (walked earlier, so it is the oldest).
     await plan(p9, -5);
     await walk(p9, 'draft', addDaysIso(TODAY, -3));
-    const [pOther] = await t.db('plantings').where('organisation_id', ORG).whereNotIn('id', [p1, p2, p3, p4, p5, p6, p7, p8, p9, p10]).limit(1).pluck('id');
+    const pOther = only(await t.db('plantings').where('organisation_id', ORG).whereNotIn('id', [p1, p2, p3, p4, p5, p6, p7, p8, p9, p10]).limit(1).pluck('id'), 'other planting');
     await walk(pOther, 'submitted', addDaysIso(TODAY, -9));
     // A terminated planting is never due.
     await t.db('plantings').where('id', pOther).update({ planned_termination_on: addDaysIso(TODAY, 1), terminated_on: addDaysIso(TODAY, -1) });
@@ -84,6 +87,7 @@ describe('the office work queue', () => {
     // Registers: one ranch finalised for 2027, another only for 2026 (still a 2027 draft).
     const ranches = await t.db('ranches').where('organisation_id', ORG).orderBy('id').pluck('id');
     expect(ranches.length).toBeGreaterThanOrEqual(2);
+    const [finalised, draft] = [at(ranches, 0), at(ranches, 1)];
     const reg = (ranchId: string, year: number) =>
       t.db('registers').insert({
         id: `10000000-0000-4000-8000-${String(year)}${ranchId.slice(0, 8)}`.slice(0, 36),
@@ -96,8 +100,8 @@ describe('the office work queue', () => {
         finalised_by_name: 'Test Clerk',
         finalised_at: new Date().toISOString(),
       });
-    await reg(ranches[0], 2027);
-    await reg(ranches[1], 2026);
+    await reg(finalised, 2027);
+    await reg(draft, 2026);
 
     const q = await workQueue(t.db, ORG, TODAY);
     expect(q.reportingYear).toBe(2027);

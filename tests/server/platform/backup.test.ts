@@ -6,6 +6,7 @@ import Database from 'better-sqlite3';
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import { migrateLatest, openDatabase } from '../../../server/platform/database';
 import { backupSqlite } from '../../../scripts/backup';
+import { only } from '../../helpers/lists';
 
 let dir: string;
 beforeEach(() => {
@@ -43,7 +44,7 @@ describe('npm run backup', () => {
     await db.destroy();
     const ok = cli({ DATABASE_FILE: file, BACKUP_DIR: path.join(dir, 'b') });
     expect(ok.status).toBe(0);
-    const [made] = fs.readdirSync(path.join(dir, 'b'));
+    const made = only(fs.readdirSync(path.join(dir, 'b')), 'backup file');
     expect(made).toMatch(/^crowntip-\d{8}-\d{6}\.sqlite$/);
     expect(ok.stdout).toContain(path.join(dir, 'b', made));
     const missing = cli({ DATABASE_FILE: path.join(dir, 'nothing.sqlite') });

@@ -3,6 +3,7 @@ import { pino } from 'pino';
 import { createTestApp, signInApi, testEngine, type TestApp } from '../../helpers/app';
 import { createJobQueue, type JobContext } from '../../../server/platform/jobs';
 import { DEMO_ORGANISATIONS } from '../../../seeds/demo-people';
+import { at } from '../../helpers/lists';
 
 /*
  * The job queue (server/platform/jobs.ts) on this run's engine: in-process on SQLite, pg-boss in
@@ -83,7 +84,7 @@ describe('background jobs', () => {
     const asks = await Promise.all([a, b, a, b].map((s) => s.jobs.enqueue('test-once', {}, { key: 'test-once:2027-02-20', keyHeld: 'forever' })));
     expect(asks.filter((x) => x.created)).toHaveLength(1);
     expect(new Set(asks.map((x) => x.id)).size).toBe(1);
-    await a.jobs.waitFor(asks[0].id, null, 20_000);
+    await a.jobs.waitFor(at(asks, 0).id, null, 20_000);
     // Asked again once done: still that one job.
     expect((await b.jobs.enqueue('test-once', {}, { key: 'test-once:2027-02-20', keyHeld: 'forever' })).created).toBe(false);
     expect(runs).toBe(1);

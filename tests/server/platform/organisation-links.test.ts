@@ -8,7 +8,7 @@ import { DEMO_ORGANISATIONS } from '../../../seeds/demo-people';
  * writes straight through Knex, past every service, and has a same-organisation twin that succeeds,
  * so a refusal means the organisation mismatch and nothing else.
  */
-const [A, B] = DEMO_ORGANISATIONS.map((o) => o.id);
+const [{ id: A }, { id: B }] = DEMO_ORGANISATIONS;
 const now = () => new Date().toISOString();
 let t: TestApp;
 

@@ -9,6 +9,7 @@ import { fileSystem } from '../../../server/platform/file-store';
 import { duePlantings } from '../../../server/walks/db';
 import { seasonOfDate, todayIso } from '../../../shared/registry/season';
 import { DEMO_ORGANISATIONS } from '../../../seeds/demo-people';
+import { at } from '../../helpers/lists';
 
 // Uploads when the disk misbehaves: a full disk (ENOSPC), a read-only one (EROFS) and a folder the
 // server may not write. Each must answer 507 or 503 in plain words and leave neither a file
@@ -55,7 +56,7 @@ function filesUnder(dir: string): string[] {
 async function walkOfSampler() {
   const sampler = await signInApi(t.app, 'sampler@crowntip.test');
   const today = todayIso();
-  const planting = (await duePlantings(t.db, ORG1, { season: seasonOfDate(today), today }))[0];
+  const planting = at(await duePlantings(t.db, ORG1, { season: seasonOfDate(today), today }), 0, 'due planting');
   const res = await sampler.agent
     .post('/api/walks')
     .set('X-CSRF-Token', sampler.csrf)

@@ -4,6 +4,7 @@ import { createTestApp, type TestApp } from '../../helpers/app';
 import { createMailer } from '../../../server/mail/mailer';
 import { defineReminderJob, enqueueDailyReminders } from '../../../server/reminders/daily';
 import { addDaysIso } from '../../../shared/registry/season';
+import { at } from '../../helpers/lists';
 
 /*
  * The daily reminder on two app servers at once (one database; pg-boss in the postgres project):
@@ -42,7 +43,7 @@ describe('the daily reminder on two servers', () => {
     await Promise.all([a.jobs.start(), b.jobs.start()]);
     const asks = await Promise.all([a, b, a, b, a, b].map((s) => enqueueDailyReminders(s.jobs, TODAY)));
     expect(asks.filter((x) => x.created)).toHaveLength(1);
-    const job = await b.jobs.waitFor<unknown, unknown, { messages: number }>(asks[0].id, null, 20_000);
+    const job = await b.jobs.waitFor<unknown, unknown, { messages: number }>(at(asks, 0).id, null, 20_000);
     expect(job).toMatchObject({ state: 'done', result: { messages: 2 } });
     // Later in the day, from either server: nothing new.
     expect((await enqueueDailyReminders(a.jobs, TODAY)).created).toBe(false);

@@ -1,6 +1,6 @@
 import { randomUUID } from 'node:crypto';
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
-import { createTestApp, csrfFromHtml, signInApi, signInPages, type TestApp } from '../../helpers/app';
+import { createTestApp, csrfFromHtml, signInApi, signInPages, type TestApp, locationOf } from '../../helpers/app';
 import { seasonOfDate, todayIso } from '../../../shared/registry/season';
 import { duePlantings } from '../../../server/walks/db';
 import { computeRegister, reportingYearOf } from '../../../server/registers/service';
@@ -69,7 +69,7 @@ describe('nobody approves their own walk', () => {
     const posted = await clerk.post(`/walks/${id}/approve`).type('form').send({ _csrf: csrfFromHtml(page.text) });
     expect(posted.status).toBe(303);
     expect(await statusOf(id)).toBe('submitted');
-    expect((await clerk.get(posted.headers.location)).text).toContain('Another reviewer must approve this walk');
+    expect((await clerk.get(locationOf(posted))).text).toContain('Another reviewer must approve this walk');
 
     // Another reviewer sees the buttons.
     const admin = await signInPages(t.app, 'admin@crowntip.test');

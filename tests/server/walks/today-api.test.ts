@@ -5,6 +5,7 @@ import { createTestApp, signInApi, type TestApp } from '../../helpers/app';
 import { seasonOfDate, todayIso } from '../../../shared/registry/season';
 import { todayResponseSchema, type TodayItem } from '../../../shared/schemas/walks';
 import { DEMO_ORGANISATIONS, DEMO_USERS } from '../../../seeds/demo-people';
+import { at } from '../../helpers/lists';
 
 // GET /api/today: the signed-in user's plantings due for a walk (README, Field walks API).
 
@@ -67,7 +68,7 @@ describe('GET /api/today', () => {
   it('leaves out plantings terminated before today, keeps one terminated today, and other seasons', async () => {
     const clerk = await as('clerk@crowntip.test');
     const before = await today(clerk);
-    const [a, b] = before;
+    const [a, b] = [at(before, 0), at(before, 1)];
     await t.db('plantings').where('id', a.plantingId).update({ terminated_on: addDays(todayIso(), -1) });
     await t.db('plantings').where('id', b.plantingId).update({ terminated_on: todayIso() });
     const after = (await today(clerk)).map((i) => i.plantingId);
@@ -80,7 +81,7 @@ describe('GET /api/today', () => {
 
   it('carries the field, days since seeding, calibration and the latest walk of each planting', async () => {
     const sampler = await as('sampler@crowntip.test');
-    const first = (await today(sampler))[0];
+    const first = at(await today(sampler), 0, 'planting due today');
     const planting = await t.db('plantings').where('id', first.plantingId).first();
     const field = await t.db('fields').where('id', planting.field_id).first();
     expect(first).toMatchObject({

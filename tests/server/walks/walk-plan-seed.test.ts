@@ -7,6 +7,7 @@ import { walkSchema } from '../../../shared/schemas/walks';
 import { duePlantings } from '../../../server/walks/db';
 import { insertRuleVersion } from '../../../server/rules/db';
 import { DEMO_ORGANISATIONS } from '../../../seeds/demo-people';
+import { at } from '../../helpers/lists';
 
 // The walk plan kept with a walk (seed, stop count, the rule's edge margin) and the office walk
 // page that draws the planned stops again. The reference for the page is the walk plan itself
@@ -135,7 +136,7 @@ describe('the walk page draws the planned stops again', () => {
     expect(page.text).toContain('plant dug (GPS)');
     // Another seed gives other stops on the same page.
     const other = walkPlan(p.boundary!, { seed: 'other', stops: 12, edgeMarginM: 10 });
-    expect(rows(page.text)[0].lat).not.toBe(other.stops[0].lat);
+    expect(at(rows(page.text), 0).lat).not.toBe(at(other.stops, 0).lat);
   });
 
   it('says so for a walk without a seed, and plans from the area for a field without a boundary', async () => {

@@ -8,6 +8,7 @@ import { insertCalibration, insertDataset, markPublished, setAssignment } from '
 import { duePlantings, insertWalk } from '../../../server/walks/db';
 import { walkContentHash } from '../../../server/walks/service';
 import { DEMO_ORGANISATIONS, DEMO_USERS } from '../../../seeds/demo-people';
+import { at } from '../../helpers/lists';
 
 /*
  * The verdict stored in a walk's estimate snapshot (README, "Verdicts" and "Field walks API").
@@ -52,7 +53,7 @@ const BELOW = alternate(24, 26);
 const NEAR = alternate(40, 42);
 
 async function setup(rule: { decisionBasis: string; confidence?: number; minPlants?: number }) {
-  const points = [20, 30, 40, 50, 60].map((x, i) => ({ x, y: 100 * x + [0, 100, -200, 100, 0][i] }));
+  const points = ([[20, 0], [30, 100], [40, -200], [50, 100], [60, 0]] as const).map(([x, off]) => ({ x, y: 100 * x + off }));
   const fit = fitCalibration(points, 'linear');
   const datasetId = await insertDataset(t.db, ORG1, { name: 'Hand-worked pairs', lengthUnit: 'cm', biomassUnit: 'kg_ha', points, uploadedBy: ADMIN });
   const id = await insertCalibration(t.db, ORG1, { datasetId, crop: 'cereal_rye', model: 'linear', fit, n: 5, xRange: fit.xRange, createdBy: ADMIN });
@@ -164,7 +165,7 @@ describe('the verdict in the estimate snapshot', () => {
 
 describe('a snapshot stored before decision bases', () => {
   it('reads as meets/below from its stored meetsThreshold, basis point, labelled, and keeps its stored note', async () => {
-    const planting = (await duePlantings(t.db, ORG1, { season: seasonOfDate(todayIso()), today: todayIso() }))[0];
+    const planting = at(await duePlantings(t.db, ORG1, { season: seasonOfDate(todayIso()), today: todayIso() }), 0, 'due planting');
     const id = randomUUID();
     const old = {
       calibrationId: 'old-calibration', calibrationVersion: 3, n: 10, meanLengthCm: 80, biomassKgHa: 5200,

@@ -15,6 +15,7 @@ import { contextFor } from '../../../server/platform/context';
 import { seasonRows } from '../../../server/registry/season-view';
 import { DEMO_WALK_IDS } from '../../../seeds/04_demo_walks';
 import { DEMO_ORGANISATIONS, DEMO_USERS } from '../../../seeds/demo-people';
+import { at } from '../../helpers/lists';
 
 // Field walks (../shared/API.md, Field walks). Every test runs on a fresh in-memory database with
 // the demo scenario and its own uploads folder; the walks it posts are invented.
@@ -104,7 +105,7 @@ describe('signed out', () => {
     const agent = request.agent(t.app);
     const csrf = (await agent.get('/api/session')).body.csrfToken as string;
     const id = DEMO_WALK_IDS.submitted;
-    const routes: [string, string][] = [
+    const routes: ['get' | 'post' | 'put' | 'delete', string][] = [
       ['get', '/api/walks'],
       ['post', '/api/walks'],
       ['get', `/api/walks/${id}`],
@@ -120,7 +121,7 @@ describe('signed out', () => {
       ['get', '/api/rules/current'],
     ];
     for (const [method, p] of routes) {
-      const req = (agent as unknown as Record<string, (p: string) => request.Test>)[method](p);
+      const req = agent[method](p);
       const res = method === 'get' ? await req : await req.set('X-CSRF-Token', csrf).send({});
       expect(res.status, `${method} ${p}`).toBe(401);
       expect(res.body.error.code).toBe('unauthenticated');
@@ -194,7 +195,7 @@ describe('POST /api/walks', () => {
     const statuses = answers.map((r) => r.status);
     expect(statuses.every((s) => s === 200 || s === 201), statuses.join(',')).toBe(true);
     expect(statuses.filter((s) => s === 201)).toHaveLength(1);
-    for (const r of answers) expect(r.body).toEqual(answers[0].body);
+    for (const r of answers) expect(r.body).toEqual(at(answers, 0).body);
     expect(await t.db('field_walks').where('id', body.id).count({ n: '*' }).first()).toEqual({ n: 1 });
     expect(await t.db('walk_plants').where('walk_id', body.id).count({ n: '*' }).first()).toEqual({ n: 10 });
   });
@@ -207,7 +208,7 @@ describe('POST /api/walks', () => {
     const body = walkBody(planting.plantingId);
     const same = await Promise.all(Array.from({ length: 20 }, () => createWalkInService(t.db, actor, body)));
     expect(same.filter((r) => r.created)).toHaveLength(1);
-    for (const r of same) expect(r.walk).toEqual(same[0].walk);
+    for (const r of same) expect(r.walk).toEqual(at(same, 0).walk);
 
     const other = walkBody(planting.plantingId);
     const mixed = await Promise.allSettled(
@@ -215,7 +216,7 @@ describe('POST /api/walks', () => {
     );
     const stored = mixed.flatMap((r) => (r.status === 'fulfilled' ? [r.value] : []));
     expect(stored.filter((r) => r.created)).toHaveLength(1);
-    for (const r of stored) expect(r.walk).toEqual(stored[0].walk);
+    for (const r of stored) expect(r.walk).toEqual(at(stored, 0).walk);
     for (const r of mixed) if (r.status === 'rejected') expect(r.reason).toMatchObject({ code: 'conflict', status: 409 });
     expect(await t.db('field_walks').whereIn('id', [body.id, other.id]).count({ n: '*' }).first()).toEqual({ n: 2 });
     expect(await t.db('walk_plants').whereIn('walk_id', [body.id, other.id]).count({ n: '*' }).first()).toEqual({ n: 20 });
