@@ -1,9 +1,9 @@
 import { parse } from 'csv-parse/sync';
 
 /**
- * Reading an uploaded CSV, generic for every import: calibration points read through readCsv; the
- * registry import (server/registry/import/read.ts) shares parseCsvRecords and keeps its own limits
- * and wording:
+ * Reading an uploaded CSV, the one reader for every upload: calibration points
+ * (server/calibrations/import.ts) and the registry import (server/registry/import/read.ts, which
+ * adds its own limits and its checks of the columns):
  * - the bytes must be UTF-8, with or without a byte order mark; anything else (a UTF-16 "Unicode
  *   text" export, a Windows-1252 file with é in it) is refused with a message saying how to save it;
  * - the delimiter is a comma or a semicolon (spreadsheets in comma-decimal locales write semicolons),
@@ -37,7 +37,11 @@ export interface CsvTable {
   rows: string[][];
   /** For each row, the 1-based line of the file it ends on (the header is line 1). */
   lines: number[];
+  /** For each row, the 1-based line of the file it starts on, as a spreadsheet numbers it (before `lines` when a quoted cell spans lines). */
+  startLines: number[];
   delimiter: ',' | ';';
+  /** Whether the file began with a UTF-8 byte order mark (a spreadsheet's "CSV UTF-8" writes one); the rows are the same either way. */
+  bom: boolean;
 }
 
 export interface CsvReadOptions {
@@ -86,14 +90,14 @@ const CSV_PARSE_MESSAGES: Record<string, string> = {
 };
 
 /** A record as csv-parse reads it, with the 1-based line of the file it ends on. */
-export type CsvParsedRecord = { record: string[]; info: { lines: number } };
+type CsvParsedRecord = { record: string[]; info: { lines: number } };
 
 /**
- * The one call of csv-parse for every upload: records with their end lines, comma or semicolon,
- * a byte order mark dropped, rows of any length. `trim` trims cells and skips records whose cells
- * are all empty; `to` stops after that many records. A malformed file is a CsvReadError('malformed').
+ * The one call of csv-parse: records with their end lines, comma or semicolon, a byte order mark
+ * dropped, rows of any length, cells trimmed, records whose cells are all empty skipped; `to`
+ * stops after that many records. A malformed file is a CsvReadError('malformed').
  */
-export function parseCsvRecords(text: string, delimiter: ',' | ';', opts: { trim?: boolean; to?: number } = {}): CsvParsedRecord[] {
+function parseCsvRecords(text: string, delimiter: ',' | ';', to: number): CsvParsedRecord[] {
   try {
     return parse(text, {
       delimiter,
@@ -101,8 +105,9 @@ export function parseCsvRecords(text: string, delimiter: ',' | ';', opts: { trim
       skip_empty_lines: true,
       relax_column_count: true,
       info: true,
-      ...(opts.trim ? { trim: true, skip_records_with_empty_values: true } : {}),
-      ...(opts.to ? { to: opts.to } : {}),
+      trim: true,
+      skip_records_with_empty_values: true,
+      to,
     }) as unknown as CsvParsedRecord[];
   } catch (e) {
     const err = e as { code?: string; lines?: number };
@@ -111,13 +116,21 @@ export function parseCsvRecords(text: string, delimiter: ',' | ';', opts: { trim
   }
 }
 
+/** Line breaks inside the cells of a record (only a quoted cell holds one). */
+const newlinesIn = (cells: string[]) => {
+  let n = 0;
+  for (const c of cells) for (let i = c.indexOf('\n'); i >= 0; i = c.indexOf('\n', i + 1)) n++;
+  return n;
+};
+
 /** A decoded CSV text as header and rows. */
 export function readCsvText(text: string, options: CsvReadOptions = {}): CsvTable {
   const maxRows = options.maxRows ?? 10_000;
+  const bom = text.charCodeAt(0) === 0xfeff;
   if (!text.trim()) throw new CsvReadError('empty', 'The file is empty.');
   const delimiter = detectDelimiter(text);
   // One past the limit (plus the header), so "too many" is seen without reading the rest.
-  const records = parseCsvRecords(text, delimiter, { trim: true, to: maxRows + 2 });
+  const records = parseCsvRecords(text, delimiter, maxRows + 2);
   const [head, ...data] = records;
   if (!head) throw new CsvReadError('empty', 'The file is empty.');
   if (data.length > maxRows) {
@@ -127,11 +140,15 @@ export function readCsvText(text: string, options: CsvReadOptions = {}): CsvTabl
     header: head.record.map((h) => h.trim()),
     rows: data.map((r) => r.record),
     lines: data.map((r) => r.info.lines),
+    startLines: data.map((r) => r.info.lines - newlinesIn(r.record)),
     delimiter,
+    bom,
   };
 }
 
+const startsWithBom = (bytes: Uint8Array) => bytes.length >= 3 && bytes[0] === 0xef && bytes[1] === 0xbb && bytes[2] === 0xbf;
+
 /** An uploaded file (bytes) as header and rows: decodeUtf8 then readCsvText. */
 export function readCsv(bytes: Uint8Array, options: CsvReadOptions = {}): CsvTable {
-  return readCsvText(decodeUtf8(bytes), options);
+  return { ...readCsvText(decodeUtf8(bytes), options), bom: startsWithBom(bytes) };
 }

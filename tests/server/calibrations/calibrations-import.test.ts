@@ -8,14 +8,16 @@ import { at } from '../../helpers/lists';
 const fixture = (name: string) => readFileSync(`tests/fixtures/calibration/${name}`, 'utf8');
 
 describe('csv-read (generic CSV reading)', () => {
-  it('reads UTF-8 with and without a byte order mark, the same', () => {
+  it('reads UTF-8 with and without a byte order mark, the same, and says which', () => {
     const text = 'length_cm,biomass_kg_ha\n50,2000\n';
     const plain = readCsv(Buffer.from(text, 'utf8'));
     const bom = readCsv(Buffer.concat([Buffer.from([0xef, 0xbb, 0xbf]), Buffer.from(text, 'utf8')]));
-    expect(bom).toEqual(plain);
+    expect({ ...bom, bom: false }).toEqual(plain);
+    expect([plain.bom, bom.bom]).toEqual([false, true]);
     expect(plain.header).toEqual(['length_cm', 'biomass_kg_ha']);
     expect(plain.rows).toEqual([['50', '2000']]);
     expect(plain.lines).toEqual([2]);
+    expect(plain.startLines).toEqual([2]);
   });
 
   it('refuses UTF-16, other character sets and binary files with a clear message', () => {
@@ -44,6 +46,8 @@ describe('csv-read (generic CSV reading)', () => {
     expect(t.header).toEqual(['a', 'b']);
     expect(t.rows).toEqual([['1', '2'], ['multi\nline', '3']]);
     expect(t.lines).toEqual([3, 5]);
+    // Line 1 header, 2 blank, 3 the first row, 4–5 the quoted cell across two lines.
+    expect(t.startLines).toEqual([3, 4]);
     expect(() => readCsvText('a,b\n"1,2\n3,4\n')).toThrowError(/quoted cell is not closed/);
   });
 

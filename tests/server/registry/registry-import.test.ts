@@ -5,6 +5,7 @@ import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import request from 'supertest';
 import { createTestApp, csrfFromHtml, signInPages, type TestApp, locationOf } from '../../helpers/app';
 import { safeCsvCell, toCsv } from '../../../server/platform/csv-safe';
+import { detectDelimiter } from '../../../server/platform/csv-read';
 import {
   EXAMPLE_HEADER,
   EXAMPLE_ROWS,
@@ -12,8 +13,6 @@ import {
   autoMapping,
   checkRows,
   cropMatcher,
-  decodeUtf8,
-  detectDelimiter,
   emptySnapshot,
   jobPercent,
   mappingFromParams,
@@ -83,11 +82,12 @@ describe('CSV written back is safe to open in a spreadsheet', () => {
 });
 
 describe('reading the file', () => {
-  it('decodes UTF-8 with and without a BOM, refuses other encodings with a hint', () => {
-    expect(decodeUtf8(Buffer.from('\uFEFFranch\n', 'utf8'))).toEqual({ text: 'ranch\n', bom: true });
-    expect(decodeUtf8(Buffer.from('ranch\n', 'utf8'))).toEqual({ text: 'ranch\n', bom: false });
-    expect(() => decodeUtf8(Buffer.from([0x52, 0x61, 0xf1, 0x63, 0x68]))).toThrow(/not UTF-8.*CSV UTF-8/); // "Rañch" in Windows-1252
-    expect(() => decodeUtf8(Buffer.from('\uFEFFranch', 'utf16le'))).toThrow(/UTF-16/);
+  it('reads UTF-8 with and without a BOM the same, saying which; refuses other encodings with a hint', () => {
+    expect(parseCsv(Buffer.from('\uFEFFranch\nA\n', 'utf8'))).toEqual({ headers: ['ranch'], rows: [{ line: 2, cells: ['A'] }], delimiter: ',', bom: true });
+    expect(parseCsv(Buffer.from('ranch\nA\n', 'utf8'))).toEqual({ headers: ['ranch'], rows: [{ line: 2, cells: ['A'] }], delimiter: ',', bom: false });
+    expect(() => parseCsv(Buffer.from([0x52, 0x61, 0xf1, 0x63, 0x68, 0x0a, 0x41]))).toThrow(/not UTF-8.*CSV UTF-8/); // "Rañch" in Windows-1252
+    expect(() => parseCsv(Buffer.from([0x52, 0x61, 0xf1, 0x63, 0x68, 0x0a, 0x41]))).toThrow(ImportFileError);
+    expect(() => parseCsv(Buffer.from('\uFEFFranch', 'utf16le'))).toThrow(/UTF-16/);
   });
 
   it('detects the delimiter from the header line, ignoring quoted ones', () => {
