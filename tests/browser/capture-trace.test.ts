@@ -6,8 +6,9 @@ import { SCREENSHOTS, screenshot, signIn, SUITE_PASSWORD, useServerAndBrowser } 
 
 /**
  * Tracing a field's boundary on the phone with the location faked (playwright's setGeolocation):
- * the sampler walks a 120 × 80 m rectangle without signal, sends the outline into the outbox, and
- * it reaches the office once the signal is back; a clerk sees it on the field page and accepts it.
+ * the sampler walks a 120 × 80 m rectangle without signal, taps Finish (the status says so), sends
+ * the outline into the outbox, and the screen follows it there until it reaches the office once the
+ * signal is back; a clerk sees it on the field page and accepts it.
  */
 
 const suite = useServerAndBrowser({}, { viewport: { width: 390, height: 844 }, permissions: ['geolocation'] });
@@ -64,15 +65,23 @@ describe('tracing a boundary on the phone', () => {
     keep('trace-recording-en');
     await page.getByRole('button', { name: 'Finish' }).click();
     await page.getByTestId('trace-outline').waitFor();
+    // After Finish the status says so (it once read "Paused"), and that nothing has gone yet.
+    const summary = await page.getByTestId('trace-summary').innerText();
+    expect(summary).toContain('Finished: the outline is saved on this phone, ready to send to the office.');
+    expect(summary).not.toContain('Paused');
     await screenshot(page, 'trace-finished-en');
     keep('trace-finished-en');
     await page.getByRole('button', { name: 'Send to the office' }).click();
     await page.getByTestId('trace-sent').waitFor();
+    expect(await page.getByTestId('trace-sent-state').innerText()).toBe('In the outbox: no signal, it will be sent on its own when the signal is back.');
+    await screenshot(page, 'trace-sent-offline-en');
+    keep('trace-sent-offline-en');
 
     const proposals = () => page.request.get(`${suite.server.url}/api/fields/${bare.fieldId}/boundary-proposals`).then((r) => r.json());
     expect((await proposals()).total).toBe(0); // no signal: it waits on the phone
     await context.setOffline(false);
     await expect.poll(async () => (await proposals()).total, { timeout: 30_000 }).toBe(1);
+    await expect.poll(() => page.getByTestId('trace-sent-state').innerText(), { timeout: 10_000 }).toBe('Reached the office: it waits there to be checked.');
     const [p] = (await proposals()).items;
     expect(p.status).toBe('pending');
     // 120 m × 80 m = 0.96 ha (hand-worked), within 2 % after simplifying.
@@ -90,6 +99,7 @@ describe('tracing a boundary on the phone', () => {
     await walkRectangle(page, second, 40, 30);
     await page.getByRole('button', { name: 'Terminar' }).click();
     await page.getByTestId('trace-outline').waitFor();
+    expect(await page.getByTestId('trace-summary').innerText()).toContain('Terminado: el contorno está guardado en este teléfono, listo para enviar a la oficina.');
     await screenshot(page, 'trace-finished-es');
     keep('trace-finished-es');
     await page.getByRole('button', { name: 'Empezar de nuevo' }).click();

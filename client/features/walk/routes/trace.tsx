@@ -7,7 +7,7 @@ import { useTranslation } from '../../../lib/i18n';
 import { newWalkId, traceStore } from '../../../lib/storage';
 import { useFormat, useUser } from '../../session/public';
 import { todayQuery } from '../../today/public';
-import { sendBoundary } from '../../offline/public';
+import { sendBoundary, useOnline, useQueueJobs } from '../../offline/public';
 import { TRACE_CLOSE_M, TRACE_MAX_ACCURACY_M, closingGapM, keepFix, tracedLengthM, tracedOutline, type TracePoint } from '../../../../shared/registry/trace';
 import { boundaryOutline } from '../../../../shared/registry/outline';
 
@@ -33,7 +33,12 @@ export default function TraceRoute() {
   const [loaded, setLoaded] = useState(false);
   const [recording, setRecording] = useState(false);
   const [gps, setGps] = useState<Gps>({ kind: 'idle' });
-  const [sent, setSent] = useState(false);
+  // Finish tapped (and not carried on since): the outline is closed, ready to send or refused.
+  const [finished, setFinished] = useState(false);
+  // The outbox job of the outline sent from this screen.
+  const [sentId, setSentId] = useState<string | null>(null);
+  const sentJob = useQueueJobs().find((j) => j.id === sentId);
+  const online = useOnline();
   const [lastAccuracy, setLastAccuracy] = useState<number | null>(null);
   const watch = useRef<number | null>(null);
   const latest = useRef<Trace | null>(null);
@@ -61,6 +66,7 @@ export default function TraceRoute() {
       return;
     }
     setRecording(true);
+    setFinished(false);
     setGps({ kind: 'waiting', accuracyM: null });
     watch.current = navigator.geolocation.watchPosition(
       (p) => {
@@ -84,8 +90,14 @@ export default function TraceRoute() {
     );
   }
 
+  function finish() {
+    stop();
+    setFinished(true);
+  }
+
   async function discard() {
     stop();
+    setFinished(false);
     if (!key || !item) return;
     await del(key, traceStore());
     const fresh = { id: newWalkId(), fieldId: item.fieldId, points: [] };
@@ -107,7 +119,7 @@ export default function TraceRoute() {
       body: { id: trace.id, boundary: outline.boundary, pointsRecorded: outline.pointsRecorded, medianAccuracyM: outline.medianAccuracyM },
     });
     await del(key, traceStore());
-    setSent(true);
+    setSentId(trace.id);
   }
 
   const back = (
@@ -118,13 +130,27 @@ export default function TraceRoute() {
   if (!item) return <div>{back}<p className="mt-4 text-lg">{today.isPending ? t('app.loading') : t('plan.notFound')}</p></div>;
   if (item.boundary) return <div>{back}<p className="mt-4 text-lg">{t('trace.hasBoundary')}</p></div>;
   if (!loaded) return <p className="text-lg">{t('app.loading')}</p>;
-  if (sent) {
+  if (sentId) {
+    // Where the outline is now: waiting in the outbox, at the office, or held for a person.
+    const state =
+      sentJob?.state === 'done'
+        ? t('trace.arrived')
+        : sentJob?.state === 'attention'
+          ? t('trace.held')
+          : sentJob?.attention === 'signin'
+            ? t('trace.signin')
+            : online
+              ? t('trace.waiting')
+              : t('trace.waitingOffline');
     return (
       <div>
         {back}
-        <p role="status" className="mt-4 rounded-xl border-4 border-shoot bg-shoot-50 p-4 text-xl font-bold" data-testid="trace-sent">
-          {t('trace.sent')}
-        </p>
+        <div role="status" className="mt-4 rounded-xl border-4 border-shoot bg-shoot-50 p-4" data-testid="trace-sent">
+          <p className="text-xl font-bold">{t('trace.sent')}</p>
+          <p className="mt-2 text-lg" data-testid="trace-sent-state">
+            {state}
+          </p>
+        </div>
       </div>
     );
   }
@@ -146,7 +172,16 @@ export default function TraceRoute() {
 
       <div className="mt-3 space-y-1 text-lg" data-testid="trace-summary" aria-live="polite">
         <p className="font-bold">
-          {recording ? t('trace.recording') : points.length ? t('trace.paused') : ''} {t('trace.points', { count: points.length })}
+          {recording
+            ? t('trace.recording')
+            : finished
+              ? outline?.ok
+                ? t('trace.finished')
+                : t('trace.finishedNotReady')
+              : points.length
+                ? t('trace.paused')
+                : ''}{' '}
+          {t('trace.points', { count: points.length })}
         </p>
         {points.length > 1 && <p>{t('trace.walked', { dist: f.distance(tracedLengthM(points)) })}</p>}
         {points.length > 1 && <p>{t('trace.gap', { dist: f.distance(gap) })}{gap > TRACE_CLOSE_M ? ` ${t('trace.closeHint')}` : ''}</p>}
@@ -159,7 +194,7 @@ export default function TraceRoute() {
 
       <div className="mt-3 space-y-2">
         {recording ? (
-          <button type="button" onClick={stop} className={`${big} border-2 border-loam-400 bg-white`}>
+          <button type="button" onClick={finish} className={`${big} border-2 border-loam-400 bg-white`}>
             {t('trace.finish')}
           </button>
         ) : (
@@ -182,6 +217,11 @@ export default function TraceRoute() {
               {outline.problem === 'too_few_points' ? t('trace.tooFew') : outline.problem === 'no_area' ? t('trace.noArea') : t('trace.crosses')}
             </p>
           )
+        )}
+        {!recording && finished && points.length < 3 && (
+          <p role="alert" className="text-lg font-bold text-clay-800">
+            {t('trace.tooFew')}
+          </p>
         )}
         {!recording && points.length > 0 && (
           <button type="button" onClick={() => void discard()} className="min-h-touch w-full rounded-xl px-4 text-lg font-bold text-clay-800 underline">
