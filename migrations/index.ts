@@ -54,5 +54,9 @@ export const migrationSource: Knex.MigrationSource<string> = {
   // Sorted by timestamp, whatever order lines were added in.
   getMigrations: async () => Object.keys(migrations).sort(),
   getMigrationName: (name) => name,
-  getMigration: async (name) => migrations[name],
+  getMigration: async (name) => {
+    const migration = migrations[name];
+    if (!migration) throw new Error(`No migration named ${name} in migrations/index.ts`);
+    return migration;
+  },
 };

@@ -71,7 +71,7 @@ export function loadBuilt(file: string): Built {
 function qualityOf(header: string, name: string): number {
   let star = 0;
   for (const part of header.split(',')) {
-    const [token, ...params] = part.trim().split(';');
+    const [token = '', ...params] = part.trim().split(';'); // split always gives at least one piece
     const q = params.map((p) => /^\s*q=([0-9.]+)\s*$/.exec(p)).find(Boolean);
     const value = q ? Number(q[1]) : 1;
     if (token.trim().toLowerCase() === name) return value;

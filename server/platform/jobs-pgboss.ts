@@ -42,10 +42,13 @@ export function pgBossQueue(db: Knex, opts: JobQueueOptions): JobQueue {
     const id = await boss.work<{ jobId: string }>(
       def.kind,
       { batchSize: 1, includeMetadata: true, pollingIntervalSeconds: opts.pollSeconds ?? 2 },
-      async ([job]) => {
-        const outcome = await runAttempt(db, opts.logger, def, job.data.jobId, () => job.retryCount >= job.retryLimit);
-        // Thrown back so that pg-boss schedules the retry (or records the failure).
-        if (typeof outcome === 'object') throw outcome.err;
+      async (jobs) => {
+        // One job per call (batchSize 1).
+        for (const job of jobs) {
+          const outcome = await runAttempt(db, opts.logger, def, job.data.jobId, () => job.retryCount >= job.retryLimit);
+          // Thrown back so that pg-boss schedules the retry (or records the failure).
+          if (typeof outcome === 'object') throw outcome.err;
+        }
       },
     );
     workers.set(def.kind, id);

@@ -42,7 +42,7 @@ export function parseForm<T>(
   if (result.success) return { ok: true, value: result.data };
   const errors = fieldsOf(result.error);
   for (const [key, message] of Object.entries(errors)) {
-    const top = key.split('.')[0];
+    const [top = key] = key.split('.');
     if (top !== key) errors[top] ??= message;
   }
   return { ok: false, errors };
