@@ -1,5 +1,6 @@
 import type { Knex } from 'knex';
 import type { AttemptStore } from './sign-in-limits';
+import { expectDefined } from '../platform/expect-defined';
 
 /**
  * Attempt counters in the database (table attempt_counts), so that every app server counts
@@ -21,7 +22,7 @@ export class DatabaseAttemptStore implements AttemptStore {
        returning count`,
       [key, now + windowMs, now, now],
     );
-    return Number(rows[0].count);
+    return Number(expectDefined(rows[0], 'the counted row of an upsert … returning').count);
   }
 
   async count(key: string): Promise<number> {

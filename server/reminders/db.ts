@@ -57,11 +57,22 @@ export async function allWalkAssignments(db: Knex): Promise<{ planting_id: strin
   return db('walk_assignments').select('planting_id', 'sampler_id');
 }
 
+export interface AssignedPlanting {
+  sampler_id: string;
+  due_on: string | null;
+  id: string;
+  organisation_id: string;
+  crop: string;
+  planned_termination_on: string | null;
+  field_name: string;
+  ranch_name: string;
+}
+
 /**
  * Assigned plantings to remind their sampler of: not terminated, no approved walk, and due by
  * `until` (overdue ones included), or, with no due date, planned for termination between the two dates.
  */
-export async function assignedPlantingsDue(db: Knex, from: string, until: string): Promise<Record<string, string>[]> {
+export async function assignedPlantingsDue(db: Knex, from: string, until: string): Promise<AssignedPlanting[]> {
   return db('walk_assignments')
     .join('plantings', 'plantings.id', 'walk_assignments.planting_id')
     .join('fields', 'fields.id', 'plantings.field_id')
