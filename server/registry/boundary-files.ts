@@ -5,6 +5,7 @@ import JSZip from 'jszip';
 import { parseDbf, parseShp } from 'shpjs';
 import { boundaryAreaHa } from '../../shared/registry/boundary-area';
 import { boundaryProblemText, boundarySchema, checkBoundary, type Boundary } from '../../shared/registry/boundary';
+import { expectDefined } from '../platform/expect-defined';
 
 /**
  * Boundary files as farm offices have them, read into GeoJSON features: GeoJSON, KML, KMZ (zipped
@@ -91,23 +92,27 @@ async function unzip(zip: JSZip, names: string[]): Promise<Map<string, Buffer>> 
 
 async function readZip(buffer: Buffer): Promise<BoundaryFileResult> {
   const zip = await JSZip.loadAsync(buffer);
-  const names = Object.keys(zip.files).filter((n) => !zip.files[n].dir && !n.startsWith('__MACOSX/'));
+  const names = Object.entries(zip.files)
+    .filter(([n, entry]) => !entry.dir && !n.startsWith('__MACOSX/'))
+    .map(([n]) => n);
   const kml = names.filter((n) => /\.kml$/i.test(n));
-  if (kml.length) {
+  const [firstKml] = kml;
+  if (firstKml !== undefined) {
     // A KMZ's main document is doc.kml by convention, else the first .kml at the top.
-    const main = kml.find((n) => /(^|\/)doc\.kml$/i.test(n)) ?? kml[0];
+    const main = kml.find((n) => /(^|\/)doc\.kml$/i.test(n)) ?? firstKml;
     const files = await unzip(zip, [main]);
     return readKml(files.get(main)!.toString('utf8').replace(/^\uFEFF/, ''), 'kmz');
   }
   const shp = names.filter((n) => /\.shp$/i.test(n));
-  if (shp.length === 0) return refuse('The zip file holds no shapefile (.shp) and no KML file.');
+  const [shpName] = shp;
+  if (shpName === undefined) return refuse('The zip file holds no shapefile (.shp) and no KML file.');
   if (shp.length > 1) return refuse(`The zip file holds ${shp.length} shapefiles; zip one layer (one .shp with its .dbf and .prj) at a time.`);
-  const stem = shp[0].slice(0, -4).toLowerCase();
+  const stem = shpName.slice(0, -4).toLowerCase();
   const sibling = (ext: string) => names.find((n) => n.toLowerCase() === `${stem}.${ext}`);
   const [dbfName, prjName, cpgName] = [sibling('dbf'), sibling('prj'), sibling('cpg')];
-  const files = await unzip(zip, [shp[0], dbfName, prjName, cpgName].filter((n): n is string => Boolean(n)));
+  const files = await unzip(zip, [shpName, dbfName, prjName, cpgName].filter((n): n is string => Boolean(n)));
   const prj = prjName ? files.get(prjName)!.toString('utf8').trim() : undefined;
-  const geometries = parseShp(files.get(shp[0])!, prj);
+  const geometries = parseShp(files.get(shpName)!, prj);
   const rows = dbfName ? parseDbf(files.get(dbfName)!, cpgName ? files.get(cpgName)!.toString('utf8').trim() : undefined) : [];
   const features = geometries.map((geometry, i) => ({ geometry, properties: rows[i] ?? {} }));
   const result = fromFeatures('shapefile', features);
@@ -164,11 +169,18 @@ function polygonOf(geometry: unknown): unknown {
 }
 
 /** Twice the signed area of a ring in degrees (shoelace): positive when anticlockwise. */
-function signedArea(ring: Position[]): number {
+function signedArea(ring: [number, number][]): number {
   let s = 0;
-  for (let i = 1; i < ring.length; i++) s += (ring[i - 1][0] * ring[i][1] - ring[i][0] * ring[i - 1][1]);
+  let previous: [number, number] | undefined;
+  for (const point of ring) {
+    if (previous) s += previous[0] * point[1] - point[0] * previous[1];
+    previous = point;
+  }
   return s;
 }
+
+/** A checked position's longitude and latitude: boundarySchema lets no position through without both. */
+const lonLatOf = ([x, y]: Position): [number, number] => [expectDefined(x, 'a checked position’s longitude'), expectDefined(y, 'a checked position’s latitude')];
 
 /** A nanodegree is about 0.1 mm: finer than any survey, and it drops reprojection noise (1e-14°). */
 const nano = (v: number) => Math.round(v * 1e9) / 1e9;
@@ -177,7 +189,10 @@ const nano = (v: number) => Math.round(v * 1e9) / 1e9;
 function normalise(b: Boundary): Boundary {
   const fix = (rings: Position[][]) =>
     rings.map((ring, r) => {
-      const flat = ring.map(([x, y]) => [nano(x), nano(y)]);
+      const flat = ring.map((p): [number, number] => {
+        const [x, y] = lonLatOf(p);
+        return [nano(x), nano(y)];
+      });
       const anticlockwise = signedArea(flat) > 0;
       return (r === 0) === anticlockwise ? flat : flat.reverse();
     });

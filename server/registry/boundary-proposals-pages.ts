@@ -9,6 +9,7 @@ import type { Boundary } from '../../shared/registry/boundary';
 import { boundaryDeclineSchema, type BoundaryProposal } from '../../shared/schemas/boundary-proposals';
 import * as service from './boundary-proposals-service';
 import { getField } from './service';
+import { expectDefined } from '../platform/expect-defined';
 
 /*
  * The field page's panel of boundaries traced on the phone (views/registry/_boundary_proposals.ejs):
@@ -43,7 +44,7 @@ export function boundaryProposalPages(ctx: AppContext): Router {
     res.locals.boundaryProposals = {
       pending: items
         .filter((p) => p.status === 'pending')
-        .map((p) => ({ ...p, corners: partsOf(p.boundary).reduce((n, part) => n + part[0].length - 1, 0), drawing: proposalDrawing(p.boundary, field.boundary) })),
+        .map((p) => ({ ...p, corners: partsOf(p.boundary).reduce((n, [outer]) => n + expectDefined(outer, 'a checked polygon’s outer ring').length - 1, 0), drawing: proposalDrawing(p.boundary, field.boundary) })),
       decided: items.filter((p) => p.status !== 'pending').slice(0, 5),
       hasBoundary: Boolean(field.boundary),
       canDecide: me.can('registry.write'),

@@ -36,10 +36,8 @@ export async function boundaryFromForm(
   if (file && file.size > 0) {
     const read = await readBoundaryFile(file.originalname ?? '', file.buffer);
     if (!read.ok) return { problem: read.problem };
-    if (read.shapes.length === 1) {
-      const [only] = read.shapes;
-      return only.problem ? { problem: only.problem } : { boundary: only.boundary };
-    }
+    const [only, ...others] = read.shapes;
+    if (only && others.length === 0) return only.problem ? { problem: only.problem } : { boundary: only.boundary };
     const { ok: _ok, ...rest } = read;
     return { pending: true, choose: await uploads.keep({ organisationId, fileName: String(file.originalname ?? '').slice(0, 200), ...rest }) };
   }

@@ -1,6 +1,7 @@
 import { CROPS } from '../../shared/calc/rules';
 import { cropName } from '../../shared/registry/crops';
 import type { Formatter } from '../platform/format';
+import { expectDefined } from '../platform/expect-defined';
 
 /*
  * The change history as a person reads it: the stored snapshots keep the records' own keys, SI
@@ -69,5 +70,6 @@ const KEY_LIST = new RegExp(`: ((?:${Object.keys(HISTORY_FIELD_LABELS).join('|')
 export function historySummary(summary: string): string {
   return summary
     .replace(CODE_IN_PARENTHESES, (_m, code: string) => `(${cropName(code)})`)
-    .replace(KEY_LIST, (_m, keys: string) => `: ${keys.split(', ').map((k) => HISTORY_FIELD_LABELS[k].toLowerCase()).join(', ')} changed`);
+    // KEY_LIST matches only keys that have a label.
+    .replace(KEY_LIST, (_m, keys: string) => `: ${keys.split(', ').map((k) => expectDefined(HISTORY_FIELD_LABELS[k], `the label of ${k}`).toLowerCase()).join(', ')} changed`);
 }

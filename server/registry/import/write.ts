@@ -8,6 +8,7 @@ import { Mapping } from './columns';
 import { ParsedCsv } from './read';
 import { CropOption } from './values';
 import { CheckResult, canImport, checkRows, createChecker, loadSnapshot } from './check';
+import { expectDefined } from '../../platform/expect-defined';
 
 // 5. The commit -------------------------------------------------------------------------------
 
@@ -103,18 +104,22 @@ export async function commitImport(
       fieldNames.set(key, f.name);
     }
     // Fields and plantings go in a few hundred rows per statement, each with its history entry.
-    const newFields = check.newFields.map((f) => ({ ranchId: ranchIds.get(f.ranchKey)!, name: f.name.trim(), areaHa: f.areaHa!, boundary: null, boundaryAreaHa: null, notes: null }));
-    const newFieldIds = await fieldsDb.insertFields(trx, org, newFields);
+    const newFields = check.newFields.map((f) => ({
+      f,
+      write: { ranchId: ranchIds.get(f.ranchKey)!, name: f.name.trim(), areaHa: f.areaHa!, boundary: null, boundaryAreaHa: null, notes: null },
+    }));
+    // One id per field, in the order given.
+    const newFieldIds = await fieldsDb.insertFields(trx, org, newFields.map((n) => n.write));
     await appendChanges(
       trx,
       org,
-      check.newFields.map((f, i): ChangeWrite => {
-        const { ranchId, name, areaHa } = newFields[i];
-        fieldIds.set(f.key, newFieldIds[i]);
+      newFields.map(({ f, write: { ranchId, name, areaHa } }, i): ChangeWrite => {
+        const id = expectDefined(newFieldIds[i], 'the id made for an imported field');
+        fieldIds.set(f.key, id);
         fieldNames.set(f.key, name);
         return {
           entityType: 'field',
-          entityId: newFieldIds[i],
+          entityId: id,
           action: 'import',
           user,
           before: null,
@@ -125,28 +130,37 @@ export async function commitImport(
     );
 
     const plantings = check.rows.map((row) => ({
-      fieldId: fieldIds.get(row.fieldKey)!,
-      season: row.season!,
-      crop: row.crop!,
-      variety: row.variety,
-      seededOn: row.seededOn!,
-      seedingRateKgHa: row.seedingRateKgHa,
-      plannedTerminationOn: row.plannedTerminationOn,
-      terminatedOn: row.terminatedOn,
-      notes: row.notes,
+      row,
+      write: {
+        fieldId: fieldIds.get(row.fieldKey)!,
+        season: row.season!,
+        crop: row.crop!,
+        variety: row.variety,
+        seededOn: row.seededOn!,
+        seedingRateKgHa: row.seedingRateKgHa,
+        plannedTerminationOn: row.plannedTerminationOn,
+        terminatedOn: row.terminatedOn,
+        notes: row.notes,
+      },
     }));
-    const plantingIds = await plantingsDb.insertPlantings(trx, org, plantings, (done) => onProgress({ phase: 'writing', done, total }));
+    // One id per planting, in the order given.
+    const plantingIds = await plantingsDb.insertPlantings(
+      trx,
+      org,
+      plantings.map((p) => p.write),
+      (done) => onProgress({ phase: 'writing', done, total }),
+    );
     await appendChanges(
       trx,
       org,
-      check.rows.map(
-        (row, i): ChangeWrite => ({
+      plantings.map(
+        ({ row, write }, i): ChangeWrite => ({
           entityType: 'planting',
-          entityId: plantingIds[i],
+          entityId: expectDefined(plantingIds[i], 'the id made for an imported planting'),
           action: 'import',
           user,
           before: null,
-          after: plantings[i],
+          after: write,
           summary: `Planting ${row.season} (${cropName(row.crop ?? 'other')}) on ${fieldNames.get(row.fieldKey)}, ${ranchNames.get(row.ranchKey)}, imported from “${file}” (row ${row.line})`,
         }),
       ),
