@@ -7,6 +7,7 @@ import { can } from '../platform/permissions';
 import { seasonLabel, todayIso } from '../../shared/registry/season';
 import { isoDate } from '../../shared/schemas/dates';
 import { assignWalk, assignWalks, assignmentsBySampler, plantingAssignments, unassignWalk } from './assignments-service';
+import { expectDefined } from '../platform/expect-defined';
 
 /*
  * Clerks ask samplers to walk plantings from the office: one at a time from the planting's own
@@ -72,7 +73,7 @@ export function assignmentPages(ctx: AppContext): Router {
     const errors: Record<string, string> = {};
     if (!values.samplerId) errors.samplerId = 'Choose the sampler who should walk this planting.';
     const due = values.dueOn ? isoDate.safeParse(values.dueOn) : null;
-    if (due && !due.success) errors.dueOn = due.error.issues[0].message;
+    if (due && !due.success) errors.dueOn = expectDefined(due.error.issues[0], 'the reason a date was refused').message;
     if (Object.keys(errors).length) return showPlanting(req, res, 400, values, errors);
     try {
       await assignWalk(ctx.db, contextOf(req), String(req.params.id), { samplerId: values.samplerId, dueOn: values.dueOn || null });
