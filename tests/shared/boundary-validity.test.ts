@@ -22,6 +22,8 @@ const sq = (x: number, y: number, s = 1): Position[] => [
   [X0 + x * D, Y0 + (y + s) * D],
   [X0 + x * D, Y0 + y * D],
 ];
+/** Corners given in steps of D from (X0, Y0). */
+const grid = (corners: [number, number][]): Position[] => corners.map(([x, y]) => [X0 + x * D, Y0 + y * D]);
 const poly = (...rings: Position[][]): Boundary => ({ type: 'Polygon', coordinates: rings });
 const problem = (b: Boundary, limits?: Parameters<typeof checkBoundary>[1]) => {
   const r = checkBoundary(b, limits);
@@ -31,14 +33,14 @@ const problem = (b: Boundary, limits?: Parameters<typeof checkBoundary>[1]) => {
 describe('checkBoundary', () => {
   it('a square, an L, a square with a hole and two separate squares are accepted', () => {
     expect(problem(poly(sq(0, 0)))).toBeNull();
-    const ell = [[0, 0], [3, 0], [3, 1], [1, 1], [1, 3], [0, 3], [0, 0]].map(([x, y]) => [X0 + x * D, Y0 + y * D]);
+    const ell = grid([[0, 0], [3, 0], [3, 1], [1, 1], [1, 3], [0, 3], [0, 0]]);
     expect(problem(poly(ell))).toBeNull();
     expect(problem(poly(sq(0, 0, 3), sq(1, 1)))).toBeNull();
     expect(problem({ type: 'MultiPolygon', coordinates: [[sq(0, 0)], [sq(2, 2)]] })).toBeNull();
   });
 
   it('a figure-of-eight crosses itself once, where its diagonals meet (hand-worked: the middle of the square)', () => {
-    const bow = [[0, 0], [1, 1], [1, 0], [0, 1], [0, 0]].map(([x, y]) => [X0 + x * D, Y0 + y * D]);
+    const bow = grid([[0, 0], [1, 1], [1, 0], [0, 1], [0, 0]]);
     const p = problem(poly(bow));
     expect(p).toMatchObject({ code: 'self_intersection', crossings: 1 });
     const q = p as Extract<BoundaryProblem, { code: 'self_intersection' }>;
@@ -56,9 +58,9 @@ describe('checkBoundary', () => {
   });
 
   it('corners on one line enclose no area; two distinct corners are too few', () => {
-    const flat = [[0, 0], [1, 0], [2, 0], [0, 0]].map(([x, y]) => [X0 + x * D, Y0 + y * D]);
+    const flat = grid([[0, 0], [1, 0], [2, 0], [0, 0]]);
     expect(problem(poly(flat))).toMatchObject({ code: 'no_area', part: 1 });
-    const two = [[0, 0], [1, 0], [0, 0], [0, 0]].map(([x, y]) => [X0 + x * D, Y0 + y * D]);
+    const two = grid([[0, 0], [1, 0], [0, 0], [0, 0]]);
     expect(problem(poly(two))).toEqual({ code: 'too_few_corners', part: 1, ring: 1, corners: 2 });
   });
 
@@ -80,7 +82,7 @@ describe('checkBoundary', () => {
     const shapes: Boundary[] = readdirSync(dir)
       .filter((f) => f.endsWith('.geojson'))
       .map((f) => JSON.parse(readFileSync(join(dir, f), 'utf8')).features[0].geometry);
-    shapes.push(poly([[0, 0], [1, 1], [1, 0], [0, 1], [0, 0]].map(([x, y]) => [X0 + x * D, Y0 + y * D])));
+    shapes.push(poly(grid([[0, 0], [1, 1], [1, 0], [0, 1], [0, 0]])));
     shapes.push(poly(sq(0, 0, 2), sq(1, 1, 2)));
     shapes.push({ type: 'MultiPolygon', coordinates: [[sq(0, 0, 2)], [sq(1, 1, 2)]] });
     expect(shapes.length).toBeGreaterThanOrEqual(10);

@@ -9,6 +9,12 @@ import { codeOf, mulberry32, normal } from './prng';
 const rel = (a: number, b: number) => Math.abs(a - b) / Math.abs(b);
 const rye = fitCalibration(readDemo('cereal-rye').rows, 'power');
 
+/** The two-sided interval, which every walk here has (its spread is known). */
+function intervalOf(c: { interval: [number, number] | null }): [number, number] {
+  if (!c.interval) throw new Error('expected an interval: the spread of these lengths is known');
+  return c.interval;
+}
+
 describe('combined interval: hand-worked, linear model', () => {
   // Calibration (invented): x 1 2 3 4, y 3 5 4 8. By hand (tests/shared/fit.test.ts): a = 1.5, b = 1.4,
   // s² = 2.1, df = 2, x̄_cal = 2.5, Sxx = 5.
@@ -20,7 +26,7 @@ describe('combined interval: hand-worked, linear model', () => {
   //   ν_eff = u_c⁴ / (u_cal⁴/2 + u_smp⁴/2) = 10.2934028 / (4.6360125 + 0.0133389) = 2.21395 (GUM G.2b)
   //   90 %: ŷ ± t(0.95, ν_eff)·u_c; lower bound ŷ − t(0.90, ν_eff)·u_c.
   // The t quantile at a fractional ν comes from tQuantile (checked on its own in t-dist.test.ts).
-  const lin = fitCalibration([[1, 3], [2, 5], [3, 4], [4, 8]].map(([x, y]) => ({ x, y })), 'linear');
+  const lin = fitCalibration([{ x: 1, y: 3 }, { x: 2, y: 5 }, { x: 3, y: 4 }, { x: 4, y: 8 }], 'linear');
   const c = combinedInterval(lin, sampleStats([3, 3.5, 4]), { level: 0.9 });
 
   it('every step', () => {
@@ -34,7 +40,7 @@ describe('combined interval: hand-worked, linear model', () => {
     expect(rel(c.dfEffective as number, nu)).toBeLessThan(1e-10);
     const k2 = tQuantile(0.95, nu);
     const k1 = tQuantile(0.9, nu);
-    const [lo, hi] = c.interval as [number, number];
+    const [lo, hi] = intervalOf(c);
     expect(rel(lo, 6.4 - k2 * Math.sqrt(uc2))).toBeLessThan(1e-12);
     expect(rel(hi, 6.4 + k2 * Math.sqrt(uc2))).toBeLessThan(1e-12);
     expect(rel(c.lowerBound as number, 6.4 - k1 * Math.sqrt(uc2))).toBeLessThan(1e-12);
@@ -71,8 +77,9 @@ describe('combined interval: hand-worked, power model on the log scale', () => {
     expect(rel(c.uCalibration ** 2, uCal2)).toBeLessThan(1e-12);
     expect(rel((c.uSampling as number) ** 2, uSmp2)).toBeLessThan(1e-12);
     expect(rel(c.dfEffective as number, nu)).toBeLessThan(1e-10);
-    expect(rel((c.interval as number[])[0], Math.exp(eta - tQuantile(0.95, nu) * uc))).toBeLessThan(1e-12);
-    expect(rel((c.interval as number[])[1], Math.exp(eta + tQuantile(0.95, nu) * uc))).toBeLessThan(1e-12);
+    const [lo, hi] = intervalOf(c);
+    expect(rel(lo, Math.exp(eta - tQuantile(0.95, nu) * uc))).toBeLessThan(1e-12);
+    expect(rel(hi, Math.exp(eta + tQuantile(0.95, nu) * uc))).toBeLessThan(1e-12);
     expect(rel(c.lowerBound as number, Math.exp(eta - tQuantile(0.9, nu) * uc))).toBeLessThan(1e-12);
   });
 });
@@ -113,7 +120,12 @@ function monteCarlo(fit: Fit, n: number, mean: number, sd: number, seed: number)
     draws[i] = linearPredictor(fit, x) + ux * tVariate(rand, fit.df);
   }
   draws.sort();
-  return [draws[Math.floor(0.05 * M)], draws[Math.floor(0.95 * M)]];
+  const quantile = (p: number) => {
+    const v = draws[Math.floor(p * M)];
+    if (v === undefined) throw new Error(`no draw at the ${p} quantile of ${M}`);
+    return v;
+  };
+  return [quantile(0.05), quantile(0.95)];
 }
 
 // A linear calibration of 25 invented points (seeded scatter, df 23), and a small one of 8 (df 6).
@@ -121,7 +133,10 @@ const LIN25 = (() => {
   const rand = mulberry32(77);
   return fitCalibration(Array.from({ length: 25 }, (_, i) => ({ x: 20 + 3 * i, y: 60 * (20 + 3 * i) + 150 * normal(rand) })), 'linear');
 })();
-const LIN8 = fitCalibration([20, 30, 40, 50, 60, 70, 80, 90].map((x, i) => ({ x, y: 60 * x + [120, -90, 40, -150, 80, 30, -60, 110][i] })), 'linear');
+const LIN8 = fitCalibration(
+  ([[20, 120], [30, -90], [40, 40], [50, -150], [60, 80], [70, 30], [80, -60], [90, 110]] as const).map(([x, scatter]) => ({ x, y: 60 * x + scatter })),
+  'linear',
+);
 
 describe('combined interval against a Monte Carlo propagation (JCGM 101)', () => {
   it.each([
@@ -135,8 +150,9 @@ describe('combined interval against a Monte Carlo propagation (JCGM 101)', () =>
     const log = (fit as Fit).model === 'power';
     const toScale = (v: number) => (log ? Math.log(v) : v);
     const uc = c.uCombined as number;
-    expect(Math.abs(toScale((c.interval as number[])[0]) - mcLo)).toBeLessThan(0.1 * uc);
-    expect(Math.abs(toScale((c.interval as number[])[1]) - mcHi)).toBeLessThan(0.1 * uc);
+    const [lo, hi] = intervalOf(c);
+    expect(Math.abs(toScale(lo) - mcLo)).toBeLessThan(0.1 * uc);
+    expect(Math.abs(toScale(hi) - mcHi)).toBeLessThan(0.1 * uc);
   });
 
   it('with very few plants or calibration points the Monte Carlo interval is the wider one (a known limit of Welch–Satterthwaite)', () => {
@@ -151,8 +167,9 @@ describe('combined interval against a Monte Carlo propagation (JCGM 101)', () =>
       const c = combinedInterval(fit, s, { level: 0.9 });
       const [mcLo, mcHi] = monteCarlo(fit, s.n, s.meanCm, s.sdCm as number, 20261);
       const toScale = (v: number) => (fit.model === 'power' ? Math.log(v) : v);
-      expect(mcLo).toBeLessThan(toScale((c.interval as number[])[0]));
-      expect(mcHi).toBeGreaterThan(toScale((c.interval as number[])[1]));
+      const [lo, hi] = intervalOf(c);
+      expect(mcLo).toBeLessThan(toScale(lo));
+      expect(mcHi).toBeGreaterThan(toScale(hi));
     }
   });
 });
@@ -172,8 +189,9 @@ describe('combined interval: behaviour', () => {
     expect(width([70, 80, 90])).toBeGreaterThan(width([75, 80, 85]));
     // Never narrower than the calibration part alone.
     const c = combinedInterval(rye, sampleStats(ten));
-    expect((c.interval as number[])[0]).toBeLessThan(c.calibrationOnly[0]);
-    expect((c.interval as number[])[1]).toBeGreaterThan(c.calibrationOnly[1]);
+    const [lo, hi] = intervalOf(c);
+    expect(lo).toBeLessThan(c.calibrationOnly[0]);
+    expect(hi).toBeGreaterThan(c.calibrationOnly[1]);
     expect(T).toBeGreaterThan(0);
   });
 
@@ -188,7 +206,7 @@ describe('combined interval: behaviour', () => {
 
   it('the one-sided lower bound sits inside the two-sided interval at the same level', () => {
     const c = combinedInterval(rye, sampleStats([70, 92, 81, 77, 88]), { level: 0.9 });
-    expect(c.lowerBound as number).toBeGreaterThan((c.interval as number[])[0]);
+    expect(c.lowerBound as number).toBeGreaterThan(intervalOf(c)[0]);
     expect(c.lowerBound as number).toBeLessThan(Math.exp(linearPredictor(rye, c.lowerBound ? 81.6 : 0)));
   });
 

@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { fitCalibration } from '../../shared/calc';
+import { at } from '../helpers/lists';
 import { readStrd } from './nist-strd';
 
 // NIST/ITL StRD linear least squares reference data sets with certified values
@@ -30,8 +31,10 @@ describe('NIST StRD Norris (linear, lower difficulty)', () => {
     const f = fitCalibration(file.points, 'linear');
     expect(f.n).toBe(36);
     expect(f.df).toBe(34);
-    f.coefficients.forEach((v, i) => expect(rel(v, CERT.b[i])).toBeLessThan(1e-9));
-    f.standardErrors.forEach((v, i) => expect(rel(v, CERT.sd[i])).toBeLessThan(1e-9));
+    expect(f.coefficients).toHaveLength(CERT.b.length);
+    expect(f.standardErrors).toHaveLength(CERT.sd.length);
+    CERT.b.forEach((want, i) => expect(rel(at(f.coefficients, i, 'coefficient'), want)).toBeLessThan(1e-9));
+    CERT.sd.forEach((want, i) => expect(rel(at(f.standardErrors, i, 'standard error'), want)).toBeLessThan(1e-9));
     expect(rel(f.residualStdError, CERT.residualSd)).toBeLessThan(1e-9);
     expect(rel(f.rSquared, CERT.r2)).toBeLessThan(1e-12);
   });
@@ -59,8 +62,10 @@ describe('NIST StRD Pontius (quadratic, x up to 3·10⁶)', () => {
   it('reproduces coefficients, their standard deviations, residual SD and R² to 9 digits', () => {
     const f = fitCalibration(file.points, 'quadratic');
     expect(f.df).toBe(37);
-    f.coefficients.forEach((v, i) => expect(rel(v, CERT.b[i])).toBeLessThan(1e-9));
-    f.standardErrors.forEach((v, i) => expect(rel(v, CERT.sd[i])).toBeLessThan(1e-9));
+    expect(f.coefficients).toHaveLength(CERT.b.length);
+    expect(f.standardErrors).toHaveLength(CERT.sd.length);
+    CERT.b.forEach((want, i) => expect(rel(at(f.coefficients, i, 'coefficient'), want)).toBeLessThan(1e-9));
+    CERT.sd.forEach((want, i) => expect(rel(at(f.standardErrors, i, 'standard error'), want)).toBeLessThan(1e-9));
     expect(rel(f.residualStdError, CERT.residualSd)).toBeLessThan(1e-9);
     expect(rel(f.rSquared, CERT.r2)).toBeLessThan(1e-12);
     expect(rel(f.residualStdError ** 2 * f.df, CERT.residualSS)).toBeLessThan(1e-9);

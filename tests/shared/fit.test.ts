@@ -3,9 +3,12 @@ import { describe, expect, it } from 'vitest';
 import {
   MODELS, compareModels, fitCalibration, interval, lengthForBiomass, predict, type Fit, type ModelKind,
 } from '../../shared/calc';
+import { at } from '../helpers/lists';
 import { codeOf, powerPoints } from './prng';
 
 const rel = (a: number, b: number) => Math.abs(a - b) / Math.abs(b);
+/** Coefficient `i` of a fit (0 the intercept, 1 the slope…). */
+const coef = (f: Fit, i: number) => at(f.coefficients, i, 'coefficient');
 const pairsOf = (pts: { x: number; y: number }[]) => pts.map((p) => [p.x, p.y]);
 
 // Our own small data set for hand checks (invented): x = 1..10, roughly y = 2x.
@@ -16,8 +19,8 @@ describe('linear fit: cross-check with simple-statistics and by hand', () => {
 
   it('coefficients match simple-statistics linearRegression', () => {
     const lr = ss.linearRegression(pairsOf(HAND)); // general-purpose library: {m, b}
-    expect(rel(f.coefficients[0], lr.b)).toBeLessThan(1e-12);
-    expect(rel(f.coefficients[1], lr.m)).toBeLessThan(1e-12);
+    expect(rel(coef(f, 0), lr.b)).toBeLessThan(1e-12);
+    expect(rel(coef(f, 1), lr.m)).toBeLessThan(1e-12);
     expect(rel(f.rSquared, ss.rSquared(pairsOf(HAND), ss.linearRegressionLine(lr)))).toBeLessThan(1e-12);
   });
 
@@ -50,13 +53,13 @@ describe('linear fit: cross-check with simple-statistics and by hand', () => {
     //     95 % two-sided, p = 0.975: 0.95/√0.04875 = 4.302652729749464
     //     90 % two-sided, p = 0.95:  0.90/√0.095   = 2.919985580353725
     //   prediction half-width t·√(s²(1 + q)) = t·√3.045; confidence half-width t·√(s²q) = t·√0.945.
-    const g = fitCalibration([[1, 3], [2, 5], [3, 4], [4, 8]].map(([x, y]) => ({ x, y })), 'linear');
-    expect(rel(g.coefficients[0], 1.5)).toBeLessThan(1e-12);
-    expect(rel(g.coefficients[1], 1.4)).toBeLessThan(1e-12);
+    const g = fitCalibration([{ x: 1, y: 3 }, { x: 2, y: 5 }, { x: 3, y: 4 }, { x: 4, y: 8 }], 'linear');
+    expect(rel(coef(g, 0), 1.5)).toBeLessThan(1e-12);
+    expect(rel(coef(g, 1), 1.4)).toBeLessThan(1e-12);
     expect(rel(g.residualStdError ** 2, 2.1)).toBeLessThan(1e-12);
     const t95 = 0.95 / Math.sqrt(0.04875);
     const t90 = 0.9 / Math.sqrt(0.095);
-    for (const [level, t] of [[0.95, t95], [0.9, t90]]) {
+    for (const [level, t] of [[0.95, t95], [0.9, t90]] as const) {
       const pi = interval(g, 3.5, { kind: 'prediction', level });
       const ci = interval(g, 3.5, { kind: 'confidence', level });
       expect(rel(pi[0], 6.4 - t * Math.sqrt(3.045))).toBeLessThan(1e-12);
@@ -72,11 +75,11 @@ describe('log models', () => {
 
   it('power = straight line through (ln x, ln y) (simple-statistics), smearing factor by hand', () => {
     const f = fitCalibration(pts, 'power');
-    const logPairs = pts.map((p) => [Math.log(p.x), Math.log(p.y)]);
+    const logPairs = pts.map((p): [number, number] => [Math.log(p.x), Math.log(p.y)]);
     const lr = ss.linearRegression(logPairs);
-    expect(rel(f.fittedScaleCoefficients[0], lr.b)).toBeLessThan(1e-10);
-    expect(rel(f.coefficients[0], Math.exp(lr.b))).toBeLessThan(1e-10);
-    expect(rel(f.coefficients[1], lr.m)).toBeLessThan(1e-10);
+    expect(rel(at(f.fittedScaleCoefficients, 0, 'log-scale intercept'), lr.b)).toBeLessThan(1e-10);
+    expect(rel(coef(f, 0), Math.exp(lr.b))).toBeLessThan(1e-10);
+    expect(rel(coef(f, 1), lr.m)).toBeLessThan(1e-10);
     // Duan (1983) smearing: mean of exp(log-scale residuals).
     const smear = ss.mean(logPairs.map(([lx, ly]) => Math.exp(ly - (lr.b + lr.m * lx))));
     expect(rel(f.biasCorrection, smear)).toBeLessThan(1e-12);
@@ -87,18 +90,18 @@ describe('log models', () => {
   it('exponential = straight line through (x, ln y)', () => {
     const f = fitCalibration(pts, 'exponential');
     const lr = ss.linearRegression(pts.map((p) => [p.x, Math.log(p.y)]));
-    expect(rel(f.coefficients[0], Math.exp(lr.b))).toBeLessThan(1e-10);
-    expect(rel(f.coefficients[1], lr.m)).toBeLessThan(1e-10);
+    expect(rel(coef(f, 0), Math.exp(lr.b))).toBeLessThan(1e-10);
+    expect(rel(coef(f, 1), lr.m)).toBeLessThan(1e-10);
   });
 
   it('prediction interval = exp of the log-scale interval (asymmetric), by hand', () => {
     // 10 points so df = 8 and t(0.975, 8) = 2.306 (NIST e-Handbook 1.3.6.7.2).
     const ten = powerPoints(10, 11);
     const f = fitCalibration(ten, 'power');
-    const lx = ten.map((p) => Math.log(p.x));
-    const ly = ten.map((p) => Math.log(p.y));
-    const lr = ss.linearRegression(lx.map((v, i) => [v, ly[i]]));
-    const s = Math.sqrt(lx.reduce((acc, v, i) => acc + (ly[i] - lr.b - lr.m * v) ** 2, 0) / 8);
+    const logPairs = ten.map((p): [number, number] => [Math.log(p.x), Math.log(p.y)]);
+    const lx = logPairs.map(([v]) => v);
+    const lr = ss.linearRegression(logPairs);
+    const s = Math.sqrt(logPairs.reduce((acc, [v, w]) => acc + (w - lr.b - lr.m * v) ** 2, 0) / 8);
     const mx = ss.mean(lx);
     const sxx = lx.reduce((acc, v) => acc + (v - mx) ** 2, 0);
     const x0 = 60;
@@ -130,10 +133,10 @@ describe('leave-one-out RMSE (closed form) equals refitting without each point',
   it.each(MODELS.map((m) => [m]))('%s', (model) => {
     const f = fitCalibration(pts, model as ModelKind);
     let ssq = 0;
-    for (let i = 0; i < pts.length; i++) {
+    for (const [i, p] of pts.entries()) {
       // A full refit without point i, its own smearing factor included (log models).
       const g = fitCalibration(pts.filter((_, j) => j !== i), model as ModelKind);
-      ssq += (pts[i].y - predict(g, pts[i].x)) ** 2;
+      ssq += (p.y - predict(g, p.x)) ** 2;
     }
     expect(rel(f.looRmse as number, Math.sqrt(ssq / pts.length))).toBeLessThan(1e-9);
   });
@@ -143,9 +146,9 @@ describe('leave-one-out RMSE (closed form) equals refitting without each point',
     for (const model of ['power', 'exponential'] as const) {
       const f = fitCalibration(many, model);
       let ssq = 0;
-      for (let i = 0; i < many.length; i++) {
+      for (const [i, p] of many.entries()) {
         const g = fitCalibration(many.filter((_, j) => j !== i), model);
-        ssq += (many[i].y - predict(g, many[i].x)) ** 2;
+        ssq += (p.y - predict(g, p.x)) ** 2;
       }
       expect(rel(f.looRmse as number, Math.sqrt(ssq / many.length))).toBeLessThan(1e-9);
     }
@@ -155,9 +158,9 @@ describe('leave-one-out RMSE (closed form) equals refitting without each point',
     const few = powerPoints(6, 21, 3.4, 1.65, 0.45);
     const f = fitCalibration(few, 'power');
     let ssq = 0;
-    for (let i = 0; i < few.length; i++) {
+    for (const [i, p] of few.entries()) {
       const g = fitCalibration(few.filter((_, j) => j !== i), 'power');
-      ssq += (few[i].y - predict(g, few[i].x)) ** 2;
+      ssq += (p.y - predict(g, p.x)) ** 2;
     }
     expect(rel(f.looRmse as number, Math.sqrt(ssq / few.length))).toBeLessThan(1e-9);
   });
@@ -283,8 +286,9 @@ describe('compareModels', () => {
     expect(c.failed).toHaveLength(0);
     const loo = c.ranked.map((r) => r.looRmse as number);
     expect([...loo].sort((a, b) => a - b)).toEqual(loo);
-    expect(c.recommendation.model).toBe(c.ranked[0].model);
-    expect(c.recommendation.message).toContain(c.ranked[0].model);
+    const best = at(c.ranked, 0, 'ranked model');
+    expect(c.recommendation.model).toBe(best.model);
+    expect(c.recommendation.message).toContain(best.model);
   });
 
   it('lists models that cannot be fitted, with the reason', () => {

@@ -9,8 +9,8 @@ describe('lookupTable', () => {
   it('1-inch steps over the calibrated range by default, both unit systems', () => {
     const rows = lookupTable(rye, { unit: 'in', step: 1 });
     const [lo, hi] = rye.xRange;
-    expect(rows[0].length).toBe(Math.ceil(lo / 2.54));
-    expect(rows[rows.length - 1].length).toBe(Math.floor(hi / 2.54));
+    expect(rows[0]?.length).toBe(Math.ceil(lo / 2.54));
+    expect(rows.at(-1)?.length).toBe(Math.floor(hi / 2.54));
     for (const r of rows) {
       expect(Number.isInteger(r.length)).toBe(true);
       expect(r.lengthCm).toBeCloseTo(inToCm(r.length), 12);

@@ -21,6 +21,7 @@ export function readStrd(name: string): StrdFile {
     .filter((l) => l.trim() !== '')
     .map((l) => {
       const [y, x] = l.trim().split(/\s+/).map(Number);
+      if (x === undefined || y === undefined) throw new Error(`${name}: a data line without both y and x: ${l}`);
       return { x, y };
     });
   const estimates: number[] = [];

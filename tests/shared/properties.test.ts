@@ -41,7 +41,10 @@ describe('properties', () => {
         const dom = monotoneDomain(fit);
         if (!dom.increasing || dom.lo > fit.xRange[0] || dom.hi < fit.xRange[1]) return true; // not monotone over the range
         const rows = lookupTable(fit, { unit, step: unit === 'in' ? 1 : 2 });
-        return rows.every((r, i) => i === 0 || r.biomassKgHa >= rows[i - 1].biomassKgHa);
+        return rows.every((r, i) => {
+          const before = rows[i - 1]; // none for the first row
+          return before === undefined || r.biomassKgHa >= before.biomassKgHa;
+        });
       }),
       { numRuns: 200 },
     );

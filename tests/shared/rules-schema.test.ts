@@ -23,6 +23,6 @@ describe('credit rule input: the decision basis fields', () => {
   ])('%o → plain words', (extra, message) => {
     const r = creditRuleInputSchema.safeParse({ ...base, ...extra });
     expect(r.success).toBe(false);
-    if (!r.success) expect(r.error.issues[0].message).toBe(message);
+    if (!r.success) expect(r.error.issues[0]?.message).toBe(message);
   });
 });

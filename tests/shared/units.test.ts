@@ -3,6 +3,7 @@ import { describe, expect, it } from 'vitest';
 import {
   CalcError, acToHa, cmToIn, haToAc, inToCm, kgPerHaToLbPerAc, lbPerAcToKgPerHa,
 } from '../../shared/calc';
+import { at } from '../helpers/lists';
 
 // Exact factors: NIST SP 811 (2008) Appendix B and NIST Handbook 44 Appendix C:
 // 1 in = 2.54 cm, 1 lb = 0.45359237 kg (both exact); 1 acre = 43,560 ft² with the international
@@ -36,7 +37,7 @@ describe('unit conversions (NIST SP 811 / HB 44 App. C)', () => {
     ];
     fc.assert(
       fc.property(fc.double({ min: -1e9, max: 1e9, noNaN: true, noDefaultInfinity: true }), fc.integer({ min: 0, max: 2 }), (v, k) => {
-        const [there, back] = pairs[k];
+        const [there, back] = at(pairs, k, 'conversion pair');
         const r1 = back(there(v));
         const r2 = there(back(v));
         const tol = 1e-12 * Math.max(1e-300, Math.abs(v));

@@ -84,7 +84,7 @@ describe('walkFlags', () => {
     expect(codes(flags)).toEqual(['outlier']);
     const f = flags[0] as Extract<WalkFlag, { code: 'outlier' }>;
     expect(f.plants.map((p) => [p.stop, p.lengthCm])).toEqual([[4, 8]]);
-    expect(f.plants[0].z).toBeGreaterThan(OUTLIER_Z);
+    expect(f.plants[0]?.z).toBeGreaterThan(OUTLIER_Z);
     expect(outlierStops(flags)).toEqual(new Set([4]));
   });
 

@@ -8,6 +8,7 @@ import GeoJSONReader from 'jsts/org/locationtech/jts/io/GeoJSONReader.js';
 import 'jsts/org/locationtech/jts/monkey.js';
 import { describe, expect, it } from 'vitest';
 import { walkPlan, type WalkPlan } from '../../shared/calc/walk-plan';
+import { at, only } from '../helpers/lists';
 
 // The plan's own geometry (shared/geo/plane.ts) is checked here against two libraries it does not
 // use: JSTS (planar distances and containment) on coordinates projected with geographiclib's
@@ -28,13 +29,21 @@ function fixture(name: string): Fixture {
   return out;
 }
 
+/** A GeoJSON position as [longitude, latitude], which every position here has. */
+function lonLat(p: Position): [number, number] {
+  const [lon, lat] = p;
+  if (lon === undefined || lat === undefined) throw new Error(`a position without both coordinates: ${JSON.stringify(p)}`);
+  return [lon, lat];
+}
+
 /** Azimuthal equidistant coordinates (metres) about a centre, from geographiclib's inverse problem. */
 function projector(field: Polygon | MultiPolygon) {
-  const all = (field.type === 'Polygon' ? [field.coordinates] : field.coordinates).flat(2);
-  const lon0 = (Math.min(...all.map((p) => p[0])) + Math.max(...all.map((p) => p[0]))) / 2;
-  const lat0 = (Math.min(...all.map((p) => p[1])) + Math.max(...all.map((p) => p[1]))) / 2;
+  const all = (field.type === 'Polygon' ? [field.coordinates] : field.coordinates).flat(2).map(lonLat);
+  const lon0 = (Math.min(...all.map(([lon]) => lon)) + Math.max(...all.map(([lon]) => lon))) / 2;
+  const lat0 = (Math.min(...all.map(([, lat]) => lat)) + Math.max(...all.map(([, lat]) => lat))) / 2;
   return (p: Position): number[] => {
-    const r = G.Inverse(lat0, lon0, p[1], p[0]);
+    const [lon, lat] = lonLat(p);
+    const r = G.Inverse(lat0, lon0, lat, lon);
     const a = (r.azi1! * Math.PI) / 180;
     return [r.s12! * Math.sin(a), r.s12! * Math.cos(a)];
   };
@@ -46,11 +55,15 @@ function jsts(geometry: Geometry, project: (p: Position) => number[]) {
   return reader.read({ type: geometry.type, coordinates: map((geometry as Polygon).coordinates) });
 }
 
-const karney = (a: Position, b: Position) => G.Inverse(a[1], a[0], b[1], b[0]).s12!;
+const karney = (a: Position, b: Position) => {
+  const [lonA, latA] = lonLat(a);
+  const [lonB, latB] = lonLat(b);
+  return G.Inverse(latA, lonA, latB, lonB).s12!;
+};
 /** Geodesic area (m²) from geographiclib's polygon routine. */
 function geodesicArea(p: Polygon): number {
   const poly = G.Polygon(false);
-  for (const [lon, lat] of p.coordinates[0].slice(0, -1)) poly.AddPoint(lat, lon);
+  for (const [lon, lat] of at(p.coordinates, 0, 'outer ring').slice(0, -1).map(lonLat)) poly.AddPoint(lat, lon);
   return Math.abs(poly.Compute(false, true).area!);
 }
 
@@ -87,11 +100,11 @@ describe('every stop and leg keeps the margin from every edge (JSTS on azimuthal
     // Planned on a simplified outline; the check is on every one of the 5,000 corners.
     const n = 5000;
     const outline = (radius: (k: number) => number): Polygon => {
-      const ring = Array.from({ length: n }, (_, k) => {
+      const ring = Array.from({ length: n }, (_, k): Position => {
         const a = (2 * Math.PI * k) / n;
         return [-125 + 0.003 * radius(k) * Math.cos(a), 36 + 0.003 * radius(k) * Math.sin(a)];
       });
-      return { type: 'Polygon', coordinates: [[...ring, ring[0]]] };
+      return { type: 'Polygon', coordinates: [[...ring, at(ring, 0, 'corner')]] };
     };
     for (const field of [outline((k) => 1 + 0.3 * Math.sin((12 * Math.PI * k) / n)), outline((k) => 1 + 0.01 * Math.sin(k * 12.9898))]) {
       const project = projector(field);
@@ -148,9 +161,9 @@ describe('pattern and why', () => {
     ['strip'],
   ])('%s: the diagonal of the rectangle 10 m inside the edges', (name) => {
     const { field } = fixture(name);
-    const ring = (field as Polygon).coordinates[0];
-    const w = karney(ring[0], ring[1]);
-    const h = karney(ring[1], ring[2]);
+    const ring = at((field as Polygon).coordinates, 0, 'outer ring');
+    const w = karney(at(ring, 0, 'corner'), at(ring, 1, 'corner'));
+    const h = karney(at(ring, 1, 'corner'), at(ring, 2, 'corner'));
     const plan = walkPlan(field, { seed: 's' });
     // 0.2 m: the plan keeps 5 cm extra inside the margin.
     expect(Math.abs(plan.diagonalM - Math.hypot(w - 20, h - 20))).toBeLessThan(0.2);
@@ -170,12 +183,12 @@ describe('each part of an L or a C gets its share of stops (within one stop of i
       expect(sum / total).toBeCloseTo(1, 3); // the parts tile the field
       const project = projector(fx.field);
       // 1 cm of slack: a stop exactly on a cut line counts for both parts.
-      const shapes = parts.map((p) => jsts(p.geometry, project).buffer(0.01));
+      const shaped = parts.map((p) => ({ ...p, shape: jsts(p.geometry, project).buffer(0.01) }));
       for (let seed = 1; seed <= 30; seed++) {
         for (const stops of [10, 17]) {
           const plan = walkPlan(fx.field, { seed, stops });
-          parts.forEach((p, i) => {
-            const inside = plan.stops.filter((s) => shapes[i].contains(jsts({ type: 'Point', coordinates: [s.lng!, s.lat!] }, project))).length;
+          shaped.forEach((p) => {
+            const inside = plan.stops.filter((s) => p.shape.contains(jsts({ type: 'Point', coordinates: [s.lng!, s.lat!] }, project))).length;
             const expected = (stops * geodesicArea(p.geometry)) / total;
             expect(Math.abs(inside - expected), `${name} ${cut} ${p.label} seed ${seed} stops ${stops}`).toBeLessThanOrEqual(1);
           });
@@ -194,32 +207,33 @@ describe('distances against geodesics on WGS84 (geographiclib, Karney), within 0
     let route = 0;
     plan.legs.forEach((leg, i) => {
       within(leg.lengthM, karney(leg.start!, leg.end!));
-      if (i > 0) {
-        within(leg.transferM, karney(plan.legs[i - 1].end!, leg.start!));
-        route += karney(plan.legs[i - 1].end!, leg.start!);
+      const before = plan.legs[i - 1]; // none for the first leg
+      if (before) {
+        within(leg.transferM, karney(before.end!, leg.start!));
+        route += karney(before.end!, leg.start!);
       }
       routeBefore.push(route);
       route += karney(leg.start!, leg.end!);
     });
     within(plan.walkLengthM, route);
     for (const s of plan.stops) {
-      const leg = plan.legs[s.leg - 1];
+      const leg = at(plan.legs, s.leg - 1, 'leg');
       within(s.legDistanceM, karney(leg.start!, [s.lng!, s.lat!]));
-      within(s.distanceM, routeBefore[s.leg - 1] + karney(leg.start!, [s.lng!, s.lat!]));
+      within(s.distanceM, at(routeBefore, s.leg - 1, 'leg') + karney(leg.start!, [s.lng!, s.lat!]));
     }
-    for (let k = 1; k < plan.stops.length; k++) {
-      const [a, b] = [plan.stops[k - 1], plan.stops[k]];
-      if (a.leg === b.leg) within(plan.legs[a.leg - 1].spacingM, karney([a.lng!, a.lat!], [b.lng!, b.lat!]));
-    }
+    plan.stops.forEach((b, k) => {
+      const a = plan.stops[k - 1]; // none for the first stop
+      if (a && a.leg === b.leg) within(at(plan.legs, a.leg - 1, 'leg').spacingM, karney([a.lng!, a.lat!], [b.lng!, b.lat!]));
+    });
   });
 
   it('systematic sampling on one diagonal: n stops one per n equal segments, at the same offset in each', () => {
     const plan = walkPlan(fixture('rectangle').field, { seed: 'sys', stops: 8 });
-    const leg = plan.legs[0];
+    const leg = only(plan.legs, 'leg');
     const segment = leg.lengthM / 8; // hand: line length / number of stops
     within(plan.spacingM, segment);
     const fromStart = plan.stops.map((s) => karney(leg.start!, [s.lng!, s.lat!]));
-    const offset = fromStart[0];
+    const offset = at(fromStart, 0, 'stop');
     expect(offset).toBeLessThan(segment);
     fromStart.forEach((d, k) => within(d, offset + k * segment));
   });

@@ -1,6 +1,7 @@
 import type { Polygon } from 'geojson';
 import { describe, expect, it } from 'vitest';
 import { MAX_STOPS, PACE_LENGTH_M, newWalkSeed, suggestStops, walkPlan } from '../../shared/calc';
+import { at, only } from '../helpers/lists';
 import { codeOf, mulberry32 } from './prng';
 
 // Invented outline in the open sea near 36° N, 125° W (no real place): about 300 m × 200 m.
@@ -20,8 +21,9 @@ describe('seeds: the same seed gives the same stops', () => {
     expect(positions(c)).not.toEqual(positions(a));
     // The line is the same; only the random start moves (every stop shifts by the same amount).
     expect(c.legs).toEqual(a.legs);
-    const shift = c.stops[0].legDistanceM - a.stops[0].legDistanceM;
-    c.stops.forEach((s, k) => expect(s.legDistanceM - a.stops[k].legDistanceM).toBeCloseTo(shift, 6));
+    expect(c.stops).toHaveLength(a.stops.length);
+    const shift = at(c.stops, 0, 'stop').legDistanceM - at(a.stops, 0, 'stop').legDistanceM;
+    c.stops.forEach((s, k) => expect(s.legDistanceM - at(a.stops, k, 'stop').legDistanceM).toBeCloseTo(shift, 6));
   });
 
   it('an integer seed and its decimal text are the same seed', () => {
@@ -29,7 +31,7 @@ describe('seeds: the same seed gives the same stops', () => {
   });
 
   it('twenty different seeds give twenty different first-stop positions', () => {
-    const firsts = new Set(Array.from({ length: 20 }, (_, i) => walkPlan(RECT, { seed: `s${i}` }).stops[0].legDistanceM.toFixed(3)));
+    const firsts = new Set(Array.from({ length: 20 }, (_, i) => at(walkPlan(RECT, { seed: `s${i}` }).stops, 0, 'stop').legDistanceM.toFixed(3)));
     expect(firsts.size).toBe(20);
   });
 
@@ -60,9 +62,11 @@ describe('without a boundary: a square of the given area', () => {
     expect(p.spacingM).toBeCloseTo(18 * Math.SQRT2, 9);
     expect(p.spacingPaces).toBeCloseTo((18 * Math.SQRT2) / 0.76, 9);
     expect(p.spacingFt).toBeCloseTo((18 * Math.SQRT2) / 0.3048, 9);
-    expect(p.stops[0].distanceM).toBeLessThan(18 * Math.SQRT2);
+    expect(p.stops).toHaveLength(10);
+    const first = at(p.stops, 0, 'stop');
+    expect(first.distanceM).toBeLessThan(18 * Math.SQRT2);
     p.stops.forEach((s, k) => {
-      expect(s.distanceM - p.stops[0].distanceM).toBeCloseTo(k * 18 * Math.SQRT2, 9);
+      expect(s.distanceM - first.distanceM).toBeCloseTo(k * 18 * Math.SQRT2, 9);
       expect(s.paces).toBeCloseTo(s.distanceM / PACE_LENGTH_M, 9);
       expect(s).toMatchObject({ lng: null, lat: null, leg: 1 });
     });
@@ -80,8 +84,9 @@ describe('without a boundary: a square of the given area', () => {
 
   it('one stop falls somewhere on the line, decided by the seed', () => {
     const p = walkPlan(null, { areaHa: 1, stops: 1, seed: 'one' });
-    expect(p.stops[0].distanceM).toBeGreaterThanOrEqual(0);
-    expect(p.stops[0].distanceM).toBeLessThanOrEqual(p.walkLengthM);
+    const stop = only(p.stops, 'stop');
+    expect(stop.distanceM).toBeGreaterThanOrEqual(0);
+    expect(stop.distanceM).toBeLessThanOrEqual(p.walkLengthM);
     expect(p.spacingM).toBe(0);
   });
 });
