@@ -31,14 +31,16 @@ describe('office.css', () => {
 
 // WCAG 2.x relative luminance and contrast ratio.
 function luminance(hex: string): number {
-  const [r, g, b] = [1, 3, 5].map((i) => {
+  const channel = (i: number) => {
     const v = parseInt(hex.slice(i, i + 2), 16) / 255;
     return v <= 0.03928 ? v / 12.92 : ((v + 0.055) / 1.055) ** 2.4;
-  });
+  };
+  const [r, g, b] = [channel(1), channel(3), channel(5)];
   return 0.2126 * r + 0.7152 * g + 0.0722 * b;
 }
 function contrast(a: string, b: string): number {
-  const [hi, lo] = [luminance(a), luminance(b)].sort((x, y) => y - x);
+  const [la, lb] = [luminance(a), luminance(b)];
+  const [hi, lo] = [Math.max(la, lb), Math.min(la, lb)];
   return (hi + 0.05) / (lo + 0.05);
 }
 

@@ -24,11 +24,11 @@ function featureGraph(): Map<string, Set<string>> {
     const deps = new Set<string>();
     for (const file of filesUnder(path.join(ROOT, feature))) {
       const text = fs.readFileSync(file, 'utf8');
-      for (const m of text.matchAll(/(?:from\s+|import\()\s*'([^']+)'/g)) {
-        if (!m[1].startsWith('.')) continue;
-        const target = path.relative(ROOT, path.resolve(path.dirname(file), m[1]));
+      for (const [, spec] of text.matchAll(/(?:from\s+|import\()\s*'([^']+)'/g)) {
+        if (!spec?.startsWith('.')) continue;
+        const target = path.relative(ROOT, path.resolve(path.dirname(file), spec));
         if (target.startsWith('..')) continue; // lib/, app/, locales/, shared/
-        const other = target.split(path.sep)[0];
+        const [other = target] = target.split(path.sep);
         if (other !== feature) deps.add(other);
       }
     }

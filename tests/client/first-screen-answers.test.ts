@@ -28,7 +28,7 @@ const square = [
   [-120.49, 36.11],
   [-120.5, 36.11],
   [-120.5, 36.1],
-];
+] as const;
 const item = {
   plantingId: 'p1',
   fieldId: 'f1',

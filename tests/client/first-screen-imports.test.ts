@@ -23,13 +23,13 @@ function resolve(from: string, spec: string): string | null {
 function valueImports(text: string): string[] {
   const out: string[] = [];
   const re = /^\s*(import|export)\s+(type\s+)?([^'";]*?)\s*(?:from\s+)?'([^']+)'/gm;
-  for (const m of text.matchAll(re)) {
-    if (m[2]) continue; // import type … / export type …
-    const clause = m[3].trim();
-    const braces = /^\{([^}]*)\}$/.exec(clause);
-    if (braces && braces[1].split(',').every((s) => s.trim() === '' || /^type\s/.test(s.trim())) && braces[1].trim() !== '') continue;
-    if (m[1] === 'export' && !/from\s+'/.test(m[0])) continue;
-    out.push(m[4]);
+  for (const [whole, keyword, typeOnly, clause = '', spec] of text.matchAll(re)) {
+    if (typeOnly) continue; // import type … / export type …
+    if (spec === undefined) continue; // the pattern always captures one
+    const names = /^\{([^}]*)\}$/.exec(clause.trim())?.[1];
+    if (names !== undefined && names.split(',').every((s) => s.trim() === '' || /^type\s/.test(s.trim())) && names.trim() !== '') continue;
+    if (keyword === 'export' && !/from\s+'/.test(whole)) continue;
+    out.push(spec);
   }
   return out;
 }

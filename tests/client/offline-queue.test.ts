@@ -14,6 +14,7 @@ import {
 } from '../../client/features/offline/queue';
 import type { BoundaryProposalCreate } from '../../shared/schemas/boundary-proposals';
 import type { WalkCreate } from '../../shared/schemas/walks';
+import { at } from '../helpers/lists';
 
 /** An in-memory stand-in for the IndexedDB store; values are cloned as IndexedDB would. */
 function fakeStorage(): QueueStorage & { rows: Map<string, QueueJob> } {
@@ -219,7 +220,7 @@ describe('backoff', () => {
     await queue.run();
     const waits: number[] = [];
     for (let k = 0; k < 12; k++) {
-      waits.push(clock.pending()[0]);
+      waits.push(at(clock.pending(), 0, 'pending retry'));
       clock.fireNext();
       await queue.run();
     }

@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { watchForSignal } from '../../client/features/offline/resend';
+import { only } from '../helpers/lists';
 
 /** The outbox tries again on its own: signal back, app back on screen, and on a timer. */
 function fakes() {
@@ -35,15 +36,15 @@ describe('watchForSignal', () => {
     f.doc.dispatchEvent(new Event('visibilitychange')); // hidden: the app went away, nothing to do
     f.doc.visibilityState = 'visible';
     f.doc.dispatchEvent(new Event('visibilitychange'));
-    expect(f.timers).toHaveLength(1);
-    expect(f.timers[0].ms).toBe(30_000);
-    f.timers[0].fn();
+    const timer = only(f.timers, 'timer');
+    expect(timer.ms).toBe(30_000);
+    timer.fn();
     expect(calls).toEqual(['online', 'visible', 'timer']);
 
     stop();
     f.win.dispatchEvent(new Event('online'));
     f.doc.dispatchEvent(new Event('visibilitychange'));
     expect(calls).toHaveLength(3);
-    expect(f.timers[0].cleared).toBe(true);
+    expect(timer.cleared).toBe(true);
   });
 });
