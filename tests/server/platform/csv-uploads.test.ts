@@ -2,7 +2,7 @@ import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
-import { createTestApp, csrfFromHtml, signInPages, type TestApp } from '../../helpers/app';
+import { createTestApp, csrfFromHtml, locationOf, signInPages, type TestApp } from '../../helpers/app';
 
 /*
  * Every upload that reads a CSV goes through one reader (server/platform/csv-read.ts). For each
@@ -70,8 +70,9 @@ describe('registry import upload', () => {
     for (const bytes of [utf8(CSV), Buffer.concat([BOM, utf8(CSV)])]) {
       const res = await upload(agent, bytes);
       expect(res.status).toBe(303);
-      const id = res.headers.location.split('/').pop()!;
-      const page = await agent.get(res.headers.location);
+      const location = locationOf(res);
+      const id = location.split('/').pop()!;
+      const page = await agent.get(location);
       expect(page.status).toBe(200);
       // The summary line names the byte order mark (and the size, 3 bytes apart); the rest must match.
       previews.push(samePage(page.text, id).replace(/<p class="mb-4"><strong>[\s\S]*?<\/p>/, ''));
@@ -111,8 +112,9 @@ describe('calibration points upload', () => {
     for (const bytes of [utf8(CSV), Buffer.concat([BOM, utf8(CSV)])]) {
       const res = await upload(agent, bytes);
       expect(res.status).toBe(303);
-      const id = res.headers.location.split('/').pop()!;
-      const page = await agent.get(res.headers.location);
+      const location = locationOf(res);
+      const id = location.split('/').pop()!;
+      const page = await agent.get(location);
       expect(page.status).toBe(200);
       previews.push(samePage(page.text, id));
     }
