@@ -10,7 +10,6 @@ import { parseForm } from '../platform/validation';
 import { decodeUtf8, CsvReadError } from '../platform/csv-read';
 import { toCsv } from '../platform/csv-safe';
 import type { Formatter } from '../platform/format';
-import { cal } from './service';
 import { BIOMASS_UNITS, LENGTH_UNITS } from './service';
 import { listCrops } from '../registry/public';
 import { currentCreditRule } from '../rules/public';
@@ -121,9 +120,9 @@ export function calibrationPages(ctx: AppContext): Router {
   // List ----------------------------------------------------------------------------------------
 
   router.get('/calibrations', async (req, res) => {
-    const statuses: cal.CalibrationStatus[] = isAdmin(req) ? ['published', 'draft', 'retired'] : ['published', 'retired'];
-    const { items } = await cal.listCalibrations(db, org(req), { statuses, limit: 500, offset: 0 });
-    const assignments = await cal.listAssignments(db, org(req));
+    const statuses: calibrations.CalibrationStatus[] = isAdmin(req) ? ['published', 'draft', 'retired'] : ['published', 'retired'];
+    const { items } = await calibrations.listCalibrations(db, org(req), { statuses, limit: 500, offset: 0 });
+    const assignments = await calibrations.listAssignments(db, org(req));
     res.render('calibrations/list', { title: 'Calibrations', calibrations: items, assignments, canManage: isAdmin(req) });
   });
 
@@ -158,18 +157,18 @@ export function calibrationPages(ctx: AppContext): Router {
       if (e instanceof CsvReadError) return fail(e.message);
       throw e;
     }
-    const id = await cal.insertUpload(db, org(req), { uploadedBy: contextOf(req).id, fileName: path.basename(file.originalname || 'upload.csv'), content, byteSize: file.size });
+    const id = await calibrations.insertUpload(db, org(req), { uploadedBy: contextOf(req).id, fileName: path.basename(file.originalname || 'upload.csv'), content, byteSize: file.size });
     if (wantsJson) return res.json({ previewUrl: `/calibrations/uploads/${id}` });
     res.redirect(303, `/calibrations/uploads/${id}`);
   });
 
   const loadUpload = async (req: Request) => {
-    const upload = await cal.getUpload(db, org(req), String(req.params.id));
+    const upload = await calibrations.getUpload(db, org(req), String(req.params.id));
     if (!upload) throw new HttpError('not_found', 'This upload is no longer here (uploads are kept for a day). Upload the file again.');
     return upload;
   };
 
-  const renderPreview = async (req: Request, res: Response, upload: cal.Upload, values: Record<string, unknown>, errors: Record<string, string>, status = 200) => {
+  const renderPreview = async (req: Request, res: Response, upload: calibrations.Upload, values: Record<string, unknown>, errors: Record<string, string>, status = 200) => {
     const check = checkCalibrationCsv(upload.content, { lengthUnit: units(values.lengthUnit), biomassUnit: bunits(values.biomassUnit) });
     const crops = await listCrops(db);
     const cu = res.locals.cu as ReturnType<typeof unitsHelpers>;
@@ -233,7 +232,7 @@ export function calibrationPages(ctx: AppContext): Router {
       if (e instanceof HttpError && e.code === 'invalid') return renderPreview(req, res, upload, body, { ...(e.fields ?? {}), _: e.message }, 400);
       throw e;
     }
-    await cal.deleteUpload(db, org(req), upload.id);
+    await calibrations.deleteUpload(db, org(req), upload.id);
     req.session.flash = { kind: 'info', text: `${check.points.length} points saved as a draft calibration for ${created.cropLabel}. Compare the models, then publish.` };
     res.redirect(303, `/calibrations/${created.id}`);
   });
@@ -242,9 +241,9 @@ export function calibrationPages(ctx: AppContext): Router {
 
   const renderAssignments = async (req: Request, res: Response, values: Record<string, unknown>, errors: Record<string, string>, status = 200) => {
     const [assignments, crops, { items: published }] = await Promise.all([
-      cal.listAssignments(db, org(req)),
+      calibrations.listAssignments(db, org(req)),
       listCrops(db),
-      cal.listCalibrations(db, org(req), { statuses: ['published'], limit: 500, offset: 0 }),
+      calibrations.listCalibrations(db, org(req), { statuses: ['published'], limit: 500, offset: 0 }),
     ]);
     res.status(status).render('calibrations/assignments', { title: 'Which calibration applies', assignments, crops, published, values, errors, canManage: isAdmin(req) });
   };
@@ -279,14 +278,14 @@ export function calibrationPages(ctx: AppContext): Router {
 
   const load = (req: Request) => calibrations.loadCalibration(db, org(req), String(req.params.id), { drafts: isAdmin(req) });
 
-  const renderFitPage = async (req: Request, res: Response, c: cal.Calibration, form: { values: Record<string, unknown>; errors: Record<string, string> }, status = 200) => {
-    const dataset = (await cal.getDataset(db, org(req), c.datasetId))!;
+  const renderFitPage = async (req: Request, res: Response, c: calibrations.Calibration, form: { values: Record<string, unknown>; errors: Record<string, string> }, status = 200) => {
+    const dataset = (await calibrations.getDataset(db, org(req), c.datasetId))!;
     const rule = await currentCreditRule(db, org(req));
     const cu = res.locals.cu as ReturnType<typeof unitsHelpers>;
     const asked = typeof req.query.model === 'string' && isModel(req.query.model) ? req.query.model : isModel(form.values.model) ? form.values.model : undefined;
     const view = fitPageView(c, dataset.points, { model: asked, units: cu.u, thresholdKgHa: rule.thresholdKgHa });
-    const assignments = await cal.assignmentsOf(db, org(req), c.id);
-    const existing = (await cal.listAssignments(db, org(req))).find((a) => a.crop === c.crop && (a.variety ?? '').toLowerCase() === (c.variety ?? '').toLowerCase());
+    const assignments = await calibrations.assignmentsOf(db, org(req), c.id);
+    const existing = (await calibrations.listAssignments(db, org(req))).find((a) => a.crop === c.crop && (a.variety ?? '').toLowerCase() === (c.variety ?? '').toLowerCase());
     res.status(status).render('calibrations/show', {
       title: `${c.cropLabel}${c.variety ? ` ${c.variety}` : ''} calibration${c.version ? ` v${c.version}` : ' (draft)'}`,
       c,
@@ -321,13 +320,13 @@ export function calibrationPages(ctx: AppContext): Router {
       view = lookupView(c.fit, { unit, thresholdKgHa: rule.thresholdKgHa });
       rangeNote = `That range would need more than ${MAX_LOOKUP_PAGE_ROWS} rows; the table shows the calibrated lengths instead.`;
     }
-    const dataset = (await cal.getDataset(db, org(req), c.datasetId))!;
+    const dataset = (await calibrations.getDataset(db, org(req), c.datasetId))!;
     res.render('calibrations/table', { title: `Lookup table: ${c.cropLabel}${c.version ? ` v${c.version}` : ' (draft)'}`, c, dataset, view, rule, steps: LOOKUP_STEPS, rangeNote, printedOn: new Date().toISOString() });
   });
 
   router.get('/calibrations/:id/points.csv', async (req, res) => {
     const c = await load(req);
-    const dataset = (await cal.getDataset(db, org(req), c.datasetId))!;
+    const dataset = (await calibrations.getDataset(db, org(req), c.datasetId))!;
     res.type('text/csv; charset=utf-8');
     res.attachment(`calibration-${c.crop}${c.version ? `-v${c.version}` : '-draft'}-points.csv`);
     res.send(toCsv(dataset.points.map((p) => ({ length_cm: p.x, biomass_kg_ha: p.y, site: p.site, date: p.date, stage: p.stage, note: p.note })), TEMPLATE_HEADER));

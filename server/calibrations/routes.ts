@@ -5,7 +5,6 @@ import { contextOf } from '../platform/context';
 import { can } from '../platform/permissions';
 import { HttpError } from '../platform/errors';
 import { validateBody, validateQuery } from '../platform/validation';
-import { cal } from './service';
 import { compareModels, fitCalibration } from '../../shared/calc';
 import { currentCreditRule } from '../rules/public';
 import * as calibrations from './service';
@@ -47,16 +46,16 @@ export function calibrationsApi(ctx: AppContext): Router {
   const list = async (req: Request, res: Response) => {
     const q = res.locals.query as z.infer<typeof listQuerySchema>;
     if (q.status === 'draft' && !seesDrafts(req)) throw new HttpError('forbidden', 'Only administrators see draft calibrations.');
-    const statuses: cal.CalibrationStatus[] =
+    const statuses: calibrations.CalibrationStatus[] =
       q.status === 'all' ? (seesDrafts(req) ? ['published', 'draft', 'retired'] : ['published', 'retired']) : [q.status];
-    const { items, total } = await cal.listCalibrations(db, org(req), { statuses, crop: q.crop, limit: q.limit, offset: q.offset });
+    const { items, total } = await calibrations.listCalibrations(db, org(req), { statuses, crop: q.crop, limit: q.limit, offset: q.offset });
     res.json({ items: items.map(calibrationJson), total });
   };
 
   const show = async (req: Request<{ id: string }>, res: Response) => {
     const c = await calibrations.loadCalibration(db, org(req), req.params.id, { drafts: seesDrafts(req) });
-    const dataset = await cal.getDataset(db, org(req), c.datasetId);
-    const assignments = await cal.assignmentsOf(db, org(req), c.id);
+    const dataset = await calibrations.getDataset(db, org(req), c.datasetId);
+    const assignments = await calibrations.assignmentsOf(db, org(req), c.id);
     res.json({
       ...calibrationJson(c),
       assignments: assignments.map(assignmentJson),
@@ -119,7 +118,7 @@ export function calibrationsApi(ctx: AppContext): Router {
 
   const create = async (req: Request, res: Response) => {
     const body = req.body as z.infer<typeof createBodySchema>;
-    const points = body.points.map((p) => Object.fromEntries(Object.entries(p).filter(([, v]) => v != null)) as unknown as cal.DatasetPoint);
+    const points = body.points.map((p) => Object.fromEntries(Object.entries(p).filter(([, v]) => v != null)) as unknown as calibrations.DatasetPoint);
     const c = await calibrations.createDraft(db, contextOf(req), { ...body, fileName: null, points });
     res.status(201).json(calibrationJson(c));
   };
@@ -146,7 +145,7 @@ export function calibrationsApi(ctx: AppContext): Router {
   };
 
   const assignments = async (req: Request, res: Response) => {
-    const items = await cal.listAssignments(db, org(req));
+    const items = await calibrations.listAssignments(db, org(req));
     res.json({ items: items.map(assignmentJson), total: items.length });
   };
 

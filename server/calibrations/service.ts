@@ -234,5 +234,4 @@ export function assignmentJson(a: cal.Assignment) {
   return { crop: a.crop, variety: a.variety, calibrationId: a.calibrationId, version: a.version, label: a.label, assignedAt: a.assignedAt, assignedBy: a.assignedByName };
 }
 // Single-query reads and writes the routes and pages use as they are (SQL stays in the db modules).
-export * as cal from './db';
-export { BIOMASS_UNITS, LENGTH_UNITS } from './db';
+export { assignmentsOf, deleteUpload, getDataset, getUpload, insertUpload, listAssignments, listCalibrations, BIOMASS_UNITS, LENGTH_UNITS, type Calibration, type CalibrationStatus, type DatasetPoint, type Upload } from './db';

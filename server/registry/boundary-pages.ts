@@ -5,7 +5,6 @@ import { can } from '../platform/permissions';
 import { HttpError } from '../platform/errors';
 import { seasonOfDate, todayIso } from '../../shared/registry/season';
 import * as registry from './service';
-import { ranchesDb, fieldsDb } from './service';
 import { readBoundaryFile, shapeLabel } from './boundary-files';
 import type { BoundaryUploads, KeptShapes } from './boundary-uploads';
 import { planBoundaryImport, type ImportPlan } from './boundary-import';
@@ -23,7 +22,7 @@ export function boundaryImportPages(ctx: AppContext, uploads: BoundaryUploads): 
   router.use(base, can('registry.write'));
 
   const loadRanch = async (req: Request) => {
-    const ranch = await ranchesDb.getRanch(db, contextOf(req).organisationId, String(req.params.id), seasonOfDate(todayIso()));
+    const ranch = await registry.getRanch(db, contextOf(req).organisationId, String(req.params.id), seasonOfDate(todayIso()));
     if (!ranch) throw new HttpError('not_found');
     return ranch;
   };
@@ -53,7 +52,7 @@ export function boundaryImportPages(ctx: AppContext, uploads: BoundaryUploads): 
   const planFor = async (req: Request, res: Response, kept: KeptShapes, nameKey: unknown) => {
     const ranch = await loadRanch(req);
     const key = typeof nameKey === 'string' && kept.nameKeys.includes(nameKey) ? nameKey : kept.nameKeys[0];
-    const { items } = await fieldsDb.listFields(db, contextOf(req).organisationId, { ranchId: ranch.id, limit: 10_000, offset: 0 });
+    const { items } = await registry.listFields(db, contextOf(req).organisationId, { ranchId: ranch.id, limit: 10_000, offset: 0 });
     const existing = items.map((f) => ({ id: f.id, name: f.name, hasBoundary: Boolean(f.boundary) }));
     const plan: ImportPlan | null = key ? planBoundaryImport(kept.shapes, key, existing, (ha) => res.locals.fmt.area(ha, 2)) : null;
     return { ranch, plan };

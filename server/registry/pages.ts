@@ -10,9 +10,6 @@ import { areasDisagree } from '../../shared/registry/boundary-area';
 import { boundaryOutline } from '../../shared/registry/outline';
 import { seasonLabel, seasonOfDate, seasonStartYear, seasonStarting, todayIso } from '../../shared/registry/season';
 import { fieldInputSchema, plantingInputSchema, ranchInputSchema } from '../../shared/schemas/registry';
-import { ranchesDb } from './service';
-import { fieldsDb } from './service';
-import { plantingsDb } from './service';
 import * as registry from './service';
 import { boundaryFromForm, renameErrors } from './forms';
 import { BoundaryUploads } from './boundary-uploads';
@@ -39,7 +36,7 @@ const currentSeason = () => seasonOfDate(todayIso());
 
 const ranchListQuery = z.object({
   q: z.string().trim().max(100).optional().catch(undefined),
-  sort: z.enum(ranchesDb.RANCH_SORTS).default('name').catch('name'),
+  sort: z.enum(registry.RANCH_SORTS).default('name').catch('name'),
   dir: z.enum(['asc', 'desc']).default('asc').catch('asc'),
   page: z.coerce.number().int().min(1).default(1).catch(1),
 });
@@ -73,7 +70,7 @@ export function registryPages(ctx: AppContext): Router {
   router.get('/registry/ranches', async (req, res) => {
     const query = ranchListQuery.parse(req.query);
     const season = currentSeason();
-    const { items, total } = await ranchesDb.listRanches(db, org(req), {
+    const { items, total } = await registry.listRanches(db, org(req), {
       q: query.q || undefined,
       season,
       sort: query.sort,
@@ -104,7 +101,7 @@ export function registryPages(ctx: AppContext): Router {
   });
 
   const loadRanch = async (req: Request) => {
-    const ranch = await ranchesDb.getRanch(db, org(req), String(req.params.id), currentSeason());
+    const ranch = await registry.getRanch(db, org(req), String(req.params.id), currentSeason());
     if (!ranch) throw new HttpError('not_found');
     return ranch;
   };
@@ -113,8 +110,8 @@ export function registryPages(ctx: AppContext): Router {
     const ranch = await loadRanch(req);
     const season = currentSeason();
     const [{ items: fields }, { items: plantings }] = await Promise.all([
-      fieldsDb.listFields(db, org(req), { ranchId: ranch.id, limit: 500, offset: 0 }),
-      plantingsDb.listPlantings(db, org(req), { ranchId: ranch.id, season, limit: 500, offset: 0 }),
+      registry.listFields(db, org(req), { ranchId: ranch.id, limit: 500, offset: 0 }),
+      registry.listPlantings(db, org(req), { ranchId: ranch.id, season, limit: 500, offset: 0 }),
     ]);
     const plantingOf = new Map(plantings.map((p) => [p.fieldId, p]));
     res.render('registry/ranch', { title: ranch.name, ranch, fields, plantingOf, season, seasonLabel, canEdit: canEdit(req) });
@@ -161,12 +158,12 @@ export function registryPages(ctx: AppContext): Router {
     return { input, choice };
   };
 
-  const fieldFormLocals = async (req: Request, values: Record<string, unknown>, field: fieldsDb.Field | null) => ({
+  const fieldFormLocals = async (req: Request, values: Record<string, unknown>, field: registry.Field | null) => ({
     title: field ? `Edit ${field.name}` : 'New field',
     field,
     values,
     errors: {} as Record<string, string>,
-    ranches: await ranchesDb.ranchOptions(db, org(req)),
+    ranches: await registry.ranchOptions(db, org(req)),
     choose: null as null | { id: string; fileName: string; options: { index: number; label: string; areaHa: number | null; problem: string | null }[]; picked: number | null },
   });
 
@@ -182,7 +179,7 @@ export function registryPages(ctx: AppContext): Router {
     res.render('registry/field-form', await fieldFormLocals(req, { ranchId: req.query.ranchId }, null));
   });
 
-  const saveField = async (req: Request, res: Response, field: fieldsDb.Field | null) => {
+  const saveField = async (req: Request, res: Response, field: registry.Field | null) => {
     const locals = await fieldFormLocals(req, req.body ?? {}, field);
     const { input, choice } = await fieldFormInput(req);
     const schema = field ? fieldInputSchema.partial() : fieldInputSchema;
@@ -207,14 +204,14 @@ export function registryPages(ctx: AppContext): Router {
   router.post('/registry/fields', writers, (req, res) => saveField(req, res, null));
 
   const loadField = async (req: Request) => {
-    const field = await fieldsDb.getField(db, org(req), String(req.params.id));
+    const field = await registry.getField(db, org(req), String(req.params.id));
     if (!field) throw new HttpError('not_found');
     return field;
   };
 
   router.get('/registry/fields/:id', async (req, res) => {
     const field = await loadField(req);
-    const { items: plantings } = await plantingsDb.listPlantings(db, org(req), { fieldId: field.id, limit: 100, offset: 0 });
+    const { items: plantings } = await registry.listPlantings(db, org(req), { fieldId: field.id, limit: 100, offset: 0 });
     res.render('registry/field', {
       title: field.name,
       field,
@@ -250,25 +247,25 @@ export function registryPages(ctx: AppContext): Router {
     };
   };
 
-  const plantingFormLocals = async (req: Request, field: fieldsDb.Field, planting: plantingsDb.Planting | null, values: Record<string, unknown>) => ({
+  const plantingFormLocals = async (req: Request, field: registry.Field, planting: registry.Planting | null, values: Record<string, unknown>) => ({
     title: planting ? `Planting ${seasonLabel(planting.season)} on ${field.name}` : `New planting on ${field.name}`,
     field,
     planting,
     values,
     errors: {} as Record<string, string>,
-    crops: await plantingsDb.listCrops(db),
-    varieties: await plantingsDb.varietySuggestions(db, org(req)),
+    crops: await registry.listCrops(db),
+    varieties: await registry.varietySuggestions(db, org(req)),
     seasons: seasonChoices(),
     seasonLabel,
   });
 
   router.get('/registry/plantings/new', writers, async (req, res) => {
-    const field = await fieldsDb.getField(db, org(req), String(req.query.fieldId ?? ''));
+    const field = await registry.getField(db, org(req), String(req.query.fieldId ?? ''));
     if (!field) throw new HttpError('not_found', 'Open a field first, then add its planting.');
     res.render('registry/planting-form', await plantingFormLocals(req, field, null, { season: currentSeason() }));
   });
 
-  const savePlanting = async (req: Request, res: Response, field: fieldsDb.Field, planting: plantingsDb.Planting | null) => {
+  const savePlanting = async (req: Request, res: Response, field: registry.Field, planting: registry.Planting | null) => {
     const locals = await plantingFormLocals(req, field, planting, req.body ?? {});
     const parsed = parseForm(plantingInputSchema, plantingFormInput(req, field.id));
     if (!parsed.ok) return res.status(400).render('registry/planting-form', { ...locals, errors: renameErrors(parsed.errors) });
@@ -284,15 +281,15 @@ export function registryPages(ctx: AppContext): Router {
   };
 
   router.post('/registry/plantings', writers, async (req, res) => {
-    const field = await fieldsDb.getField(db, org(req), String(req.body?.fieldId ?? ''));
+    const field = await registry.getField(db, org(req), String(req.body?.fieldId ?? ''));
     if (!field) throw new HttpError('invalid', 'Choose one of your fields.', { fieldId: 'Choose one of your fields.' });
     await savePlanting(req, res, field, null);
   });
 
   const loadPlanting = async (req: Request) => {
-    const planting = await plantingsDb.getPlanting(db, org(req), String(req.params.id));
+    const planting = await registry.getPlanting(db, org(req), String(req.params.id));
     if (!planting) throw new HttpError('not_found');
-    const field = (await fieldsDb.getField(db, org(req), planting.fieldId))!;
+    const field = (await registry.getField(db, org(req), planting.fieldId))!;
     return { planting, field };
   };
 

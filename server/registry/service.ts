@@ -169,15 +169,10 @@ export async function updatePlanting(db: Knex, actor: Actor, id: string, changes
   });
 }
 // Single-query reads and writes the routes and pages use as they are (SQL stays in the db modules).
-export { listCrops } from './plantings-db';
-export { getField, listFields } from './fields-db';
+export { getPlanting, listCrops, listPlantings, varietySuggestions, type Planting } from './plantings-db';
+export { getField, listFields, type Field } from './fields-db';
 export { historyAuthors, listHistory } from './history-db';
-export * as fieldsDb from './fields-db';
-export * as plantingsDb from './plantings-db';
-export * as ranchesDb from './ranches-db';
-export { getPlanting, listPlantings } from './plantings-db';
-export { getRanch, listRanches, RANCH_SORTS, type Ranch, type RanchSort } from './ranches-db';
-export { ranchOptions } from './ranches-db';
+export { getRanch, listRanches, ranchOptions, RANCH_SORTS, type Ranch, type RanchSort } from './ranches-db';
 
 // Boundaries from a file --------------------------------------------------------------------------
 
