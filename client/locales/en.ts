@@ -43,7 +43,7 @@ export const en = {
     offlineHint: 'Everything you enter is kept on this phone.',
   },
   queue: {
-    boundary: 'Traced boundary, {{points}} positions',
+    boundary: 'Field outline traced, {{points}} positions',
     // What waits, "{{what}}" below: walks, traced boundaries (field outlines), or both.
     walks_one: '{{count}} walk',
     walks_other: '{{count}} walks',
