@@ -4,6 +4,7 @@ import {
   classify,
   createQueue,
   DEFAULT_BACKOFF,
+  hadToWait,
   newBoundaryJob,
   newJob,
   summarise,
@@ -188,6 +189,20 @@ describe('a new job', () => {
     };
     const traced = newBoundaryJob({ fieldId: 'field-9', body, userId: 'u1', label: { fieldName: 'North', ranchName: 'Ranch' }, now: 1_000 });
     expect(traced).toEqual({ ...start, id: uuid(4), kind: 'boundary', fieldId: 'field-9', body, photos: [] });
+  });
+});
+
+describe('which jobs had to wait (their arrival is said once the signal is back)', () => {
+  it('a failed try, a sign-in, or no signal on the phone; never one sent at once or already sent', () => {
+    const fresh = job(1, 0);
+    const failed = { ...fresh, attempts: 1, lastError: { status: 0, code: 'network', message: 'Failed to fetch' } };
+    const signin = { ...fresh, attention: 'signin' as const };
+    const sent = { ...fresh, state: 'done' as const, step: 'done' as const, doneAt: 5 };
+    expect(hadToWait(fresh, true)).toBe(false); // just queued with signal: it goes at once
+    expect(hadToWait(fresh, false)).toBe(true); // queued without signal, even if never tried (behind another)
+    expect(hadToWait(failed, true)).toBe(true);
+    expect(hadToWait(signin, true)).toBe(true);
+    expect(hadToWait(sent, false)).toBe(false);
   });
 });
 

@@ -81,6 +81,15 @@ export function summarise(jobs: readonly QueueJob[]): QueueSummary {
   return s;
 }
 
+/**
+ * Whether a job did not go at once, so that its arrival is worth saying: it failed to go, it waits
+ * for a sign-in, or it is kept while the phone has no signal (a job queued behind one that failed
+ * is never tried, so it has no error of its own).
+ */
+export function hadToWait(j: QueueJob, online: boolean): boolean {
+  return j.state !== 'done' && (j.lastError !== null || j.attention === 'signin' || !online);
+}
+
 /** What every new job starts as, walk or boundary: at its first step, nothing tried yet, due now. */
 export function freshJob(input: { id: string; userId: string; label: QueueJob['label']; now: number }): JobBase {
   return {

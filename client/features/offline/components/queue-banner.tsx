@@ -1,7 +1,7 @@
 import { lazy, Suspense, useEffect, useRef, useState } from 'react';
 import { useTranslation } from '../../../lib/i18n';
 import { loadOutbox, useOnline, useQueueJobs, useSendingId } from '../public';
-import { bucketOf, type QueueJob } from '../jobs';
+import { bucketOf, hadToWait, type QueueJob } from '../jobs';
 import { whatWaits } from '../words';
 
 // Shown only on a tap on Details: loaded then (precached for offline use), not with the first screen.
@@ -24,17 +24,16 @@ export function QueueBanner() {
   const signin = pending.filter((j) => bucketOf(j) === 'signin');
   const attention = pending.filter((j) => bucketOf(j) === 'attention');
 
-  // Walks seen waiting on this screen that have since reached the office: said once, until closed.
+  // Walks and outlines seen waiting on this screen that have since reached the office: said once, until closed.
   const seenWaiting = useRef(new Set<string>());
   const [arrived, setArrived] = useState<QueueJob[]>([]);
   useEffect(() => {
     const now = jobs.filter((j) => j.state === 'done' && seenWaiting.current.has(j.id));
     for (const j of now) seenWaiting.current.delete(j.id);
-    // Only walks that had failed to go (no signal, or a session to renew): a walk sent at once
-    // already has its own screen saying so.
-    for (const j of pending) if (j.lastError !== null || j.attention === 'signin') seenWaiting.current.add(j.id);
+    // Only those that did not go at once: a walk sent at once already has its own screen saying so.
+    for (const j of pending) if (hadToWait(j, online)) seenWaiting.current.add(j.id);
     if (now.length > 0) setArrived((a) => [...a, ...now]);
-  }, [jobs]);
+  }, [jobs, online]);
   const sentNote =
     arrived.length > 0 ? (
       <Suspense fallback={null}>
