@@ -46,7 +46,8 @@ describe('/capture without signal', () => {
     await page.getByRole('link', { name: 'Abrir el plan de recorrido de Bench 2' }).click();
     await page.getByRole('button', { name: 'Empezar el recorrido' }).click();
     await page.getByRole('heading', { name: 'Parada 1 de 10' }).waitFor();
-    const walkId = new URL(page.url()).pathname.split('/')[3];
+    const walkId = new URL(page.url()).pathname.split('/')[3]; // /capture/walks/:id
+    if (!walkId) throw new Error(`not on a walk: ${page.url()}`);
     const label = /Largo del tallo principal/;
     await page.getByLabel(label).fill('30');
     await page.getByRole('button', { name: /Siguiente/ }).click();

@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { screenshot, signIn, SUITE_PASSWORD, useServerAndBrowser } from '../helpers/browser';
+import { at } from '../helpers/lists';
 
 /**
  * The walk plan far from the field: one plain sentence with the distance, no "you are here" dot
@@ -24,7 +25,7 @@ async function benchOneCorners(): Promise<Array<[number, number]>> {
   const today = (await (await fetch(`${suite.server.url}/api/today?limit=500`, { headers: { cookie, accept: 'application/json' } })).json()) as Today;
   const b = today.items.find((i) => i.fieldName === 'Bench 1')!.boundary!;
   const rings = (b.type === 'Polygon' ? [b.coordinates] : b.coordinates) as Array<Array<Array<[number, number]>>>;
-  return rings.flatMap((poly) => poly[0]);
+  return rings.flatMap((poly) => at(poly, 0, 'outer ring'));
 }
 
 describe('/capture walk plan', () => {

@@ -51,9 +51,9 @@ interface StoredWalk {
 
 /** The walk id from /capture/walks/:id[/…]. */
 function walkIdOf(page: Page): string {
-  const m = new URL(page.url()).pathname.match(/\/capture\/walks\/([0-9a-f-]{36})/);
-  if (!m) throw new Error(`not on a walk: ${page.url()}`);
-  return m[1];
+  const id = new URL(page.url()).pathname.match(/\/capture\/walks\/([0-9a-f-]{36})/)?.[1];
+  if (!id) throw new Error(`not on a walk: ${page.url()}`);
+  return id;
 }
 
 /** Waits until the service worker controls the page (so it opens without signal). */
@@ -87,6 +87,7 @@ async function cameraJpeg(page: Page): Promise<Buffer> {
     }
     return c.toDataURL('image/jpeg', 0.95).split(',')[1];
   });
+  if (!b64) throw new Error('the page made no JPEG');
   return Buffer.from(b64, 'base64');
 }
 
@@ -149,9 +150,9 @@ describe('/capture on a phone', () => {
     await page.getByLabel('Take a photo').setInputFiles({ name: 'plant.jpg', mimeType: 'image/jpeg', buffer: await cameraJpeg(page) });
     await page.getByRole('img', { name: 'Photo of the plant at stop 1' }).waitFor();
 
-    const lengthsIn = ['31.5', '29', '33.25', '30', '28.5', '32', '34', '30.5', '31', '29.5'];
+    const lengthsIn = ['31.5', '29', '33.25', '30', '28.5', '32', '34', '30.5', '31', '29.5'] as const;
     const label = /Main shoot length/;
-    for (let k = 0; k < 4; k++) await typeLength(page, label, lengthsIn[k], /Next/);
+    for (const value of lengthsIn.slice(0, 4)) await typeLength(page, label, value, /Next/);
 
     // Stop 5: a slip of the finger (3 in among ~30 in) is questioned, not taken.
     await page.getByRole('heading', { name: 'Stop 5 of 10' }).waitFor();
@@ -170,7 +171,7 @@ describe('/capture on a phone', () => {
     await expect.poll(async () => (await page.getByTestId('biomass').textContent()) ?? '').toMatch(/lb\/ac$/);
     await screenshot(page, 'capture-entry');
 
-    for (let k = 5; k < 9; k++) await typeLength(page, label, lengthsIn[k], /Next/);
+    for (const value of lengthsIn.slice(5, 9)) await typeLength(page, label, value, /Next/);
     await page.getByRole('heading', { name: 'Stop 10 of 10' }).waitFor();
     await typeLength(page, label, lengthsIn[9], /Check and send/);
 
@@ -205,7 +206,7 @@ describe('/capture on a phone', () => {
     expect(stored.status).toBe(200);
     expect(stored.body.status).toBe('submitted');
     expect(stored.body.plants).toHaveLength(10);
-    expect(stored.body.plants[0].lengthCm).toBeCloseTo(31.5 * 2.54, 2);
+    expect(stored.body.plants[0]?.lengthCm).toBeCloseTo(31.5 * 2.54, 2);
     expect(stored.body.photos).toHaveLength(1);
     expect(stored.body.stage).toBe('Z31');
     expect(errors).toEqual([]);
@@ -238,9 +239,9 @@ describe('/capture on a phone', () => {
     await page.getByRole('heading', { name: 'Parada 1 de 10' }).waitFor();
     const walkId = walkIdOf(page);
 
-    const lengthsCm = ['78', '82,5', '75', '80', '84', '79', '77,5', '81', '83', '76'];
+    const lengthsCm = ['78', '82,5', '75', '80', '84', '79', '77,5', '81', '83', '76'] as const;
     const label = /Largo del tallo principal/;
-    for (let k = 0; k < 5; k++) await typeLength(page, label, lengthsCm[k], /Siguiente/);
+    for (const value of lengthsCm.slice(0, 5)) await typeLength(page, label, value, /Siguiente/);
     await page.getByRole('heading', { name: 'Parada 6 de 10' }).waitFor();
     // Half-typed value on stop 6: kept too.
     await page.getByLabel(label).fill('7');
@@ -267,7 +268,7 @@ describe('/capture on a phone', () => {
 
     await page.getByLabel(label).fill(lengthsCm[5]);
     await page.getByRole('button', { name: /Siguiente/ }).click();
-    for (let k = 6; k < 9; k++) await typeLength(page, label, lengthsCm[k], /Siguiente/);
+    for (const value of lengthsCm.slice(6, 9)) await typeLength(page, label, value, /Siguiente/);
     await typeLength(page, label, lengthsCm[9], /Revisar y enviar/);
     await page.getByRole('heading', { name: 'Revisar y enviar', level: 1 }).waitFor();
     await page.getByRole('button', { name: 'Enviar el recorrido' }).click();

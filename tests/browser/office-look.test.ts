@@ -17,10 +17,10 @@ async function box(l: Locator) {
   return b;
 }
 
-const style = (l: Locator, ...props: string[]) =>
+const style = <P extends string>(l: Locator, ...props: P[]) =>
   l.evaluate((el, names) => {
     const cs = getComputedStyle(el);
-    return Object.fromEntries(names.map((n) => [n, cs.getPropertyValue(n)]));
+    return Object.fromEntries(names.map((n) => [n, cs.getPropertyValue(n)])) as Record<P, string>; // one entry per name asked for
   }, props);
 
 /** The error style's colours, read off an element given the error class on the same page. */
@@ -137,7 +137,13 @@ describe('cautions and chips', () => {
     // The verdict chips of views/walks/_verdict.ejs (probes: the demo walks may not show every
     // verdict), beside the chip the flags use (views/walks/_flags.ejs).
     await page.goto(`${suite.server.url}/walks?status=all`);
-    const verdictClass = (verdict: string) => new RegExp(`class="([^"]+)" data-walk-verdict="${verdict}"`).exec(readFileSync('views/walks/_verdict.ejs', 'utf8'))![1];
+    /** The class attribute of the element `re` finds in a view. */
+    const viewClass = (view: string, re: RegExp) => {
+      const cls = re.exec(readFileSync(view, 'utf8'))?.[1];
+      if (cls === undefined) throw new Error(`${view} has no ${re}`);
+      return cls;
+    };
+    const verdictClass = (verdict: string) => viewClass('views/walks/_verdict.ejs', new RegExp(`class="([^"]+)" data-walk-verdict="${verdict}"`));
     const probe = (cls: string) => page.evaluate((c) => {
       const el = document.createElement('span');
       el.className = c;
@@ -148,7 +154,7 @@ describe('cautions and chips', () => {
       el.remove();
       return out;
     }, cls);
-    const flagClass = /class="([^"]+)" data-flag/.exec(readFileSync('views/walks/_flags.ejs', 'utf8'))![1];
+    const flagClass = viewClass('views/walks/_flags.ejs', /class="([^"]+)" data-flag/);
     const flag = await probe(flagClass);
     const chips = { flag, below: await probe(verdictClass('below')), meets: await probe(verdictClass('meets')) };
     expect(chips.flag.bg).not.toBe(chips.below.bg);
@@ -177,7 +183,7 @@ describe('screenshots to look at', () => {
   afterAll(async () => phone?.close());
   it('the phone header in English and Spanish', async () => {
     phone = await openBrowser({ viewport: { width: 390, height: 844 } });
-    for (const [email, lang] of [['sampler2@crowntip.test', 'en'], ['sampler@crowntip.test', 'es']]) {
+    for (const [email, lang] of [['sampler2@crowntip.test', 'en'], ['sampler@crowntip.test', 'es']] as const) {
       await phone.context.clearCookies();
       const page = await phone.context.newPage();
       await signIn(page, suite.server.url, email, SUITE_PASSWORD);

@@ -5,6 +5,7 @@ import path from 'node:path';
 import { randomUUID } from 'node:crypto';
 import { SUITE_PASSWORD, screenshot, signIn, useServerAndBrowser } from '../helpers/browser';
 import { openDatabase } from '../../server/platform/database';
+import { at } from '../helpers/lists';
 import { estimateSnapshot, ORG, userId } from '../helpers/register-scenario';
 import { seasonOfDate, seasonStartYear, seasonStarting, todayIso } from '../../shared/registry/season';
 
@@ -38,7 +39,7 @@ async function addApprovedWalks(dataDir: string) {
           walked_on: walkedOn < p.seeded_on ? p.seeded_on : walkedOn,
           status: 'approved',
           content_hash: 'browser-test',
-          estimate: JSON.stringify(estimateSnapshot(biomass[i % 5], 70 + (i % 5) * 4)),
+          estimate: JSON.stringify(estimateSnapshot(at(biomass, i % 5, 'biomass'), 70 + (i % 5) * 4)),
           created_at: now,
           reviewed_by: userId('clerk@crowntip.test'),
           reviewed_at: now,

@@ -1,6 +1,7 @@
 import { randomUUID } from 'node:crypto';
 import { describe, expect, it } from 'vitest';
 import { SUITE_PASSWORD, screenshot, signIn, useServerAndBrowser } from '../helpers/browser';
+import { at } from '../helpers/lists';
 import { DEMO_WALK_IDS } from '../../seeds/04_demo_walks';
 
 const PASSWORD = SUITE_PASSWORD;
@@ -22,10 +23,11 @@ async function sendWalkWithEvidence(): Promise<string> {
   const today = (await (await api.get(`${suite.server.url}/api/today`)).json()).items as {
     plantingId: string;
     crop: string;
-    boundary: { type: 'Polygon'; coordinates: number[][][] } | { type: 'MultiPolygon'; coordinates: number[][][][] } | null;
+    boundary: { type: 'Polygon'; coordinates: [number, number][][] } | { type: 'MultiPolygon'; coordinates: [number, number][][][] } | null;
   }[];
   const target = today.find((p) => p.boundary && (p.crop === 'cereal_rye' || p.crop === 'triticale'))!;
-  const ring = target.boundary!.type === 'Polygon' ? target.boundary!.coordinates[0] : target.boundary!.coordinates[0][0];
+  const boundary = target.boundary!;
+  const ring = at(boundary.type === 'Polygon' ? boundary.coordinates : at(boundary.coordinates, 0, 'part'), 0, 'outer ring');
   const [lon0, lon1] = [Math.min(...ring.map((c) => c[0])), Math.max(...ring.map((c) => c[0]))];
   const [lat0, lat1] = [Math.min(...ring.map((c) => c[1])), Math.max(...ring.map((c) => c[1]))];
   const lengths = [86.0, 79.5, 92.0, 81.0, 75.5, 89.0, 80.5, 131.0, 83.5, 78.0];
