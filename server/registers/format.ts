@@ -2,7 +2,7 @@ import { KG_PER_LB, cmToIn, haToAc, kgPerHaToLbPerAc } from '../../shared/calc/u
 import { CROP_LABELS } from '../../shared/registry/crops';
 import type { EligibilityReason } from '../../shared/calc/eligibility';
 import { DECISION_BASIS_WORDS, eligibilityReasonText } from '../../shared/format/messages';
-import { credit } from '../../shared/format/figures';
+import { credit, formatNumber } from '../../shared/format/figures';
 import { SHOOT_N_CAUTION, shootNitrogenText, verdictWord, walkBiomassText, walkVerdictReasonText, type WalkVerdictReasonData } from '../../shared/format/walk';
 import type { Verdict as WalkVerdictWord } from '../../shared/calc/verdict';
 import type { Units } from '../people/public';
@@ -30,9 +30,8 @@ export const CAUTIONS = [
 
 export const cropLabel = (crop: string | null) => (crop ? (CROP_LABELS as Record<string, string>)[crop] ?? crop : '—');
 
-/** Numbers in one unit system, for pages, the PDF and e-mails (en-US digits unless a locale is given). */
-export function registerUnits(units: Units, locale = 'en-US') {
-  const nf = (digits: number) => new Intl.NumberFormat(locale, { minimumFractionDigits: digits, maximumFractionDigits: digits });
+/** Numbers in one unit system, for pages, the PDF and e-mails, written by the shared formatter (shared/format/figures.ts). */
+export function registerUnits(units: Units) {
   const us = units === 'us';
   const f = {
     units,
@@ -40,18 +39,18 @@ export function registerUnits(units: Units, locale = 'en-US') {
     rateUnit: us ? 'lb/ac' : 'kg/ha',
     lengthUnit: us ? 'in' : 'cm',
     massUnit: us ? 'lb N' : 'kg N',
-    num: (n: number, digits = 0) => nf(digits).format(n),
-    area: (ha: number | null | undefined, digits = 1) => (ha == null ? '—' : `${nf(digits).format(us ? haToAc(ha) : ha)} ${us ? 'ac' : 'ha'}`),
-    rate: (kgHa: number | null | undefined) => (kgHa == null ? '—' : `${nf(0).format(us ? kgPerHaToLbPerAc(kgHa) : kgHa)} ${us ? 'lb/ac' : 'kg/ha'}`),
-    rateNumber: (kgHa: number) => nf(0).format(us ? kgPerHaToLbPerAc(kgHa) : kgHa),
-    length: (cm: number | null | undefined) => (cm == null ? '—' : `${nf(1).format(us ? cmToIn(cm) : cm)} ${us ? 'in' : 'cm'}`),
+    num: (n: number, digits = 0) => formatNumber(n, digits),
+    area: (ha: number | null | undefined, digits = 1) => (ha == null ? '—' : `${formatNumber(us ? haToAc(ha) : ha, digits)} ${us ? 'ac' : 'ha'}`),
+    rate: (kgHa: number | null | undefined) => (kgHa == null ? '—' : `${formatNumber(us ? kgPerHaToLbPerAc(kgHa) : kgHa, 0)} ${us ? 'lb/ac' : 'kg/ha'}`),
+    rateNumber: (kgHa: number) => formatNumber(us ? kgPerHaToLbPerAc(kgHa) : kgHa, 0),
+    length: (cm: number | null | undefined) => (cm == null ? '—' : `${formatNumber(us ? cmToIn(cm) : cm, 1)} ${us ? 'in' : 'cm'}`),
     /** kg of nitrogen, or pounds in US units, whole units as the shared formatter writes credits everywhere (table, chart, PDF, e-mail). */
     massN: (kg: number | null | undefined) => (kg == null ? '—' : credit(kg, units).full),
     massNumber: (kg: number) => credit(kg, units).text,
     /** kg N as a plain number in the user's unit (lb N in US units), for charts. */
     massValue: (kg: number) => (us ? kg / KG_PER_LB : kg),
     /** Credit per area, e.g. "50.0 lb N/ac". */
-    creditRate: (kgHa: number) => `${nf(1).format(us ? kgPerHaToLbPerAc(kgHa) : kgHa)} ${us ? 'lb N/ac' : 'kg N/ha'}`,
+    creditRate: (kgHa: number) => `${formatNumber(us ? kgPerHaToLbPerAc(kgHa) : kgHa, 1)} ${us ? 'lb N/ac' : 'kg N/ha'}`,
   };
   return {
     ...f,
