@@ -200,8 +200,10 @@ interface Column {
 }
 
 const yieldToLoop = () => new Promise<void>((resolve) => setImmediate(resolve));
+/** Longest stretch of PDF writing between two turns of the event loop, so a building server keeps answering. */
+const YIELD_EVERY_MS = 15;
 
-/** One PDF for one or many registers; yields to the event loop every 100 rows so a server stays responsive. */
+/** One PDF for one or many registers; lets the event loop run every YIELD_EVERY_MS so a server stays responsive. */
 export async function registerPdf(docs: RegisterDoc[], opts: PdfOptions): Promise<Buffer> {
   const u = registerUnits(opts.units);
   const pdf = new PDFDocument({
@@ -231,6 +233,17 @@ export async function registerPdf(docs: RegisterDoc[], opts: PdfOptions): Promis
   const width = () => pdf.page.width - 72;
   const bottom = () => pdf.page.height - pdf.page.margins.bottom;
 
+  // The walk's verdict of the row being written, worked out once for its three cells.
+  let verdictRow: RegisterRow | null = null;
+  let verdict: ReturnType<typeof walkVerdictOfRow> = null;
+  const verdictOf = (r: RegisterRow) => {
+    if (r !== verdictRow) {
+      verdictRow = r;
+      verdict = current && r.walk ? walkVerdictOfRow(r, current.rule) : null;
+    }
+    return verdict;
+  };
+
   const columns: Column[] = [
     { title: 'Field', share: 14, cell: (r) => r.fieldName, wrap: true },
     { title: `Area (${u.areaUnit})`, share: 5.5, align: 'right', cell: (r) => u.num(opts.units === 'us' ? haToAc(r.areaHa) : r.areaHa, 1) },
@@ -244,9 +257,12 @@ export async function registerPdf(docs: RegisterDoc[], opts: PdfOptions): Promis
     {
       title: 'Walk verdict',
       share: 6.5,
-      cell: (r) => (current && r.walk ? (walkVerdictOfRow(r, current.rule)?.word ?? '—') : '—'),
-      color: (r) => (current && r.walk ? WALK_VERDICT_INK[walkVerdictOfRow(r, current.rule)!.verdict] : null),
-      bold: (r) => Boolean(current && r.walk && walkVerdictOfRow(r, current.rule)!.verdict !== 'borderline'),
+      cell: (r) => verdictOf(r)?.word ?? '—',
+      color: (r) => {
+        const v = verdictOf(r);
+        return v ? WALK_VERDICT_INK[v.verdict] : null;
+      },
+      bold: (r) => Boolean(verdictOf(r) && verdictOf(r)!.verdict !== 'borderline'),
     },
     { title: `N in shoots* (${opts.units === 'us' ? 'lb N/ac' : 'kg N/ha'})`, share: 8, cell: (r) => (r.walk?.shootN ? u.shootN(r).replace(/ (lb|kg) N\/(ac|ha)/, '') : '—') },
     { title: 'Credit status', share: 8.5, cell: (r) => VERDICT_LABELS[r.verdict] },
@@ -271,6 +287,16 @@ export async function registerPdf(docs: RegisterDoc[], opts: PdfOptions): Promis
     while (s.length > 1 && pdf.widthOfString(`${s}…`) > w) s = s.slice(0, -1);
     return `${s}…`;
   };
+  const fitsOneLine = (text: string, w: number) => !text.includes('\n') && pdf.widthOfString(text) <= w;
+  /**
+   * One line of a table cell placed by its own width: pdfkit's line wrapper (made afresh for every
+   * text with a width) is most of a large register's writing time, and a cell that fits needs none.
+   */
+  const oneLine = (text: string, x: number, y: number, w: number, align: 'left' | 'right') => {
+    pdf.text(text, align === 'right' ? x + w - pdf.widthOfString(text.trimEnd()) : x, y, { lineBreak: false });
+  };
+  /** Height of a cell that may wrap: one line's height when it fits, else what pdfkit's wrapping takes. */
+  const cellHeight = (text: string, w: number) => (fitsOneLine(text, w) ? pdf.currentLineHeight(true) : pdf.heightOfString(text, { width: w }));
 
   // Every page records the register it belongs to (also pages pdfkit adds for a long paragraph).
   pdf.on('pageAdded', () => headers.push(current));
@@ -313,7 +339,7 @@ export async function registerPdf(docs: RegisterDoc[], opts: PdfOptions): Promis
     for (const c of CAUTIONS) para(c, 9, MUTED);
   }
 
-  let written = 0;
+  let lastYield = performance.now();
   for (const doc of docs) {
     newPage(doc);
     heading(`Credit register · ${doc.ranch.name} · ${doc.year}`, 15);
@@ -337,7 +363,8 @@ export async function registerPdf(docs: RegisterDoc[], opts: PdfOptions): Promis
       const whyW = left + width() - whyX - 2;
       const rowFont = r.verdict === 'eligible' ? 'Lato-Bold' : 'Lato';
       pdf.font(rowFont).fontSize(FIELD_ROW_FONT);
-      const cellsH = Math.max(10, ...columns.map((c, i) => (c.wrap ? pdf.heightOfString(c.cell(r), { width: xs[i]!.w - 4 }) + 1 : 0)));
+      const cells = columns.map((c) => c.cell(r));
+      const cellsH = Math.max(10, ...columns.map((c, i) => (c.wrap ? cellHeight(cells[i]!, xs[i]!.w - 4) + 1 : 0)));
       const rowH = cellsH + (why ? pdf.fontSize(6.8).heightOfString(why, { width: whyW }) + 2 : 0);
       ensure(rowH + 3, true);
       const y = pdf.y;
@@ -345,15 +372,20 @@ export async function registerPdf(docs: RegisterDoc[], opts: PdfOptions): Promis
       columns.forEach((c, i) => {
         const bold = c.bold ? c.bold(r) : rowFont === 'Lato-Bold';
         pdf.font(bold ? 'Lato-Bold' : 'Lato').fillColor(c.color?.(r) ?? INK);
-        if (c.wrap) pdf.text(c.cell(r), xs[i]!.x + 2, y, { width: xs[i]!.w - 4, align: c.align ?? 'left' });
-        else pdf.text(fit(c.cell(r), xs[i]!.w - 4), xs[i]!.x + 2, y, { width: xs[i]!.w - 4, align: c.align ?? 'left', lineBreak: false });
+        const w = xs[i]!.w - 4;
+        const text = c.wrap ? cells[i]! : fit(cells[i]!, w);
+        if (c.wrap && !fitsOneLine(text, w)) pdf.text(text, xs[i]!.x + 2, y, { width: w, align: c.align ?? 'left' });
+        else oneLine(text, xs[i]!.x + 2, y, w, c.align ?? 'left');
       });
       if (why) pdf.font('Lato').fontSize(6.8).fillColor(MUTED).text(why, whyX, y + cellsH, { width: whyW });
       pdf.y = y + rowH;
       pdf.moveTo(left, pdf.y + 1).lineTo(left + width(), pdf.y + 1).lineWidth(0.4).strokeColor(RULE).stroke();
       pdf.y += 3;
       opts.onRow?.();
-      if (++written % 100 === 0) await yieldToLoop();
+      if (performance.now() - lastYield > YIELD_EVERY_MS) {
+        await yieldToLoop();
+        lastYield = performance.now();
+      }
     }
     if (!doc.rows.length) para('This ranch has no fields.', 9);
 

@@ -38,6 +38,8 @@ declare module 'pdfkit' {
     text(text: string, x?: number, y?: number, options?: TextOptions): this;
     widthOfString(text: string, options?: TextOptions): number;
     heightOfString(text: string, options?: TextOptions): number;
+    /** Height of one line in the current font and size; with `includeGap`, the line gap too. */
+    currentLineHeight(includeGap?: boolean): number;
     moveDown(lines?: number): this;
     moveTo(x: number, y: number): this;
     lineTo(x: number, y: number): this;
