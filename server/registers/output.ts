@@ -1,4 +1,5 @@
 import { createRequire } from 'node:module';
+import fs from 'node:fs';
 import path from 'node:path';
 import PDFDocument from 'pdfkit';
 import { KG_PER_LB, cmToIn, haToAc, kgPerHaToLbPerAc } from '../../shared/calc/units';
@@ -6,6 +7,7 @@ import { toCsv } from '../platform/csv-safe';
 import { SHOOT_N_CAUTION } from '../../shared/format/walk';
 import { date, dateTime } from '../../shared/format/figures';
 import type { Units } from '../people/public';
+import { woffToSfnt } from './woff';
 import { CAUTIONS, VERDICT_LABELS, cropLabel, registerUnits, shortId, walkVerdictOfRow, type RegisterDoc, type RegisterUnits } from './format';
 import type { RegisterRow, RegisterTotals } from './service';
 
@@ -166,8 +168,13 @@ export function registerCsv(docs: RegisterDoc[], units: Units = 'us'): string {
 
 const require = createRequire(import.meta.url);
 const LATO_DIR = path.join(path.dirname(require.resolve('@fontsource/lato/package.json')), 'files');
-const LATO = path.join(LATO_DIR, 'lato-latin-400-normal.woff');
-const LATO_BOLD = path.join(LATO_DIR, 'lato-latin-700-normal.woff');
+// Unpacked once per process and kept (woff.ts says why): about 150 KB for the two.
+let lato: { regular: Buffer; bold: Buffer } | undefined;
+const latoFonts = () =>
+  (lato ??= {
+    regular: woffToSfnt(fs.readFileSync(path.join(LATO_DIR, 'lato-latin-400-normal.woff'))),
+    bold: woffToSfnt(fs.readFileSync(path.join(LATO_DIR, 'lato-latin-700-normal.woff'))),
+  });
 
 export type Paper = 'a4' | 'letter';
 
@@ -218,8 +225,8 @@ export async function registerPdf(docs: RegisterDoc[], opts: PdfOptions): Promis
       Subject: 'Nitrogen scavenging credit register',
     },
   });
-  pdf.registerFont('Lato', LATO);
-  pdf.registerFont('Lato-Bold', LATO_BOLD);
+  pdf.registerFont('Lato', latoFonts().regular);
+  pdf.registerFont('Lato-Bold', latoFonts().bold);
   const chunks: Buffer[] = [];
   pdf.on('data', (c: Buffer) => chunks.push(c));
   const ended = new Promise<void>((resolve, reject) => {
@@ -365,7 +372,8 @@ export async function registerPdf(docs: RegisterDoc[], opts: PdfOptions): Promis
       pdf.font(rowFont).fontSize(FIELD_ROW_FONT);
       const cells = columns.map((c) => c.cell(r));
       const cellsH = Math.max(10, ...columns.map((c, i) => (c.wrap ? cellHeight(cells[i]!, xs[i]!.w - 4) + 1 : 0)));
-      const rowH = cellsH + (why ? pdf.fontSize(6.8).heightOfString(why, { width: whyW }) + 2 : 0);
+      if (why) pdf.fontSize(6.8);
+      const rowH = cellsH + (why ? cellHeight(why, whyW) + 2 : 0);
       ensure(rowH + 3, true);
       const y = pdf.y;
       pdf.font(rowFont).fontSize(FIELD_ROW_FONT).fillColor(INK);
@@ -377,7 +385,11 @@ export async function registerPdf(docs: RegisterDoc[], opts: PdfOptions): Promis
         if (c.wrap && !fitsOneLine(text, w)) pdf.text(text, xs[i]!.x + 2, y, { width: w, align: c.align ?? 'left' });
         else oneLine(text, xs[i]!.x + 2, y, w, c.align ?? 'left');
       });
-      if (why) pdf.font('Lato').fontSize(6.8).fillColor(MUTED).text(why, whyX, y + cellsH, { width: whyW });
+      if (why) {
+        pdf.font('Lato').fontSize(6.8).fillColor(MUTED);
+        if (fitsOneLine(why, whyW)) oneLine(why, whyX, y + cellsH, whyW, 'left');
+        else pdf.text(why, whyX, y + cellsH, { width: whyW });
+      }
       pdf.y = y + rowH;
       pdf.moveTo(left, pdf.y + 1).lineTo(left + width(), pdf.y + 1).lineWidth(0.4).strokeColor(RULE).stroke();
       pdf.y += 3;

@@ -29,7 +29,7 @@ declare module 'pdfkit' {
     on(event: 'data', listener: (chunk: Buffer) => void): this;
     on(event: 'end' | 'pageAdded', listener: () => void): this;
     on(event: 'error', listener: (err: Error) => void): this;
-    registerFont(name: string, src: string): this;
+    registerFont(name: string, src: string | Buffer): this;
     font(name: string): this;
     fontSize(size: number): this;
     fillColor(color: string): this;
