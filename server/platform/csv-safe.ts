@@ -25,6 +25,8 @@ export type CsvRow = readonly unknown[] | Readonly<Record<string, unknown>>;
 export interface CsvOptions {
   /** Start with a UTF-8 byte order mark so that Excel reads accents right (default true). */
   bom?: boolean;
+  /** Write the header line (default true); false to append rows to a CSV already begun. */
+  header?: boolean;
 }
 
 /**
@@ -33,7 +35,7 @@ export interface CsvOptions {
  * needed (also around semicolons, so a semicolon-locale spreadsheet does not split the cell).
  */
 export function toCsv(rows: readonly CsvRow[], header: readonly string[], options: CsvOptions = {}): string {
-  const records: string[][] = [header.map(safeCsvCell)];
+  const records: string[][] = options.header === false ? [] : [header.map(safeCsvCell)];
   for (const row of rows) {
     const cells = Array.isArray(row) ? row : header.map((h) => (row as Record<string, unknown>)[h]);
     records.push(cells.map(safeCsvCell));

@@ -7,7 +7,7 @@ import { approvedWalksFor, countFields, registerRanches } from './inputs-db';
 import { getRegister, latestRegistersOfYear } from './db';
 import { creditRuleForYear } from '../rules/public';
 import { asDraft, asFinal, registerUnits, type RegisterDoc } from './format';
-import { registerCsv, registerPdf } from './output';
+import { registerCsvInSteps, registerPdf } from './output';
 import {
   assembleRegister,
   parseStored,
@@ -141,7 +141,7 @@ export function createRegisterJobs(opts: RegisterJobsOptions) {
     const computedAt = now();
     p.phase = 'writing';
     await report(true);
-    const csv = registerCsv(docs, units);
+    const csv = await registerCsvInSteps(docs, units, yieldToLoop);
     const csvAt = now();
     const totals = summarise(docs.flatMap((d) => d.rows));
     const u = registerUnits(units);

@@ -156,13 +156,21 @@ function csvTotals(doc: RegisterDoc, t: RegisterTotals): unknown[] {
  */
 export function registerCsv(docs: RegisterDoc[], units: Units = 'us'): string {
   const u = registerUnits(units);
-  const rows: unknown[][] = [];
-  for (const d of docs) {
-    for (const r of d.rows) rows.push(csvRow(d, r, u));
-    rows.push(csvTotals(d, d.totals));
-  }
-  return toCsv(rows, REGISTER_CSV_COLUMNS);
+  return toCsv(docs.flatMap((d) => csvRowsOf(d, u)), REGISTER_CSV_COLUMNS);
 }
+
+/** The same CSV written one register at a time, letting the event loop run between them (a building server keeps answering). */
+export async function registerCsvInSteps(docs: RegisterDoc[], units: Units, between: () => Promise<void>): Promise<string> {
+  const u = registerUnits(units);
+  const parts = [toCsv([], REGISTER_CSV_COLUMNS)];
+  for (const d of docs) {
+    parts.push(toCsv(csvRowsOf(d, u), REGISTER_CSV_COLUMNS, { bom: false, header: false }));
+    await between();
+  }
+  return parts.join('');
+}
+
+const csvRowsOf = (d: RegisterDoc, u: RegisterUnits) => [...d.rows.map((r) => csvRow(d, r, u)), csvTotals(d, d.totals)];
 
 // ---- PDF ----
 
