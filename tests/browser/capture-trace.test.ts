@@ -74,6 +74,8 @@ describe('tracing a boundary on the phone', () => {
     await page.getByRole('button', { name: 'Send to the office' }).click();
     await page.getByTestId('trace-sent').waitFor();
     expect(await page.getByTestId('trace-sent-state').innerText()).toBe('In the outbox: no signal, it will be sent on its own when the signal is back.');
+    // The outbox banner names what waits: a field outline, not a walk.
+    expect(await page.getByTestId('queue-banner').innerText()).toContain('No signal: 1 field outline waiting to send');
     await screenshot(page, 'trace-sent-offline-en');
     keep('trace-sent-offline-en');
 
