@@ -1,7 +1,7 @@
 import { randomUUID } from 'node:crypto';
 import type { Knex } from 'knex';
 import { inOrganisation, nowIso } from '../platform/scope';
-import { jsonValue } from '../platform/json-column';
+import { jsonValue } from '../platform/column-values';
 
 export interface OutboxMessage {
   id: string;

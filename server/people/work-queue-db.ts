@@ -1,6 +1,6 @@
 import type { Knex } from 'knex';
 import { addDaysIso } from '../../shared/registry/season';
-import { jsonValue } from '../platform/json-column';
+import { jsonValue } from '../platform/column-values';
 
 /*
  * The office home's work queue: what the office has to do next, each with its count, the oldest

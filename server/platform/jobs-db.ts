@@ -1,5 +1,5 @@
 import type { Knex } from 'knex';
-import { jsonValue } from './json-column';
+import { jsonValue } from './column-values';
 
 /*
  * The jobs table: one row per background job with its state, progress, result and files, read

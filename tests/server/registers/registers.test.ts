@@ -7,7 +7,7 @@ import { extractText, getDocumentProxy } from 'unpdf';
 import { createTestApp, csrfFromHtml, signInApi, signInPages, type TestApp, locationOf } from '../../helpers/app';
 import { ORG, OTHER_ORG, YEAR, buildHandWorkedScenario, insertField, insertRanch } from '../../helpers/register-scenario';
 import { HttpError } from '../../../server/platform/errors';
-import { jsonValue } from '../../../server/platform/json-column';
+import { jsonValue } from '../../../server/platform/column-values';
 import { computeRegister, finaliseRegister, canonicalJson, seasonOfYear, reportingYearOf } from '../../../server/registers/service';
 import { diffRegisters } from '../../../server/registers/diff';
 import { keyringOf } from '../../../server/registers/signing';
