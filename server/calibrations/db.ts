@@ -2,6 +2,7 @@ import { randomUUID } from 'node:crypto';
 import type { Knex } from 'knex';
 import type { Fit, ModelKind } from '../../shared/calc';
 import { inOrganisation, nowIso } from '../platform/scope';
+import { flag, isoTime, jsonValue } from '../platform/column-values';
 import type { Assignment, BiomassUnit, Calibration, CalibrationStatus, Dataset, DatasetPoint, LengthUnit } from './types';
 
 export * from './types';
@@ -10,7 +11,6 @@ export * from './types';
 // '' in storage means "not given" (see the migration); null at this edge.
 const blankToNull = (v: unknown) => (typeof v === 'string' && v !== '' ? v : null);
 const nullToBlank = (v: string | null | undefined) => (v ?? '').trim();
-const iso = (v: unknown) => (v == null ? null : v instanceof Date ? v.toISOString() : String(v));
 const num = (v: unknown) => (v == null ? null : Number(v));
 
 // Uploads waiting for preview -----------------------------------------------------------------
@@ -45,9 +45,16 @@ export async function insertUpload(db: Knex, organisationId: string, upload: { u
 
 export async function getUpload(db: Knex, organisationId: string, id: string): Promise<Upload | undefined> {
   const r = await inOrganisation(db, 'calibration_uploads', organisationId).where('id', id).first();
-  if (!r) return undefined;
-  return { id: r.id, fileName: r.file_name, content: r.content, byteSize: Number(r.byte_size), createdAt: iso(r.created_at)! };
+  return r ? toUpload(r) : undefined;
 }
+
+const toUpload = (r: Record<string, unknown>): Upload => ({
+  id: r.id as string,
+  fileName: r.file_name as string,
+  content: r.content as string,
+  byteSize: Number(r.byte_size),
+  createdAt: isoTime(r.created_at)!,
+});
 
 export async function deleteUpload(db: Knex, organisationId: string, id: string): Promise<void> {
   await inOrganisation(db, 'calibration_uploads', organisationId).where('id', id).delete();
@@ -85,19 +92,21 @@ export async function getDataset(db: Knex, organisationId: string, id: string): 
     .leftJoin('users', 'users.id', 'calibration_datasets.uploaded_by')
     .where('calibration_datasets.id', id)
     .first('calibration_datasets.*', 'users.name as uploaded_by_name');
-  if (!r) return undefined;
-  return {
-    id: r.id,
-    name: r.name,
-    fileName: r.file_name ?? null,
-    lengthUnit: r.length_unit,
-    biomassUnit: r.biomass_unit,
-    rowCount: Number(r.row_count),
-    points: JSON.parse(r.points),
-    uploadedByName: r.uploaded_by_name ?? null,
-    createdAt: iso(r.created_at)!,
-  };
+  return r ? toDataset(r) : undefined;
 }
+
+/** A calibration_datasets row, with its uploader's name, as a data set. */
+const toDataset = (r: Record<string, unknown>): Dataset => ({
+  id: r.id as string,
+  name: r.name as string,
+  fileName: (r.file_name as string) ?? null,
+  lengthUnit: r.length_unit as LengthUnit,
+  biomassUnit: r.biomass_unit as BiomassUnit,
+  rowCount: Number(r.row_count),
+  points: jsonValue<DatasetPoint[]>(r.points) ?? [],
+  uploadedByName: (r.uploaded_by_name as string) ?? null,
+  createdAt: isoTime(r.created_at)!,
+});
 
 async function datasetInUse(db: Knex, organisationId: string, datasetId: string): Promise<boolean> {
   return Boolean(await inOrganisation(db, 'calibrations', organisationId).where('dataset_id', datasetId).first('id'));
@@ -183,20 +192,20 @@ function toCalibration(r: Record<string, unknown>): Calibration {
     version: num(r.version),
     label: (r.label as string) ?? null,
     model: (r.model as ModelKind) ?? null,
-    fit: r.fit ? (JSON.parse(r.fit as string) as Fit) : null,
+    fit: jsonValue<Fit>(r.fit),
     n: Number(r.n),
     rSquared: num(r.r_squared),
     residualStdError: num(r.residual_std_error),
     looRmse: num(r.loo_rmse),
     xRange: [Number(r.x_min), Number(r.x_max)],
     createdByName: (r.created_by_name as string) ?? null,
-    createdAt: iso(r.created_at)!,
-    updatedAt: iso(r.updated_at)!,
+    createdAt: isoTime(r.created_at)!,
+    updatedAt: isoTime(r.updated_at)!,
     publishedByName: (r.published_by_name as string) ?? null,
-    publishedAt: iso(r.published_at),
+    publishedAt: isoTime(r.published_at),
     retiredByName: (r.retired_by_name as string) ?? null,
-    retiredAt: iso(r.retired_at),
-    assigned: Number(r.is_assigned) === 1,
+    retiredAt: isoTime(r.retired_at),
+    assigned: flag(r.is_assigned),
   };
 }
 
@@ -313,7 +322,7 @@ function toAssignment(r: Record<string, unknown>): Assignment {
     calibrationVariety: blankToNull(r.calibration_variety),
     calibrationRegion: blankToNull(r.calibration_region),
     assignedByName: (r.assigned_by_name as string) ?? null,
-    assignedAt: iso(r.assigned_at)!,
+    assignedAt: isoTime(r.assigned_at)!,
   };
 }
 

@@ -2,10 +2,9 @@ import type { Knex } from 'knex';
 import type { Boundary } from '../../shared/registry/boundary';
 import type { BoundaryProposal } from '../../shared/schemas/boundary-proposals';
 import { inOrganisation } from '../platform/scope';
+import { isoTime, jsonValue } from '../platform/column-values';
 
 /* Boundaries traced on the phone, waiting for the office (migrations/20261202062741_field_boundary_proposals.ts). */
-
-const iso = (v: unknown) => (v == null ? null : v instanceof Date ? v.toISOString() : String(v));
 
 export interface ProposalRecord extends BoundaryProposal {
   contentHash: string;
@@ -14,15 +13,15 @@ export interface ProposalRecord extends BoundaryProposal {
 const toProposal = (r: Record<string, unknown>): ProposalRecord => ({
   id: r.id as string,
   fieldId: r.field_id as string,
-  boundary: JSON.parse(r.boundary as string) as Boundary,
+  boundary: jsonValue<Boundary>(r.boundary)!,
   areaHa: Number(r.area_ha),
   pointsRecorded: Number(r.points_recorded),
   medianAccuracyM: r.median_accuracy_m == null ? null : Number(r.median_accuracy_m),
   status: r.status as BoundaryProposal['status'],
   proposedBy: { id: (r.proposed_by as string) ?? null, name: r.proposed_by_name as string },
-  proposedAt: iso(r.proposed_at)!,
+  proposedAt: isoTime(r.proposed_at)!,
   decidedBy: r.decided_by_name ? { id: (r.decided_by as string) ?? null, name: r.decided_by_name as string } : null,
-  decidedAt: iso(r.decided_at),
+  decidedAt: isoTime(r.decided_at),
   declineReason: (r.decline_reason as string) ?? null,
   contentHash: r.content_hash as string,
 });

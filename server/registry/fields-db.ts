@@ -2,6 +2,7 @@ import { randomUUID } from 'node:crypto';
 import type { Knex } from 'knex';
 import type { Boundary } from '../../shared/registry/boundary';
 import { inOrganisation, nowIso } from '../platform/scope';
+import { jsonValue } from '../platform/column-values';
 
 export interface Field {
   id: string;
@@ -34,7 +35,7 @@ function toField(r: FieldRow): Field {
     ranchName: r.ranch_name as string,
     name: r.name as string,
     areaHa: Number(r.area_ha),
-    boundary: r.boundary ? (JSON.parse(r.boundary as string) as Boundary) : null,
+    boundary: jsonValue<Boundary>(r.boundary),
     boundaryAreaHa: r.boundary_area_ha == null ? null : Number(r.boundary_area_ha),
     notes: (r.notes as string) ?? null,
     createdAt: r.created_at as string,

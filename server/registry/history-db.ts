@@ -1,5 +1,6 @@
 import type { Knex } from 'knex';
 import { inOrganisation, nowIso } from '../platform/scope';
+import { jsonValue } from '../platform/column-values';
 
 export type EntityType = 'ranch' | 'field' | 'planting';
 export type ChangeAction = 'create' | 'update' | 'delete' | 'import';
@@ -27,37 +28,29 @@ export interface ChangeWrite {
   summary: string;
 }
 
+/** A change as its change_history row, stamped `at`. */
+const changeRow = (organisationId: string, c: ChangeWrite, at: string) => ({
+  organisation_id: organisationId,
+  entity_type: c.entityType,
+  entity_id: c.entityId,
+  action: c.action,
+  user_id: c.user?.id ?? null,
+  user_name: c.user?.name ?? null,
+  at,
+  before: c.before ? JSON.stringify(c.before) : null,
+  after: c.after ? JSON.stringify(c.after) : null,
+  summary: c.summary.slice(0, 500),
+});
+
 /** Appends one entry. There is no update or delete function: the history is append-only. */
 export async function appendChange(db: Knex, organisationId: string, c: ChangeWrite): Promise<void> {
-  await db('change_history').insert({
-    organisation_id: organisationId,
-    entity_type: c.entityType,
-    entity_id: c.entityId,
-    action: c.action,
-    user_id: c.user?.id ?? null,
-    user_name: c.user?.name ?? null,
-    at: nowIso(),
-    before: c.before ? JSON.stringify(c.before) : null,
-    after: c.after ? JSON.stringify(c.after) : null,
-    summary: c.summary.slice(0, 500),
-  });
+  await db('change_history').insert(changeRow(organisationId, c, nowIso()));
 }
 
 /** Appends many entries in order, 500 per statement (an import's). */
 export async function appendChanges(db: Knex, organisationId: string, changes: ChangeWrite[]): Promise<void> {
   const at = nowIso();
-  const rows = changes.map((c) => ({
-    organisation_id: organisationId,
-    entity_type: c.entityType,
-    entity_id: c.entityId,
-    action: c.action,
-    user_id: c.user?.id ?? null,
-    user_name: c.user?.name ?? null,
-    at,
-    before: c.before ? JSON.stringify(c.before) : null,
-    after: c.after ? JSON.stringify(c.after) : null,
-    summary: c.summary.slice(0, 500),
-  }));
+  const rows = changes.map((c) => changeRow(organisationId, c, at));
   for (let i = 0; i < rows.length; i += 500) await db('change_history').insert(rows.slice(i, i + 500));
 }
 
@@ -80,8 +73,8 @@ const toEntry = (r: Record<string, unknown>): ChangeEntry => ({
   userId: (r.user_id as string) ?? null,
   userName: (r.user_name as string) ?? null,
   at: r.at as string,
-  before: r.before ? JSON.parse(r.before as string) : null,
-  after: r.after ? JSON.parse(r.after as string) : null,
+  before: jsonValue(r.before),
+  after: jsonValue(r.after),
   summary: r.summary as string,
 });
 
@@ -128,6 +121,6 @@ export async function registryChangesAfter(db: Knex, organisationId: string, at:
     at: new Date(r.at as string | Date).toISOString(), // a string on SQLite, a Date on PostgreSQL
     entityType: r.entity_type as EntityType,
     entityId: r.entity_id as string,
-    before: r.before ? (JSON.parse(r.before as string) as Record<string, unknown>) : null,
+    before: jsonValue<Record<string, unknown>>(r.before),
   }));
 }

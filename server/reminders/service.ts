@@ -3,6 +3,7 @@ import type { Mailer } from '../mail/public';
 import { addDaysIso } from '../../shared/registry/season';
 import { cropName } from '../../shared/registry/crops';
 import { date } from '../../shared/format/figures';
+import { isoDay } from '../platform/column-values';
 import { activeAssignees, allWalkAssignments, assignedPlantingsDue, plantingsEndingWithoutApprovedWalk } from './db';
 
 export interface ReminderItem {
@@ -15,8 +16,6 @@ export interface ReminderItem {
   /** The assignment's due-by date, when the sampler was asked to walk it by a day. */
   dueOn: string | null;
 }
-
-const day = (v: unknown) => (v ? String(v).slice(0, 10) : null);
 
 export interface ReminderResult {
   messages: number;
@@ -48,10 +47,10 @@ export async function dueForReminder(db: Knex, today: string, daysAhead: number)
       const items: ReminderItem[] = hasAssignments.has(s.id)
         ? assignedDue
             .filter((p) => p.sampler_id === s.id && p.organisation_id === s.organisation_id)
-            .map((p) => ({ plantingId: p.id, ranchName: p.ranch_name, fieldName: p.field_name, crop: p.crop, terminationOn: day(p.planned_termination_on), dueOn: day(p.due_on) }))
+            .map((p) => ({ plantingId: p.id, ranchName: p.ranch_name, fieldName: p.field_name, crop: p.crop, terminationOn: isoDay(p.planned_termination_on), dueOn: isoDay(p.due_on) }))
         : plantings
             .filter((p) => p.organisation_id === s.organisation_id)
-            .map((p) => ({ plantingId: p.id, ranchName: p.ranch_name, fieldName: p.field_name, crop: p.crop, terminationOn: day(p.planned_termination_on), dueOn: null }));
+            .map((p) => ({ plantingId: p.id, ranchName: p.ranch_name, fieldName: p.field_name, crop: p.crop, terminationOn: isoDay(p.planned_termination_on), dueOn: null }));
       items.sort((a, b) => when(a).localeCompare(when(b)));
       return { sampler: s, items };
     })

@@ -1,4 +1,5 @@
 import type { Knex } from 'knex';
+import { flag, isoDay } from '../platform/column-values';
 
 /*
  * Reads behind the office's assignment pages: a planting's planned termination (for the default
@@ -8,8 +9,7 @@ import type { Knex } from 'knex';
 /** The planting's planned termination date (YYYY-MM-DD or null), or undefined when it is not the organisation's. */
 export async function plannedTerminationOf(db: Knex, organisationId: string, plantingId: string): Promise<string | null | undefined> {
   const p = await db('plantings').where({ organisation_id: organisationId, id: plantingId }).first('planned_termination_on');
-  if (!p) return undefined;
-  return p.planned_termination_on ? String(p.planned_termination_on).slice(0, 10) : null;
+  return p ? isoDay(p.planned_termination_on) : undefined;
 }
 
 export interface AssignmentRow {
@@ -51,11 +51,7 @@ export async function listAssignmentsBySampler(db: Knex, organisationId: string)
     .orderBy('walk_assignments.due_on')
     .orderBy('ranches.name')
     .orderBy('fields.name');
-  return rows.map((r) => ({
-    ...r,
-    dueOn: r.dueOn ? String(r.dueOn).slice(0, 10) : null,
-    walked: r.walked === true || Boolean(Number(r.walked)),
-  }));
+  return rows.map((r) => ({ ...r, dueOn: isoDay(r.dueOn), walked: flag(r.walked) }));
 }
 
 /** The assignments of one planting, with each sampler's name, by due date then name. */
@@ -66,5 +62,5 @@ export async function listAssignmentsOfPlanting(db: Knex, organisationId: string
     .orderBy('walk_assignments.due_on')
     .orderBy('users.name')
     .select('users.id as samplerId', 'users.name as samplerName', 'walk_assignments.due_on as dueOn');
-  return rows.map((r) => ({ samplerId: r.samplerId, samplerName: r.samplerName, dueOn: r.dueOn ? String(r.dueOn).slice(0, 10) : null }));
+  return rows.map((r) => ({ samplerId: r.samplerId, samplerName: r.samplerName, dueOn: isoDay(r.dueOn) }));
 }

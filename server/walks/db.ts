@@ -2,16 +2,14 @@ import type { Knex } from 'knex';
 import type { Boundary } from '../../shared/registry/boundary';
 import { readWalkEstimate, type Walk, type WalkEstimate, type WalkPlant, type WalkStatus } from '../../shared/schemas/walks';
 import { inOrganisation, nowIso } from '../platform/scope';
+import { isoDay, isoTime, jsonValue } from '../platform/column-values';
 
 /*
  * Field walks, their plants and photos, and the clerk's walk assignments. Columns are snake_case
  * here and camelCase beyond; every query starts from inOrganisation.
  */
 
-const iso = (v: unknown) => (v == null ? null : v instanceof Date ? v.toISOString() : String(v));
-/** A date column: PostgreSQL hands back a Date, SQLite the stored text. */
-const day = (v: unknown) => (v == null ? null : v instanceof Date ? v.toISOString().slice(0, 10) : String(v).slice(0, 10));
-
+const numOrNull = (v: unknown) => (v == null ? null : Number(v));
 /** The columns the rules look at (who, which planting, which status, what content). */
 export interface WalkRecord {
   id: string;
@@ -28,17 +26,18 @@ export async function findWalkRecord(db: Knex, organisationId: string, id: strin
   const r = await inOrganisation(db, 'field_walks', organisationId)
     .where('id', id)
     .first('id', 'planting_id', 'sampler_id', 'status', 'content_hash', 'reject_reason', 'own_review_waived_by');
-  if (!r) return undefined;
-  return {
-    id: r.id,
-    plantingId: r.planting_id,
-    samplerId: r.sampler_id,
-    status: r.status,
-    contentHash: r.content_hash,
-    rejectReason: r.reject_reason ?? null,
-    ownReviewWaived: r.own_review_waived_by != null,
-  };
+  return r ? toWalkRecord(r) : undefined;
 }
+
+const toWalkRecord = (r: Record<string, unknown>): WalkRecord => ({
+  id: r.id as string,
+  plantingId: r.planting_id as string,
+  samplerId: r.sampler_id as string,
+  status: r.status as WalkStatus,
+  contentHash: r.content_hash as string,
+  rejectReason: (r.reject_reason as string) ?? null,
+  ownReviewWaived: r.own_review_waived_by != null,
+});
 
 /** Limits a walk query to what a sampler may see: walks they made, or of plantings assigned to them. */
 export function visibleToSampler(db: Knex, q: Knex.QueryBuilder, samplerId: string): Knex.QueryBuilder {
@@ -83,25 +82,31 @@ const walkQuery = (db: Knex, organisationId: string) =>
 
 export const photoUrl = (walkId: string, photoId: string) => `/api/walks/${walkId}/photos/${photoId}`;
 
+/** Rows of a walk's child table (plants, photos) mapped and grouped by their walk. */
+function byWalk<T>(rows: Record<string, unknown>[], map: (r: Record<string, unknown>) => T): Map<string, T[]> {
+  const of = new Map<string, T[]>();
+  for (const r of rows) {
+    const list = of.get(r.walk_id as string) ?? [];
+    list.push(map(r));
+    of.set(r.walk_id as string, list);
+  }
+  return of;
+}
+
+const toPlant = (r: Record<string, unknown>): WalkPlant => ({ stop: Number(r.stop), lengthCm: Number(r.length_cm), lat: numOrNull(r.lat), lon: numOrNull(r.lon) });
+
 /** Walks with their plants and photos, in the order of `rows`. */
 async function assemble(db: Knex, organisationId: string, rows: Record<string, unknown>[]): Promise<Walk[]> {
   if (!rows.length) return [];
   const ids = rows.map((r) => r.id as string);
-  const plants = await inOrganisation(db, 'walk_plants', organisationId).whereIn('walk_id', ids).orderBy('stop');
-  const photos = await inOrganisation(db, 'walk_photos', organisationId).whereIn('walk_id', ids).orderBy('stop');
-  const plantsOf = new Map<string, WalkPlant[]>();
-  for (const p of plants) {
-    const list = plantsOf.get(p.walk_id) ?? [];
-    list.push({ stop: Number(p.stop), lengthCm: Number(p.length_cm), lat: p.lat == null ? null : Number(p.lat), lon: p.lon == null ? null : Number(p.lon) });
-    plantsOf.set(p.walk_id, list);
-  }
-  const photosOf = new Map<string, Walk['photos']>();
-  for (const p of photos) {
-    const list = photosOf.get(p.walk_id) ?? [];
-    list.push({ id: p.id, stop: Number(p.stop), url: photoUrl(p.walk_id, p.id), contentType: p.content_type, size: Number(p.size) });
-    photosOf.set(p.walk_id, list);
-  }
-  return rows.map((r) => ({
+  const plantsOf = byWalk(await inOrganisation(db, 'walk_plants', organisationId).whereIn('walk_id', ids).orderBy('stop'), toPlant);
+  const photosOf = byWalk(await inOrganisation(db, 'walk_photos', organisationId).whereIn('walk_id', ids).orderBy('stop'), (r) => photoJson(toPhoto(r)));
+  return rows.map((r) => toWalk(r, plantsOf.get(r.id as string) ?? [], photosOf.get(r.id as string) ?? []));
+}
+
+/** A row of walkQuery (the walk with its planting's, field's, ranch's and people's names) as the API's walk. */
+function toWalk(r: Record<string, unknown>, plants: WalkPlant[], photos: Walk['photos']): Walk {
+  return {
     id: r.id as string,
     plantingId: r.planting_id as string,
     fieldId: r.field_id as string,
@@ -109,25 +114,25 @@ async function assemble(db: Knex, organisationId: string, rows: Record<string, u
     ranchName: r.ranch_name as string,
     crop: r.crop as string,
     variety: (r.variety as string) ?? null,
-    walkedOn: day(r.walked_on)!,
+    walkedOn: isoDay(r.walked_on)!,
     stage: (r.stage as string) ?? null,
     notes: (r.notes as string) ?? null,
     status: r.status as WalkStatus,
     rejectReason: (r.reject_reason as string) ?? null,
     sampler: { id: r.sampler_id as string, name: r.sampler_name as string },
-    plants: plantsOf.get(r.id as string) ?? [],
-    photos: photosOf.get(r.id as string) ?? [],
-    skippedStops: r.skipped_stops ? (JSON.parse(r.skipped_stops as string) as number[]) : [],
+    plants,
+    photos,
+    skippedStops: jsonValue<number[]>(r.skipped_stops) ?? [],
     plan: r.plan_seed ? { seed: r.plan_seed as string, stops: Number(r.plan_stops), edgeMarginM: Number(r.plan_edge_margin_m) } : null,
-    estimate: r.estimate ? readWalkEstimate(JSON.parse(r.estimate as string) as WalkEstimate) : null,
-    createdAt: iso(r.created_at)!,
-    submittedAt: iso(r.submitted_at),
-    reviewedAt: iso(r.reviewed_at),
+    estimate: r.estimate ? readWalkEstimate(jsonValue<WalkEstimate>(r.estimate)!) : null,
+    createdAt: isoTime(r.created_at)!,
+    submittedAt: isoTime(r.submitted_at),
+    reviewedAt: isoTime(r.reviewed_at),
     reviewedBy: r.reviewed_by ? { id: r.reviewed_by as string, name: (r.reviewer_name as string) ?? '' } : null,
     ownReviewWaiver: r.own_review_waived_by
-      ? { by: { id: r.own_review_waived_by as string, name: (r.waiver_name as string) ?? '' }, at: iso(r.own_review_waived_at)!, reason: r.own_review_waiver_reason as string }
+      ? { by: { id: r.own_review_waived_by as string, name: (r.waiver_name as string) ?? '' }, at: isoTime(r.own_review_waived_at)!, reason: r.own_review_waiver_reason as string }
       : null,
-  }));
+  };
 }
 
 export async function getWalk(db: Knex, organisationId: string, id: string): Promise<Walk | undefined> {
@@ -190,7 +195,7 @@ export async function latestWalksOf(
     .orderBy('created_at', 'desc')
     .select('id', 'planting_id', 'status', 'walked_on', 'reject_reason');
   for (const r of rows) {
-    if (!latest.has(r.planting_id)) latest.set(r.planting_id, { id: r.id, status: r.status, walkedOn: day(r.walked_on)!, rejectReason: r.reject_reason ?? null });
+    if (!latest.has(r.planting_id)) latest.set(r.planting_id, { id: r.id, status: r.status, walkedOn: isoDay(r.walked_on)!, rejectReason: r.reject_reason ?? null });
   }
   return latest;
 }
@@ -299,6 +304,9 @@ const toPhoto = (r: Record<string, unknown>): WalkPhotoRecord => ({
   size: Number(r.size),
 });
 
+/** A photo as the API lists it with its walk. */
+const photoJson = (p: WalkPhotoRecord): Walk['photos'][number] => ({ id: p.id, stop: p.stop, url: photoUrl(p.walkId, p.id), contentType: p.contentType, size: p.size });
+
 export async function getPhoto(db: Knex, organisationId: string, walkId: string, photoId: string): Promise<WalkPhotoRecord | undefined> {
   const r = await inOrganisation(db, 'walk_photos', organisationId).where({ walk_id: walkId, id: photoId }).first();
   return r ? toPhoto(r) : undefined;
@@ -342,7 +350,7 @@ export async function getWalkAssignment(db: Knex, organisationId: string, planti
     .where({ 'walk_assignments.planting_id': plantingId, 'walk_assignments.sampler_id': samplerId })
     .first('walk_assignments.*', 'users.name as sampler_name');
   if (!r) return undefined;
-  return { plantingId: r.planting_id, samplerId: r.sampler_id, samplerName: r.sampler_name, dueOn: day(r.due_on), createdAt: iso(r.created_at)! };
+  return { plantingId: r.planting_id, samplerId: r.sampler_id, samplerName: r.sampler_name, dueOn: isoDay(r.due_on), createdAt: isoTime(r.created_at)! };
 }
 
 /** Assigns (or re-dates) a planting to a sampler. */
@@ -365,7 +373,7 @@ export async function deleteWalkAssignment(db: Knex, organisationId: string, pla
 /** Planting id → due date of the plantings assigned to this sampler. */
 export async function assignmentsOfSampler(db: Knex, organisationId: string, samplerId: string): Promise<Map<string, string | null>> {
   const rows = await inOrganisation(db, 'walk_assignments', organisationId).where('sampler_id', samplerId).select('planting_id', 'due_on');
-  return new Map(rows.map((r: { planting_id: string; due_on: unknown }) => [r.planting_id, day(r.due_on)]));
+  return new Map(rows.map((r: { planting_id: string; due_on: unknown }) => [r.planting_id, isoDay(r.due_on)]));
 }
 
 // The sampler's "today" list ------------------------------------------------------------------
@@ -417,11 +425,11 @@ export async function duePlantings(db: Knex, organisationId: string, opts: { sea
     ranchId: r.ranch_id as string,
     ranchName: r.ranch_name as string,
     areaHa: Number(r.area_ha),
-    boundary: r.boundary ? (JSON.parse(r.boundary as string) as Boundary) : null,
+    boundary: jsonValue<Boundary>(r.boundary),
     season: r.season as string,
     crop: r.crop as string,
     variety: (r.variety as string) ?? null,
-    seededOn: day(r.seeded_on)!,
-    plannedTerminationOn: day(r.planned_termination_on),
+    seededOn: isoDay(r.seeded_on)!,
+    plannedTerminationOn: isoDay(r.planned_termination_on),
   }));
 }

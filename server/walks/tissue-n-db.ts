@@ -1,5 +1,7 @@
 import type { Knex } from 'knex';
+import type { WalkEstimate } from '../../shared/schemas/walks';
 import { inOrganisation, nowIso } from '../platform/scope';
+import { jsonValue } from '../platform/column-values';
 
 /** One entry of a walk's tissue-N log: who set (or cleared, percent null) the lab value, and when. */
 export interface TissueNEntry {
@@ -11,15 +13,15 @@ export interface TissueNEntry {
 
 export interface WalkTissueN {
   walkId: string;
-  /** The estimate snapshot (JSON text), for N in the shoots. */
-  estimate: string | null;
+  /** The estimate snapshot, for N in the shoots. */
+  estimate: WalkEstimate | null;
   percent: number | null;
 }
 
 /** The walk's current tissue N % and its estimate snapshot; undefined when not the organisation's. */
 export async function walkTissueN(db: Knex, organisationId: string, walkId: string): Promise<WalkTissueN | undefined> {
   const row = await inOrganisation(db, 'field_walks', organisationId).where('id', walkId).first('id', 'estimate', 'tissue_n_percent');
-  return row && { walkId: row.id, estimate: row.estimate ?? null, percent: row.tissue_n_percent == null ? null : Number(row.tissue_n_percent) };
+  return row && { walkId: row.id, estimate: jsonValue<WalkEstimate>(row.estimate), percent: row.tissue_n_percent == null ? null : Number(row.tissue_n_percent) };
 }
 
 /** The log, newest first. */

@@ -1,7 +1,6 @@
 import type { Knex } from 'knex';
 import { shootNitrogen } from '../../shared/calc/nitrogen';
 import { walkVerdictOf, type StoredEstimate } from '../../shared/format/walk';
-import type { WalkEstimate } from '../../shared/schemas/walks';
 import { HttpError } from '../platform/errors';
 import { setWalkTissueN, tissueNLog, walkTissueN, type TissueNEntry } from './tissue-n-db';
 
@@ -23,7 +22,7 @@ export async function tissueNView(db: Knex, organisationId: string, walkId: stri
   const row = await walkTissueN(db, organisationId, walkId);
   if (!row) throw new HttpError('not_found');
   let shootN: TissueNView['shootN'] = null;
-  const e = row.estimate ? (JSON.parse(row.estimate) as WalkEstimate) : null;
+  const e = row.estimate;
   if (e && row.percent != null) {
     const v = walkVerdictOf(e as StoredEstimate);
     const n = shootNitrogen(e.biomassKgHa, row.percent, v.combinedInterval ?? [e.interval[0], e.interval[1]]);
