@@ -116,7 +116,7 @@ export async function runAttempt(
   }
 }
 
-/** The reads and the enqueue both engines share; `dispatch` hands a new job to the engine. */
+/** The enqueue and the reads both engines share (`reads` is spread into each engine's queue as it is). */
 export function tableQueue(db: Knex, defs: Map<string, Definition>) {
   const pruned = new Map<string, number>();
   async function housekeep(kind: string) {
@@ -145,20 +145,22 @@ export function tableQueue(db: Knex, defs: Map<string, Definition>) {
         createdBy: o.createdBy ?? null,
       });
     },
-    get: <P, G, R>(id: string, organisationId: string | null) => jobsDb.getJob(db, id, organisationId) as Promise<JobRow<P, G, R> | undefined>,
-    latest: <P, G, R>(kind: string, subject: string, organisationId: string) => jobsDb.latestJob(db, kind, subject, organisationId) as Promise<JobRow<P, G, R> | undefined>,
-    async output(id: string, organisationId: string, name: string) {
-      const job = await jobsDb.getJob(db, id, organisationId);
-      return job ? jobsDb.getOutput(db, id, name) : undefined;
-    },
-    active: (organisationId: string) => jobsDb.activeCounts(db, organisationId),
-    async waitFor<P, G, R>(id: string, organisationId: string | null, timeoutMs = 60_000) {
-      const until = Date.now() + timeoutMs;
-      for (;;) {
-        const job = (await jobsDb.getJob(db, id, organisationId)) as JobRow<P, G, R> | undefined;
-        if (!job || finished(job.state) || Date.now() > until) return job;
-        await new Promise((r) => setTimeout(r, 100));
-      }
+    reads: {
+      get: <P, G, R>(id: string, organisationId: string | null) => jobsDb.getJob(db, id, organisationId) as Promise<JobRow<P, G, R> | undefined>,
+      latest: <P, G, R>(kind: string, subject: string, organisationId: string) => jobsDb.latestJob(db, kind, subject, organisationId) as Promise<JobRow<P, G, R> | undefined>,
+      async output(id: string, organisationId: string, name: string) {
+        const job = await jobsDb.getJob(db, id, organisationId);
+        return job ? jobsDb.getOutput(db, id, name) : undefined;
+      },
+      active: (organisationId: string) => jobsDb.activeCounts(db, organisationId),
+      async waitFor<P, G, R>(id: string, organisationId: string | null, timeoutMs = 60_000) {
+        const until = Date.now() + timeoutMs;
+        for (;;) {
+          const job = (await jobsDb.getJob(db, id, organisationId)) as JobRow<P, G, R> | undefined;
+          if (!job || finished(job.state) || Date.now() > until) return job;
+          await new Promise((r) => setTimeout(r, 100));
+        }
+      },
     },
   };
 }

@@ -61,11 +61,7 @@ export function localQueue(db: Knex, opts: JobQueueOptions): JobQueue & { idle()
       if (made.created) push(kind, made.id);
       return made;
     },
-    get: table.get,
-    latest: table.latest,
-    output: table.output,
-    active: table.active,
-    waitFor: table.waitFor,
+    ...table.reads,
     start() {
       started ??= (async () => {
         for (const job of await jobsDb.unfinishedJobs(db, [...defs.keys()])) push(job.kind, job.id);

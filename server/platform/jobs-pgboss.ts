@@ -80,11 +80,7 @@ export function pgBossQueue(db: Knex, opts: JobQueueOptions): JobQueue {
       if (worker) boss.notifyWorker(worker); // this server is free: start now rather than at the next poll
       return made;
     },
-    get: table.get,
-    latest: table.latest,
-    output: table.output,
-    active: table.active,
-    waitFor: table.waitFor,
+    ...table.reads,
     start,
     async stop(graceMs = 10_000) {
       if (stopped) return;
