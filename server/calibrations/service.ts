@@ -3,6 +3,7 @@ import { CalcError, MODELS, compareModels, fitCalibration, type Fit, type ModelK
 import { HttpError } from '../platform/errors';
 import * as cal from './db';
 import type { BiomassUnit, Calibration, DatasetPoint, LengthUnit } from './db';
+import { inTransaction } from '../platform/database';
 
 /*
  * The rules of calibrations that span tables: a draft is made from a data set; publishing fixes
@@ -65,7 +66,7 @@ export async function createDraft(db: Knex, actor: Actor, input: DraftInput, ids
   await requireCrop(db, input.crop);
   if (!input.points.length) throw invalid('points', 'There are no points.');
   const { model, fit } = startingFit(input.points);
-  const id = await db.transaction(async (trx) => {
+  const id = await inTransaction(db, async (trx) => {
     const datasetId = await cal.insertDataset(trx, actor.organisationId, { ...input, uploadedBy: actor.id }, ids.datasetId);
     return cal.insertCalibration(
       trx,
@@ -138,7 +139,7 @@ export async function publish(db: Knex, actor: Actor, id: string, input: Publish
   if (!MODELS.includes(input.model)) throw invalid('model', 'Choose one of the four models.');
   const fit = refit(await pointsOf(db, actor.organisationId, c), input.model);
   try {
-    await db.transaction(async (trx) => {
+    await inTransaction(db, async (trx) => {
       const version = await cal.nextVersion(trx, actor.organisationId, c);
       const done = await cal.markPublished(trx, actor.organisationId, id, { model: input.model, fit, version, label: input.label, publishedBy: actor.id });
       if (!done) throw new HttpError('conflict', IMMUTABLE_MESSAGE);

@@ -14,6 +14,15 @@ export interface DatabaseOptions {
   statementTimeoutMs?: number;
 }
 
+/**
+ * Runs `work` as one unit: every db-module call made with the transaction it is given commits
+ * together or not at all. Services mark their units of work with this, so that no file outside the
+ * db modules calls Knex itself (DEVELOPERS.md, "Layers, one way").
+ */
+export function inTransaction<T>(db: Knex, work: (trx: Knex.Transaction) => Promise<T>): Promise<T> {
+  return db.transaction(work);
+}
+
 export const isPostgresUrl = (target: string) => /^postgres(ql)?:\/\//i.test(target);
 
 /** True when the database is PostgreSQL (the pg client); false for the embedded SQLite. */

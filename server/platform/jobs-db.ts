@@ -190,3 +190,14 @@ export async function getOutput(db: Knex, jobId: string, name: string): Promise<
   const row = await db('job_outputs').where({ job_id: jobId, name }).first('content_type', 'data');
   return row ? { contentType: row.content_type, data: Buffer.from(row.data) } : undefined;
 }
+
+/**
+ * Runs `work` while this server holds PostgreSQL's lock on setting up job queues (one transaction-
+ * scoped advisory lock), so that two servers never set up queues at the same moment.
+ */
+export async function underQueueSetupLock(db: Knex, work: () => Promise<void>): Promise<void> {
+  await db.transaction(async (trx) => {
+    await trx.raw('select pg_advisory_xact_lock(hashtext(?))', ['crowntip job queues']);
+    await work();
+  });
+}

@@ -1,6 +1,7 @@
 import type { Knex } from 'knex';
 import PgBoss from 'pg-boss';
 import { defaults, runAttempt, tableQueue, type Definition, type JobQueue, type JobQueueOptions } from './jobs-core';
+import { underQueueSetupLock } from './jobs-db';
 
 /**
  * The PostgreSQL engine: pg-boss (its own schema `pgboss` in the same database) carries each job
@@ -30,8 +31,7 @@ export function pgBossQueue(db: Knex, opts: JobQueueOptions): JobQueue {
   async function ensureQueue(def: Definition, update = true) {
     const queue = { name: def.kind, retryLimit: def.retries, retryDelay: def.retryDelaySeconds, expireInSeconds: def.timeoutSeconds };
     // Two servers making one queue at once deadlock inside pg-boss: one at a time, under a lock.
-    await db.transaction(async (trx) => {
-      await trx.raw('select pg_advisory_xact_lock(hashtext(?))', ['crowntip job queues']);
+    await underQueueSetupLock(db, async () => {
       if (!(await boss.getQueue(def.kind))) await boss.createQueue(def.kind, queue);
       else if (update) await boss.updateQueue(def.kind, queue);
     });

@@ -29,6 +29,7 @@ import { registryCutoff, rewindRegistry, type RegistryState } from './registry-a
 
 export * from './rows';
 import { assembleRegister, walksByPlanting, seasonOfYear, ruleOfRegister, projectionDateOf, registerRow, type RegisterRow, type FinalSnapshot, type FinalRegister, type Register } from './rows';
+import { inTransaction } from '../platform/database';
 
 export interface RegistryChoice {
   /** 'cutoff' (the default): each ranch's registry as it stood at its cut-off (registry-as-of.ts); 'today': as it is now, for an amendment made on purpose. */
@@ -177,7 +178,7 @@ export async function finaliseRegister(
 ): Promise<FinalRegister> {
   const at = now();
   try {
-    return await db.transaction(async (trx) => {
+    return await inTransaction(db, async (trx) => {
       const register = await computeRegister(trx, organisationId, ranchId, year, today, { registry, now: at });
       if (!register) throw new HttpError('not_found');
       const latest = await highestRegisterVersion(trx, organisationId, ranchId, year);

@@ -8,6 +8,7 @@ import type { BoundaryProposal, BoundaryProposalCreate } from '../../shared/sche
 import * as proposals from './boundary-proposals-db';
 import { getField } from './fields-db';
 import { updateField, type Actor } from './service';
+import { inTransaction } from '../platform/database';
 
 /**
  * Boundaries traced on the phone (README, "Traced boundaries"): a sampler proposes, the office
@@ -78,7 +79,7 @@ async function proposalOf(db: Knex, actor: Actor, fieldId: string, id: string) {
 
 /** The outline becomes the field's boundary; accepting again answers it unchanged; a declined one is a conflict. */
 export async function acceptProposal(db: Knex, actor: Actor, fieldId: string, id: string): Promise<BoundaryProposal> {
-  return db.transaction(async (trx) => {
+  return inTransaction(db, async (trx) => {
     const p = await proposalOf(trx, actor, fieldId, id);
     if (p.status === 'accepted') return strip(p);
     if (p.status !== 'pending') throw new HttpError('conflict', 'This traced boundary was declined; it cannot be accepted now.');

@@ -10,6 +10,7 @@ import * as plantings from './plantings-db';
 import { appendChange, type EntityType } from './history-db';
 import { newFieldAreaHa } from './boundary-import';
 import { historySummary } from './history-words';
+import { inTransaction } from '../platform/database';
 
 /**
  * Registry writes: each checks the rules that span records (the ranch is this organisation's,
@@ -54,7 +55,7 @@ function changedKeys(before: Record<string, unknown>, after: Record<string, unkn
 // Ranches -------------------------------------------------------------------------------------
 
 export async function createRanch(db: Knex, actor: Actor, input: RanchInput): Promise<ranches.Ranch> {
-  return db.transaction(async (trx) => {
+  return inTransaction(db, async (trx) => {
     if (await ranches.ranchNameTaken(trx, actor.organisationId, input.name)) throw invalid('name', 'A ranch with this name already exists.');
     const id = await ranches.insertRanch(trx, actor.organisationId, input);
     const created = (await ranches.getRanch(trx, actor.organisationId, id, currentSeason()))!;
@@ -64,7 +65,7 @@ export async function createRanch(db: Knex, actor: Actor, input: RanchInput): Pr
 }
 
 export async function updateRanch(db: Knex, actor: Actor, id: string, changes: Partial<RanchInput>): Promise<ranches.Ranch> {
-  return db.transaction(async (trx) => {
+  return inTransaction(db, async (trx) => {
     const before = await ranches.getRanch(trx, actor.organisationId, id, currentSeason());
     if (!before) throw new HttpError('not_found');
     if (changes.name && (await ranches.ranchNameTaken(trx, actor.organisationId, changes.name, id))) {
@@ -79,7 +80,7 @@ export async function updateRanch(db: Knex, actor: Actor, id: string, changes: P
 }
 
 export async function deleteRanch(db: Knex, actor: Actor, id: string): Promise<void> {
-  await db.transaction(async (trx) => {
+  await inTransaction(db, async (trx) => {
     const before = await ranches.getRanch(trx, actor.organisationId, id, currentSeason());
     if (!before) throw new HttpError('not_found');
     if (before.fieldCount > 0) throw new HttpError('conflict', `“${before.name}” still has ${before.fieldCount} field(s): only an empty ranch can be deleted.`);
@@ -93,7 +94,7 @@ export async function deleteRanch(db: Knex, actor: Actor, id: string): Promise<v
 const boundaryArea = (b: Boundary | null | undefined) => (b ? boundaryAreaHa(b) : null);
 
 export async function createField(db: Knex, actor: Actor, input: FieldInput): Promise<fields.Field> {
-  return db.transaction(async (trx) => {
+  return inTransaction(db, async (trx) => {
     const ranch = await ranches.getRanch(trx, actor.organisationId, input.ranchId, currentSeason());
     if (!ranch) throw invalid('ranchId', 'Choose one of your ranches.');
     if (await fields.fieldNameTaken(trx, actor.organisationId, input.ranchId, input.name)) {
@@ -107,7 +108,7 @@ export async function createField(db: Knex, actor: Actor, input: FieldInput): Pr
 }
 
 export async function updateField(db: Knex, actor: Actor, id: string, changes: Partial<FieldInput>): Promise<fields.Field> {
-  return db.transaction(async (trx) => {
+  return inTransaction(db, async (trx) => {
     const before = await fields.getField(trx, actor.organisationId, id);
     if (!before) throw new HttpError('not_found');
     const ranchId = changes.ranchId ?? before.ranchId;
@@ -140,7 +141,7 @@ async function checkPlanting(trx: Knex, actor: Actor, p: PlantingInput, exceptId
 }
 
 export async function createPlanting(db: Knex, actor: Actor, input: PlantingInput): Promise<plantings.Planting> {
-  return db.transaction(async (trx) => {
+  return inTransaction(db, async (trx) => {
     const field = await checkPlanting(trx, actor, input);
     const id = await plantings.insertPlanting(trx, actor.organisationId, input);
     const created = (await plantings.getPlanting(trx, actor.organisationId, id))!;
@@ -150,7 +151,7 @@ export async function createPlanting(db: Knex, actor: Actor, input: PlantingInpu
 }
 
 export async function updatePlanting(db: Knex, actor: Actor, id: string, changes: Partial<PlantingInput>): Promise<plantings.Planting> {
-  return db.transaction(async (trx) => {
+  return inTransaction(db, async (trx) => {
     const before = await plantings.getPlanting(trx, actor.organisationId, id);
     if (!before) throw new HttpError('not_found');
     const merged = { ...plantingSnapshot(before), ...changes } as PlantingInput;
@@ -182,7 +183,7 @@ export { getRanch, listRanches, ranchOptions, RANCH_SORTS, type Ranch, type Ranc
  * its own change-history entry; any failure writes nothing.
  */
 export async function importBoundaries(db: Knex, actor: Actor, ranchId: string, rows: BoundaryImportRow[]): Promise<void> {
-  await db.transaction(async (trx) => {
+  await inTransaction(db, async (trx) => {
     for (const row of rows) {
       if (row.fieldId) await updateField(trx, actor, row.fieldId, { boundary: row.boundary });
       else await createField(trx, actor, { ranchId, name: row.name, areaHa: newFieldAreaHa(row.areaHa), boundary: row.boundary, notes: null } as FieldInput);

@@ -6,6 +6,7 @@ import { listAssignableSamplers } from '../people/public';
 import { currentCreditRule } from '../rules/public';
 import { assignWalk, type WalkActor } from './service';
 import { listAssignmentsBySampler, listAssignmentsOfPlanting, plannedTerminationOf, type AssignmentRow } from './assignments-db';
+import { inTransaction } from '../platform/database';
 
 /*
  * Clerks ask samplers to walk plantings from the office: one at a time from the planting's own
@@ -31,7 +32,7 @@ export function defaultDueOn(plannedTerminationOn: string | null, maxDaysBeforeT
 export async function assignWalks(db: Knex, actor: WalkActor, plantingIds: string[], input: { samplerId: string; dueOn: string | null }): Promise<void> {
   const rule = await currentCreditRule(db, actor.organisationId);
   const today = todayIso();
-  await db.transaction(async (trx) => {
+  await inTransaction(db, async (trx) => {
     for (const id of plantingIds) {
       const planned = await plannedTerminationOf(trx, actor.organisationId, id);
       if (planned === undefined) throw new HttpError('not_found', 'One of the selected plantings does not exist (it may have been deleted). Reload the season view.');

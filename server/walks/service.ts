@@ -16,6 +16,7 @@ import { getUser } from '../people/public';
 import { currentCreditRule } from '../rules/public';
 import * as walks from './db';
 import { estimateSnapshot } from './estimate';
+import { inTransaction } from '../platform/database';
 
 /**
  * Field-walk rules that span tables: who may read and change a walk, the idempotent create with
@@ -132,7 +133,7 @@ export async function createWalk(db: Knex, actor: WalkActor, input: WalkCreate):
   );
   const plan = input.planSeed ? await planOf(db, actor.organisationId, input) : null;
   try {
-    await db.transaction(async (trx) => {
+    await inTransaction(db, async (trx) => {
       await walks.insertWalk(trx, actor.organisationId, {
         id: input.id,
         plantingId: planting.id,
@@ -253,7 +254,7 @@ export async function savePhoto(
   const photo: walks.WalkPhotoRecord = { id: randomUUID(), walkId: walk.id, stop, path: key, contentType: type.contentType, size: data.length };
   let replaced: walks.WalkPhotoRecord | undefined;
   try {
-    await db.transaction(async (trx) => {
+    await inTransaction(db, async (trx) => {
       replaced = await walks.photoAtStop(trx, actor.organisationId, walk.id, stop);
       if (replaced) await walks.deletePhoto(trx, actor.organisationId, replaced.id);
       await walks.insertPhoto(trx, actor.organisationId, photo);

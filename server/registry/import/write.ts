@@ -9,6 +9,7 @@ import { ParsedCsv } from './read';
 import { CropOption } from './values';
 import { CheckResult, canImport, checkRows, createChecker, loadSnapshot } from './check';
 import { expectDefined } from '../../platform/expect-defined';
+import { inTransaction } from '../../platform/database';
 
 // 5. The commit -------------------------------------------------------------------------------
 
@@ -70,7 +71,7 @@ export async function commitImport(
 
   const file = input.fileName.length > 80 ? `${input.fileName.slice(0, 77)}…` : input.fileName;
   const user = { id: actor.id, name: actor.name };
-  return db.transaction(async (trx): Promise<CommitOutcome> => {
+  return inTransaction(db, async (trx): Promise<CommitOutcome> => {
     const snapshot = await loadSnapshot(trx, org);
     const check = checkRows(parsed, { mapping, snapshot, crops });
     if (!canImport(check)) return { ok: false, check };
