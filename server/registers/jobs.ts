@@ -7,7 +7,7 @@ import { approvedWalksFor, countFields, registerRanches } from './inputs-db';
 import { getRegister, latestRegistersOfYear } from './db';
 import { creditRuleForYear } from '../rules/public';
 import { asDraft, asFinal, registerUnits, type RegisterDoc } from './format';
-import { registerCsvInSteps, registerPdf } from './output';
+import { registerCsvInSteps, registerPdf } from './csv';
 import {
   assembleRegister,
   parseStored,

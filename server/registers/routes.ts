@@ -10,7 +10,7 @@ import { diffRegisters } from './diff';
 import { keyringOf } from './signing';
 import { todayIso } from '../../shared/registry/season';
 import { asFinal, registerFileStem } from './format';
-import { registerCsv, registerPdf } from './output';
+import { registerCsv, registerPdf } from './csv';
 import {
   MAX_YEAR,
   MIN_YEAR,
