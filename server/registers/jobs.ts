@@ -7,7 +7,8 @@ import { approvedWalksFor, countFields, registerRanches } from './inputs-db';
 import { getRegister, latestRegistersOfYear } from './db';
 import { creditRuleForYear } from '../rules/public';
 import { asDraft, asFinal, registerUnits, type RegisterDoc } from './format';
-import { registerCsvInSteps, registerPdf } from './csv';
+import { registerCsvInSteps } from './csv';
+import { registerPdf } from './pdf';
 import {
   assembleRegister,
   parseStored,

@@ -14,7 +14,7 @@ import { dateTime } from '../../shared/format/figures';
 import { todayIso } from '../../shared/registry/season';
 import { barChartSvg } from './chart';
 import { CAUTIONS, asDraft, asFinal, cropLabel, registerFieldLines, registerFileStem, registerUnits, shortId } from './format';
-import { registerPdf } from './csv';
+import { registerPdf } from './pdf';
 import { createRegisterJobs } from './jobs';
 import {
   MAX_YEAR,

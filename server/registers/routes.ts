@@ -10,7 +10,8 @@ import { diffRegisters } from './diff';
 import { keyringOf } from './signing';
 import { todayIso } from '../../shared/registry/season';
 import { asFinal, registerFileStem } from './format';
-import { registerCsv, registerPdf } from './csv';
+import { registerCsv } from './csv';
+import { registerPdf } from './pdf';
 import {
   MAX_YEAR,
   MIN_YEAR,
