@@ -5,7 +5,7 @@ import type { DatasetPoint } from './db';
 /*
  * The fit page's two charts, in the reader's units: the points with the chosen curve, its 90 %
  * prediction band, the threshold line and where the curve reaches it; and the residuals against
- * the fitted values. Rendered on the server as SVG (../shared/charts/svg.ts), so they print.
+ * the fitted values. Rendered on the server as SVG (shared/charts/svg.ts), so they print.
  */
 
 export interface DisplayUnits {

@@ -151,7 +151,7 @@ export async function waitForDatabase(
   }
 }
 
-/** Runs every migration not yet applied. Migrations are imported statically (STACK.md, gotcha 1). */
+/** Runs every migration not yet applied. Migrations are imported statically (docs/server-notes.md, 1). */
 export async function migrateLatest(db: Db): Promise<string[]> {
   const [, applied] = await db.migrate.latest({ migrationSource });
   return applied as string[];

@@ -83,7 +83,7 @@ export const plantingInputSchema = plantingShape.superRefine(datesInOrder);
 export type PlantingInput = z.infer<typeof plantingInputSchema>;
 export const plantingPatchSchema = plantingShape.partial().superRefine(datesInOrder);
 
-/** `?limit=&offset=` of every list (../shared/API.md: limit default 50, max 500). */
+/** `?limit=&offset=` of every list (README, "API": limit default 50, max 500). */
 export const pagingSchema = z.object({
   limit: z.coerce.number().int().min(1).max(500).default(50),
   offset: z.coerce.number().int().min(0).default(0),

@@ -6,7 +6,7 @@ import { boundarySchema } from '../registry/boundary';
 import { isoDate } from './dates';
 
 /**
- * Field walks on the wire (../shared/API.md, Field walks): what the capture app sends and what
+ * Field walks on the wire (README, "Field walks API"): what the capture app sends and what
  * the server answers. SI units: lengths in cm, biomass in kg/ha, areas in ha.
  */
 export const MAX_PLANTS = 100;

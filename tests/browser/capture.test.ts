@@ -4,7 +4,7 @@ import { startServer, type RunningServer } from '../helpers/server';
 import { openBrowser, screenshot, signIn } from '../helpers/browser';
 
 /**
- * The sampler's phone (issue 6): a 10-plant walk in English, another in Spanish that goes offline
+ * The sampler's phone: a 10-plant walk in English, another in Spanish that goes offline
  * mid-walk, is reloaded without signal, finished and queued, then sent once the signal is back.
  * The server is asked afterwards how many walks it holds: each exactly once.
  */

@@ -7,7 +7,7 @@ import { startServer, type RunningServer } from './server';
 
 export const SCREENSHOTS = path.resolve('tests/browser/screenshots');
 
-/** Debian's Chromium, headless, with the flags this closed network needs (../shared/STACK.md, 7). */
+/** Debian's Chromium, headless, with flags that keep it off the network it has no use for (updates, sync, QUIC) and without a GPU or sandbox, as on a build machine. */
 export interface BrowserOptions {
   viewport?: { width: number; height: number };
   /** Permissions granted to every origin, e.g. ['geolocation']. */

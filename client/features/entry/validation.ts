@@ -13,7 +13,7 @@ import { OUTLIER_MIN_N, outlierIndexes } from '../../../shared/calc/outliers';
 
 export type LengthUnit = 'in' | 'cm';
 
-/** Above this a cereal main shoot is very tall: ask, do not refuse (issue 6). */
+/** Above this a cereal main shoot is very tall: ask, do not refuse (a typing slip is likelier than such a plant). */
 export const QUESTION_ABOVE_CM = 250;
 /** The outlier test starts once this many other plants are measured (the shared rule's 4 plants in all). */
 export const OUTLIER_MIN_OTHERS = OUTLIER_MIN_N - 1;

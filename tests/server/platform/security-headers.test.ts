@@ -20,7 +20,7 @@ describe('security headers', () => {
       expect(csp).not.toContain('unsafe-inline');
       expect(csp).toContain("font-src 'self'");
       expect(csp).toContain("frame-ancestors 'none'");
-      // Served over plain HTTP on a farm network too (../shared/STACK.md, gotcha 6).
+      // Served over plain HTTP on a farm network too (docs/server-notes.md, 4).
       expect(csp).not.toContain('upgrade-insecure-requests');
       expect(res.headers['x-content-type-options']).toBe('nosniff');
       expect(res.headers['x-powered-by']).toBeUndefined();

@@ -3,7 +3,7 @@ import request from 'supertest';
 import { createTestApp, signInApi, type TestApp } from '../../helpers/app';
 import { seasonOfDate, todayIso } from '../../../shared/registry/season';
 
-// The registry JSON API (../shared/API.md, Registry). Every test makes its own invented records
+// The registry JSON API (README, "API"). Every test makes its own invented records
 // through the API; the demo scenario may hold ranches of its own, so counts are taken relative.
 
 let t: TestApp;

@@ -17,7 +17,7 @@ import { DEMO_WALK_IDS } from '../../../seeds/04_demo_walks';
 import { DEMO_ORGANISATIONS, DEMO_USERS } from '../../../seeds/demo-people';
 import { at } from '../../helpers/lists';
 
-// Field walks (../shared/API.md, Field walks). Every test runs on a fresh in-memory database with
+// Field walks (README, "Field walks API"). Every test runs on a fresh in-memory database with
 // the demo scenario and its own uploads folder; the walks it posts are invented.
 
 const ORG1 = DEMO_ORGANISATIONS[0].id;

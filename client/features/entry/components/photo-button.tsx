@@ -4,7 +4,7 @@ import { get, set } from 'idb-keyval';
 import { photoKey, photoStore } from '../../../lib/storage';
 import type { Formatter } from '../../../lib/format';
 
-/** About 1600 px on the long side and 300 KB: plenty to see the plant and the tape (issue 6). */
+/** About 1600 px on the long side and 300 KB: plenty to see the plant and the tape (README, "/capture on the phone"). */
 const COMPRESS = { maxWidthOrHeight: 1600, maxSizeMB: 0.3, initialQuality: 0.8, fileType: 'image/jpeg', useWebWorker: false };
 
 export async function compressPhoto(file: File): Promise<Blob> {
