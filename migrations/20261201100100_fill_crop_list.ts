@@ -1,6 +1,6 @@
 import type { Knex } from 'knex';
 
-// The crop list every install needs (../shared/API.md): data, kept apart from the schema.
+// The crop list every install needs (README, "API": GET /api/crops): data, kept apart from the schema.
 const CROPS = [
   { code: 'cereal_rye', label: 'Cereal rye', crop_class: 'cereal', sort_order: 1 },
   { code: 'triticale', label: 'Triticale', crop_class: 'cereal', sort_order: 2 },

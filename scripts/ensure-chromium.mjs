@@ -1,4 +1,4 @@
-// Makes sure Debian's Chromium is there for the browser tests (see ../shared/STACK.md, gotcha 7).
+// Makes sure Debian's Chromium is there for the browser tests (README, "Two commands").
 // Installs it with apt-get when missing and running as root; otherwise stops with a clear message.
 import { existsSync } from 'node:fs';
 import { spawnSync } from 'node:child_process';
