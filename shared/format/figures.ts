@@ -49,6 +49,17 @@ export function formatNumber(v: number, decimals = 0, _lang: Lang = 'en'): strin
   return neg + grouped + (frac ? `.${frac}` : '');
 }
 
+/**
+ * v to at most `maxDecimals` decimals, trailing zeros dropped, thousands separators: 1234.5 →
+ * "1,234.5", 2.004 → "2", 0.125 → "0.13" (2 decimals). For figures a person typed or may type back,
+ * where "10.50" would read as more precise than what was written. Whole counts need no function
+ * of their own: formatNumber(n) writes 12345 as "12,345".
+ */
+export function formatUpTo(v: number, maxDecimals = 2, lang: Lang = 'en'): string {
+  const text = formatNumber(v, maxDecimals, lang);
+  return text.includes('.') ? text.replace(/\.?0+$/, '') : text;
+}
+
 function figure(value: number, decimals: number, unit: string, lang: Lang): Figure {
   const text = formatNumber(value, decimals, lang);
   return { value, rounded: roundTo(value, decimals), decimals, text, unit, full: `${text} ${unit}` };

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { DEMO_RULE, creditEligibility, decideVerdict, fitCalibration, lbPerAcToKgPerHa, type VerdictReason } from '../../shared/calc';
 import {
-  DECISION_BASIS_WORDS, VERDICT_WORDS, adviceText, area, biomass, biomassAgainstThreshold, credit, date, dateTime, eligibilityReasonText, formatNumber, length,
+  DECISION_BASIS_WORDS, VERDICT_WORDS, adviceText, area, biomass, biomassAgainstThreshold, credit, date, dateTime, eligibilityReasonText, formatNumber, formatUpTo, length,
   nitrogenRate, percent, reasonText, verdictSentence,
 } from '../../shared/format';
 import { readDemo } from './demo-data';
@@ -17,6 +17,32 @@ describe('figures: the same rounding for every output', () => {
     expect(formatNumber(999.96, 1)).toBe('1,000.0');
     expect(formatNumber(NaN)).toBe('—');
     expect(formatNumber(4495.8, 0, 'es')).toBe('4,496'); // es-MX writes numbers as en-US
+  });
+
+  it('whole counts: formatNumber(n) groups thousands, as the office and import messages always wrote them', () => {
+    expect(formatNumber(12345)).toBe('12,345');
+    expect(formatNumber(1000000)).toBe('1,000,000');
+    expect(formatNumber(999)).toBe('999');
+    expect(formatNumber(0)).toBe('0');
+    // Independent check: Intl's en-US writing of whole numbers, the text these messages carried before.
+    for (const n of [1, 10, 100, 1000, 9999, 10000, 123456, 5000000, 2 ** 31]) expect(formatNumber(n)).toBe(n.toLocaleString('en-US'));
+  });
+
+  it('up to n decimals: trailing zeros dropped, the point too when nothing is left', () => {
+    expect(formatUpTo(1234.5)).toBe('1,234.5'); // 1234.50 → drop one zero
+    expect(formatUpTo(10.5, 2)).toBe('10.5'); // not "10.50"
+    expect(formatUpTo(2.004)).toBe('2'); // 2.004 → 2.00 → "2"
+    expect(formatUpTo(0.125)).toBe('0.13'); // half away from zero on the decimal value
+    expect(formatUpTo(1.005)).toBe('1.01'); // toFixed would say 1.00
+    expect(formatUpTo(100)).toBe('100'); // zeros before the point stay
+    expect(formatUpTo(1200, 0)).toBe('1,200');
+    expect(formatUpTo(2.25, 1)).toBe('2.3');
+    expect(formatUpTo(-0.001)).toBe('0'); // rounds to zero: no minus sign
+    expect(formatUpTo(NaN)).toBe('—');
+    // Independent check: Intl's en-US with maximumFractionDigits, which import messages used before.
+    for (const v of [0.1, 0.5, 1.25, 3.14159, 12.3456, 404.6856, 2000, 2241.85, 98765.4321, 1e6 + 0.07]) {
+      for (const d of [0, 1, 2, 3]) expect(formatUpTo(v, d)).toBe(v.toLocaleString('en-US', { maximumFractionDigits: d }));
+    }
   });
 
   it('biomass: 4,500 lb/ac is 5,043.83 kg/ha; whole units in both systems', () => {
