@@ -1,12 +1,13 @@
 import type { Knex } from 'knex';
 import type { ZodType } from 'zod';
 import { acToHa, haToAc, kgPerHaToLbPerAc, lbPerAcToKgPerHa } from '../../../shared/calc/units';
+import { formatUpTo } from '../../../shared/format/figures';
 import { seasonOfDate } from '../../../shared/registry/season';
 import { fieldInputSchema, plantingInputSchema } from '../../../shared/schemas/registry';
 import { registryKeys } from './db';
 import { AREA_UNITS, COLUMN_BY_KEY, COLUMN_KEYS, ColumnKey, IMPORT_COLUMNS, Mapping, RATE_UNITS } from './columns';
 import { CsvRecord, ParsedCsv } from './read';
-import { CropOption, cropMatcher, fmt, nameKey, parseDate, parseNumber, parseSeason, ranchNameSchema } from './values';
+import { CropOption, cropMatcher, nameKey, parseDate, parseNumber, parseSeason, ranchNameSchema } from './values';
 
 // 4. Checking rows ----------------------------------------------------------------------------
 
@@ -228,7 +229,7 @@ export function createChecker(opts: CheckOptions) {
       else if (n <= 0) add('seeding_rate', 'The seeding rate must be more than zero.');
       else {
         seedingRateKgHa = mapping.rateUnit === 'lb_ac' ? lbPerAcToKgPerHa(n) : n;
-        if (seedingRateKgHa > 2000) add('seeding_rate', `${fmt(n)} ${rateUnit} is more than any seeding rate (at most 2,000 kg/ha, ${fmt(kgPerHaToLbPerAc(2000), 0)} lb/ac): check the unit.`);
+        if (seedingRateKgHa > 2000) add('seeding_rate', `${formatUpTo(n)} ${rateUnit} is more than any seeding rate (at most 2,000 kg/ha, ${formatUpTo(kgPerHaToLbPerAc(2000), 0)} lb/ac): check the unit.`);
       }
     }
 
@@ -286,7 +287,7 @@ export function createChecker(opts: CheckOptions) {
             line: rec.line,
             column: 'area',
             value: raw.area,
-            message: `Crowntip has ${fmt(stored)} ${areaUnit} for “${existingField.name}”, the file ${raw.area} ${areaUnit}. The registry keeps its area; change it on the field’s page if the file is right.`,
+            message: `Crowntip has ${formatUpTo(stored)} ${areaUnit} for “${existingField.name}”, the file ${raw.area} ${areaUnit}. The registry keeps its area; change it on the field’s page if the file is right.`,
           });
         }
       }

@@ -7,6 +7,7 @@ import { can } from '../../platform/permissions';
 import { HttpError } from '../../platform/errors';
 import { parseForm } from '../../platform/validation';
 import { toCsv } from '../../platform/csv-safe';
+import { formatUpTo } from '../../../shared/format/figures';
 import {
   AREA_UNITS,
   COLUMN_BY_KEY,
@@ -184,7 +185,7 @@ export function registryImportPages(ctx: AppContext): Router {
       failed,
       running,
       errorsUrl: `${BASE}/${p.meta.id}/errors.csv?${new URLSearchParams(params)}`,
-      num: (n: number, digits = 2) => n.toLocaleString('en-US', { maximumFractionDigits: digits }),
+      num: formatUpTo,
     });
   }
 

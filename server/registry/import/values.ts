@@ -74,4 +74,3 @@ export function cropMatcher(crops: readonly CropOption[]): (raw: string) => stri
 
 export const ranchNameSchema = ranchInputSchema.pick({ name: true });
 export const nameKey = (s: string) => s.trim().replace(/\s+/g, ' ').toLowerCase();
-export const fmt = (n: number, digits = 2) => n.toLocaleString('en-US', { maximumFractionDigits: digits });
