@@ -1,4 +1,5 @@
 import { parse } from 'csv-parse/sync';
+import { formatNumber } from '../../shared/format/figures';
 
 /**
  * Reading an uploaded CSV, the one reader for every upload: calibration points
@@ -134,7 +135,7 @@ export function readCsvText(text: string, options: CsvReadOptions = {}): CsvTabl
   const [head, ...data] = records;
   if (!head) throw new CsvReadError('empty', 'The file is empty.');
   if (data.length > maxRows) {
-    throw new CsvReadError('too_many_rows', `The file has more than ${maxRows.toLocaleString('en-US')} rows; split it or remove rows that are not needed.`);
+    throw new CsvReadError('too_many_rows', `The file has more than ${formatNumber(maxRows)} rows; split it or remove rows that are not needed.`);
   }
   return {
     header: head.record.map((h) => h.trim()),

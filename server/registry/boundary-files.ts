@@ -4,6 +4,7 @@ import { DOMParser } from '@xmldom/xmldom';
 import JSZip from 'jszip';
 import { parseDbf, parseShp } from 'shpjs';
 import { boundaryAreaHa } from '../../shared/registry/boundary-area';
+import { formatNumber } from '../../shared/format/figures';
 import { boundaryProblemText, boundarySchema, checkBoundary, type Boundary } from '../../shared/registry/boundary';
 import { expectDefined } from '../platform/expect-defined';
 
@@ -209,7 +210,7 @@ function fromFeatures(format: BoundaryFormat, features: RawFeature[]): BoundaryF
   if (polygons.length === 0) {
     return refuse(features.length ? 'The file holds no areas (only points or lines): a field boundary must be a polygon.' : 'The file holds no shapes.');
   }
-  if (polygons.length > MAX_SHAPES) return refuse(`The file holds ${polygons.length.toLocaleString('en-US')} shapes; at most ${MAX_SHAPES} are accepted at once.`);
+  if (polygons.length > MAX_SHAPES) return refuse(`The file holds ${formatNumber(polygons.length)} shapes; at most ${MAX_SHAPES} are accepted at once.`);
   let vertices = 0;
   const shapes = polygons.map(({ f, geometry }, index): UploadedShape => {
     const properties: Record<string, string> = {};
@@ -230,7 +231,7 @@ function fromFeatures(format: BoundaryFormat, features: RawFeature[]): BoundaryF
     return { ...shape, boundary, areaHa: boundaryAreaHa(boundary) };
   });
   if (vertices > MAX_FILE_VERTICES) {
-    return refuse(`The file's shapes have ${vertices.toLocaleString('en-US')} corners in all; at most ${MAX_FILE_VERTICES.toLocaleString('en-US')} are accepted. Simplify the outlines or upload fewer.`);
+    return refuse(`The file's shapes have ${formatNumber(vertices)} corners in all; at most ${formatNumber(MAX_FILE_VERTICES)} are accepted. Simplify the outlines or upload fewer.`);
   }
   const keys = [...new Set(shapes.flatMap((s) => Object.keys(s.properties)))];
   return { ok: true, format, shapes, nameKeys: rankNameKeys(keys, shapes), skipped };

@@ -7,7 +7,7 @@ import { escapeXml, niceTicks, tickLabel } from '../../shared/charts/svg';
 import type { Boundary } from '../../shared/registry/boundary';
 import { boundaryOutline } from '../../shared/registry/outline';
 import { lonLatOf } from '../../shared/geo/plane';
-import { biomass, length } from '../../shared/format';
+import { biomass, formatUpTo, length } from '../../shared/format';
 import { WALK_FLAG_LABELS, walkFlags, type WalkFlag } from '../../shared/registry/walk-flags';
 import { type Walk } from '../../shared/schemas/walks';
 import { SHOOT_N_CAUTION, shootNitrogenText, walkBiomassText, walkVerdictOf, type StoredEstimate } from '../../shared/format/walk';
@@ -311,7 +311,7 @@ export function mapSketchSvg(spec: MapSketchSpec): string {
     out.push(
       `<g aria-hidden="true"><line x1="16" y1="${y}" x2="${r1(16 + len)}" y2="${y}" stroke="${INK}" stroke-width="3"/>` +
         `<line x1="16" y1="${y - 5}" x2="16" y2="${y + 1}" stroke="${INK}"/><line x1="${r1(16 + len)}" y1="${y - 5}" x2="${r1(16 + len)}" y2="${y + 1}" stroke="${INK}"/>` +
-        `<text x="${r1(24 + len)}" y="${y + 4}" fill="${INK}">${nice.toLocaleString('en-US')} ${spec.units === 'us' ? 'ft' : 'm'}</text></g>`,
+        `<text x="${r1(24 + len)}" y="${y + 4}" fill="${INK}">${formatUpTo(nice, 3)} ${spec.units === 'us' ? 'ft' : 'm'}</text></g>`,
     );
   }
   if (planned) {

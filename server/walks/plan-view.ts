@@ -1,6 +1,7 @@
 import { distance } from '@turf/distance';
 import type { Boundary } from '../../shared/registry/boundary';
 import { englishNote, fieldWalkPlan, type WalkPlan } from '../../shared/calc/walk-plan';
+import { formatNumber, formatUpTo } from '../../shared/format/figures';
 import type { Walk } from '../../shared/schemas/walks';
 
 /*
@@ -37,8 +38,8 @@ export type WalkPlanView =
 
 /** A distance in the reader's units: whole feet, or metres (one decimal under 10 m). */
 export function readerDistance(m: number, units: 'us' | 'metric'): string {
-  if (units === 'us') return `${Math.round(m / 0.3048).toLocaleString('en-US')} ft`;
-  return `${m < 10 ? Math.round(m * 10) / 10 : Math.round(m).toLocaleString('en-US')} m`;
+  if (units === 'us') return `${formatNumber(m / 0.3048)} ft`;
+  return `${m < 10 ? formatUpTo(m, 1) : formatNumber(m)} m`;
 }
 
 export function walkPlanView(

@@ -3,6 +3,7 @@ import { booleanPointInPolygon } from '@turf/boolean-point-in-polygon';
 import { booleanValid } from '@turf/boolean-valid';
 import { kinks } from '@turf/kinks';
 import { z } from 'zod';
+import { formatNumber } from '../format/figures';
 
 /**
  * A field boundary: a GeoJSON Polygon or MultiPolygon in WGS84 longitude/latitude (RFC 7946).
@@ -118,9 +119,9 @@ export function checkBoundary(boundary: Boundary, limits: BoundaryLimits = {}): 
 export function boundaryProblemText(problem: BoundaryProblem): string {
   switch (problem.code) {
     case 'too_many_parts':
-      return `The boundary has ${problem.parts.toLocaleString('en-US')} separate parts; at most ${problem.maxParts} are accepted. Upload one field at a time.`;
+      return `The boundary has ${formatNumber(problem.parts)} separate parts; at most ${problem.maxParts} are accepted. Upload one field at a time.`;
     case 'too_many_vertices':
-      return `The boundary has ${problem.vertices.toLocaleString('en-US')} corners; at most ${problem.maxVertices.toLocaleString('en-US')} are accepted. Simplify the outline and upload it again.`;
+      return `The boundary has ${formatNumber(problem.vertices)} corners; at most ${formatNumber(problem.maxVertices)} are accepted. Simplify the outline and upload it again.`;
     case 'too_few_corners':
       return `Part ${problem.part} of the boundary has a ring with only ${problem.corners} different corners; a field outline needs at least 3.`;
     case 'no_area':
