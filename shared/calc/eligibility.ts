@@ -1,6 +1,6 @@
 import { CalcError } from './errors';
 import { daysInWindow, parseIsoDate, parseWindow } from './dates';
-import { fmt } from './format';
+import { formatNumber } from '../format/figures';
 import type { CreditRule } from './rules';
 import { requireFinite, requireNonNegative, requirePositive } from './validate';
 
@@ -135,7 +135,7 @@ export function creditEligibility(
     if (!(biomass >= threshold)) {
       reasons.push({
         code: 'below_threshold',
-        message: `The estimated biomass, ${fmt(biomass)} kg/ha, is below the ${fmt(threshold)} kg/ha threshold.`,
+        message: `The estimated biomass, ${formatNumber(biomass)} kg/ha, is below the ${formatNumber(threshold)} kg/ha threshold.`,
         data: { biomassKgHa: biomass, thresholdKgHa: threshold },
       });
     }

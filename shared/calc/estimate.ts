@@ -1,6 +1,6 @@
 import { CalcError } from './errors';
 import type { Fit } from './fit-types';
-import { fmt } from './format';
+import { formatNumber } from '../format/figures';
 import { lengthForBiomass } from './inverse';
 import { assertFit, curveRange, interval, predict } from './predict';
 import { tCritical } from './t-dist';
@@ -133,8 +133,8 @@ export function estimateBiomass(fit: Fit, lengthsCm: number[], options: Estimate
   }
 
   // Plain words, in the user's units.
-  const len = (cm: number) => (us ? `${fmt(cm / CM_PER_IN, 1)} in` : `${fmt(cm, 1)} cm`);
-  const mass = (kg: number) => (us ? fmt(kgPerHaToLbPerAc(kg)) : fmt(kg));
+  const len = (cm: number) => (us ? `${formatNumber(cm / CM_PER_IN, 1)} in` : `${formatNumber(cm, 1)} cm`);
+  const mass = (kg: number) => (us ? formatNumber(kgPerHaToLbPerAc(kg)) : formatNumber(kg));
   const mu = us ? 'lb/ac' : 'kg/ha';
   const pct = Math.round(level * 100);
   const parts: string[] = [];

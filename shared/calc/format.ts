@@ -1,5 +1,6 @@
-// Number formatting for plain-words notes and equations. Hand-rolled rather than Intl so the
-// server and every phone produce the same characters whatever locale data they carry.
+// Significant digits for equations and fit notes. Hand-rolled rather than Intl so the server and
+// every phone produce the same characters whatever locale data they carry. Figures to fixed
+// decimals go through formatNumber in shared/format/figures.ts.
 
 /** v to `digits` significant digits, plain decimal where reasonable, exponent form otherwise. */
 export function sig(v: number, digits: number): string {
@@ -8,14 +9,4 @@ export function sig(v: number, digits: number): string {
   const a = Math.abs(v);
   if (a >= 1e-4 && a < 1e9) return String(Number(v.toPrecision(digits)));
   return v.toExponential(digits - 1);
-}
-
-/** Rounded to `decimals` with thousands separators: 5043.83 → "5,044". */
-export function fmt(v: number, decimals = 0): string {
-  if (!Number.isFinite(v)) return String(v);
-  const neg = v < 0 ? '-' : '';
-  const fixed = Math.abs(v).toFixed(decimals);
-  const [int = '', frac] = fixed.split('.');
-  const grouped = int.replace(/\B(?=(\d{3})+(?!\d))/g, ',');
-  return neg + grouped + (frac ? `.${frac}` : '');
 }
