@@ -1,5 +1,6 @@
 import { cmToIn, interval, kgPerHaToLbPerAc, lengthForBiomass, predict, type Fit, type LengthForBiomassResult } from '../../shared/calc';
 import { renderChart, type ChartPoint } from '../../shared/charts/svg';
+import { formatNumber } from '../../shared/format/figures';
 import type { DatasetPoint } from './db';
 
 /*
@@ -23,8 +24,6 @@ export const biomassUnitLabel = (u: DisplayUnits) => (u.biomass === 'lb_ac' ? 'l
 
 /** Prediction band level of the charts and the fit page. */
 export const BAND_LEVEL = 0.9;
-
-const group = (v: number, digits = 0) => v.toFixed(digits).replace(/\B(?=(\d{3})+(?!\d))/g, ',');
 
 export interface ChartInput {
   /** Unique on the page. */
@@ -62,7 +61,7 @@ export function calibrationCharts(input: ChartInput): CalibrationCharts {
   const pts = input.points.map((p) => ({ x: lengthOut(p.x, u), y: biomassOut(p.y, u) }));
   const threshold = biomassOut(input.thresholdKgHa, u);
   const thresholdAt = lengthForBiomass(fit, input.thresholdKgHa);
-  const thresholdText = `${group(threshold)} ${bioUnit}`;
+  const thresholdText = `${formatNumber(threshold)} ${bioUnit}`;
   const reach = thresholdAt.ok ? lengthOut(thresholdAt.x, u) : null;
 
   const layers: Parameters<typeof renderChart>[0]['layers'] = [
@@ -72,18 +71,18 @@ export function calibrationCharts(input: ChartInput): CalibrationCharts {
     { kind: 'hline', label: `Threshold ${thresholdText}`, y: threshold },
   ];
   if (reach !== null) {
-    layers.push({ kind: 'marker', label: 'Length reaching the threshold', x: reach, y: threshold, text: `${group(reach, 1)} ${lenUnit}` });
+    layers.push({ kind: 'marker', label: 'Length reaching the threshold', x: reach, y: threshold, text: `${formatNumber(reach, 1)} ${lenUnit}` });
   }
   const reachWords =
     reach !== null
-      ? `The curve reaches the threshold of ${thresholdText} at a mean main shoot length of ${group(reach, 1)} ${lenUnit}.`
+      ? `The curve reaches the threshold of ${thresholdText} at a mean main shoot length of ${formatNumber(reach, 1)} ${lenUnit}.`
       : `The curve does not reach the threshold of ${thresholdText} within the calibrated lengths.`;
   const xLo = lengthOut(fit.xRange[0], u);
   const xHi = lengthOut(fit.xRange[1], u);
   const scatter = renderChart({
     id: `${input.id}-scatter`,
     title: `${input.subject}: biomass against mean main shoot length`,
-    description: `${fit.n} paired samples from ${group(xLo, 1)} to ${group(xHi, 1)} ${lenUnit}, the fitted curve (${fit.equation}, x in cm, y in kg/ha) and its ${Math.round(BAND_LEVEL * 100)} % prediction band. ${reachWords}`,
+    description: `${fit.n} paired samples from ${formatNumber(xLo, 1)} to ${formatNumber(xHi, 1)} ${lenUnit}, the fitted curve (${fit.equation}, x in cm, y in kg/ha) and its ${Math.round(BAND_LEVEL * 100)} % prediction band. ${reachWords}`,
     xAxis: { label: `Mean main shoot length (${lenUnit})`, include: 0 },
     yAxis: { label: `Oven-dry shoot biomass (${bioUnit})`, include: 0 },
     layers,

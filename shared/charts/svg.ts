@@ -6,6 +6,8 @@
  * No DOM, Node or framework imports: the phone can render the same charts later.
  */
 
+import { formatNumber } from '../format/figures';
+
 export interface ChartPoint {
   x: number;
   y: number;
@@ -80,13 +82,14 @@ export function niceTicks(min: number, max: number, count = 6): { min: number; m
   return { min: lo, max: hi, step, ticks };
 }
 
-/** Tick label: as many decimals as the step needs, thousands grouped with a thin space-free comma. */
+/**
+ * Tick label: as many decimals as the step needs, written by the shared formatter (thousands
+ * grouped with a comma), with a true minus sign (−) below zero.
+ */
 export function tickLabel(value: number, step: number): string {
   const decimals = Math.max(0, Math.min(6, -Math.floor(Math.log10(step) + 1e-9)));
-  const fixed = Math.abs(value).toFixed(decimals);
-  const [int = '', frac] = fixed.split('.');
-  const sign = value < 0 && Number(fixed) !== 0 ? '−' : '';
-  return sign + int.replace(/\B(?=(\d{3})+(?!\d))/g, ',') + (frac ? `.${frac}` : '');
+  const text = formatNumber(Math.abs(value), decimals);
+  return (value < 0 && /[1-9]/.test(text) ? '−' : '') + text;
 }
 
 const r2 = (v: number) => Math.round(v * 100) / 100;

@@ -80,9 +80,11 @@ describe('renderChart', () => {
     expect(threshold).toBeCloseTo(y('4,000') + ((y('6,000') - y('4,000')) * 500) / 2000, 1);
   });
 
-  it('shared/charts is pure (no node:, DOM-only, express, knex or react imports)', () => {
+  it('shared/charts is pure (no node:, DOM-only, express, knex or react imports: only the shared formatter)', () => {
     const src = readFileSync('shared/charts/svg.ts', 'utf8');
-    expect(src).not.toMatch(/^\s*import\s/m);
+    const specs = [...src.matchAll(/^\s*import\s[^;]*?from\s+'([^']+)'/gms)].map((m) => m[1]);
+    expect(specs).toEqual(['../format/figures']);
+    expect(src).not.toMatch(/\brequire\(|\bimport\(/);
   });
 
   it('escapes text for XML', () => {
