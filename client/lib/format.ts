@@ -1,7 +1,10 @@
+import { formatNumber } from '../../shared/format/figures';
 import { LOCALES, type Language } from './i18n';
 
 /**
- * Numbers, lengths, masses, distances and dates for the chosen language and units, through Intl.
+ * Numbers, lengths, masses, distances and dates for the chosen language and units. Numbers are
+ * written by the one shared formatter (shared/format/figures.ts: "4,495.8" in English and Spanish
+ * alike, as Intl writes en-US and es-MX); dates through Intl in the user's locale.
  * Values arrive in SI (cm, kg/ha, m, ha) and are shown in the user's units.
  * Conversion factors are the exact ones of shared/calc/units.ts, repeated here so the first screen
  * does not load the estimation core.
@@ -13,17 +16,6 @@ const CM_PER_IN = 2.54;
 const M_PER_FT = 0.3048;
 const HA_PER_ACRE = 0.40468564224;
 const KG_PER_LB = 0.45359237;
-
-const cache = new Map<string, Intl.NumberFormat>();
-function nf(locale: string, digits: number): Intl.NumberFormat {
-  const key = `${locale}|${digits}`;
-  let f = cache.get(key);
-  if (!f) {
-    f = new Intl.NumberFormat(locale, { minimumFractionDigits: digits, maximumFractionDigits: digits });
-    cache.set(key, f);
-  }
-  return f;
-}
 
 export interface UnitLabels {
   in: string;
@@ -41,7 +33,7 @@ export type Formatter = ReturnType<typeof makeFormatter>;
 export function makeFormatter(language: Language, units: Units, labels: UnitLabels) {
   const locale = LOCALES[language];
   const us = units === 'us';
-  const num = (v: number, digits = 0) => nf(locale, digits).format(v);
+  const num = (v: number, digits = 0) => formatNumber(v, digits, language);
   return {
     locale,
     units,
