@@ -1,10 +1,11 @@
 import { haToAc, kgPerHaToLbPerAc } from '../../shared/calc/units';
 import type { Units } from '../../shared/schemas/session';
-import { dateTime, TIME_ZONE } from '../../shared/format/figures';
+import { dateTime, formatNumber, TIME_ZONE } from '../../shared/format/figures';
 
 /**
  * Numbers and dates as one user reads them: their units (SI is what is stored) and their
- * browser's locale for dates.
+ * browser's locale for dates. Numbers are written by the one shared formatter
+ * (shared/format/figures.ts: "4,495.8"), the same characters as the PDF, CSV and the phone.
  */
 export interface Formatter {
   units: Units;
@@ -26,7 +27,7 @@ const SUPPORTED = ['en-US', 'en-GB', 'en-AU', 'en-CA', 'es-MX', 'es-ES', 'es-US'
 
 const cache = new Map<string, Formatter>();
 
-/** One formatter per units and locale: building Intl formatters is far slower than using them. */
+/** One formatter per units and locale: building an Intl date formatter is far slower than using it. */
 export function makeFormatter(units: Units, acceptLanguage: string | false): Formatter {
   const key = `${units}|${acceptLanguage || ''}`;
   let f = cache.get(key);
@@ -39,12 +40,6 @@ export function makeFormatter(units: Units, acceptLanguage: string | false): For
 
 function buildFormatter(units: Units, acceptLanguage: string | false): Formatter {
   const locale = acceptLanguage || 'en-US';
-  const numberFormats = new Map<number, Intl.NumberFormat>();
-  const numberFmt = (digits: number) => {
-    let nf = numberFormats.get(digits);
-    if (!nf) numberFormats.set(digits, (nf = new Intl.NumberFormat(locale, { maximumFractionDigits: digits, minimumFractionDigits: digits })));
-    return nf;
-  };
   const areaOf = (ha: number) => (units === 'us' ? haToAc(ha) : ha);
   const rateOf = (kg: number) => (units === 'us' ? kgPerHaToLbPerAc(kg) : kg);
   const dateFmt = new Intl.DateTimeFormat(locale, { year: 'numeric', month: 'short', day: 'numeric', timeZone: 'UTC' });
@@ -52,13 +47,13 @@ function buildFormatter(units: Units, acceptLanguage: string | false): Formatter
     units,
     areaUnit: units === 'us' ? 'ac' : 'ha',
     rateUnit: units === 'us' ? 'lb/ac' : 'kg/ha',
-    area: (ha, digits = 1) => (ha == null ? '—' : `${numberFmt(digits).format(areaOf(ha))} ${units === 'us' ? 'ac' : 'ha'}`),
+    area: (ha, digits = 1) => (ha == null ? '—' : `${formatNumber(areaOf(ha), digits)} ${units === 'us' ? 'ac' : 'ha'}`),
     // Plain numbers for form inputs: dot decimals whatever the locale, as <input type=number> wants.
     areaValue: (ha) => (ha == null ? '' : String(Math.round(areaOf(ha) * 1000) / 1000)),
-    rate: (kg) => (kg == null ? '—' : `${numberFmt(0).format(rateOf(kg))} ${units === 'us' ? 'lb/ac' : 'kg/ha'}`),
+    rate: (kg) => (kg == null ? '—' : `${formatNumber(rateOf(kg))} ${units === 'us' ? 'lb/ac' : 'kg/ha'}`),
     rateValue: (kg) => (kg == null ? '' : String(Math.round(rateOf(kg) * 10) / 10)),
     date: (iso) => (iso ? dateFmt.format(new Date(`${iso.slice(0, 10)}T00:00:00Z`)) : '—'),
-    number: (n, digits = 0) => numberFmt(digits).format(n),
+    number: (n, digits = 0) => formatNumber(n, digits),
     dateTime: (iso) => dateTime(iso, 'en', TIME_ZONE),
     timeZone: TIME_ZONE,
   };
