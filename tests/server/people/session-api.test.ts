@@ -44,6 +44,9 @@ describe('POST /api/session', () => {
     const res = await request(t.app).post('/api/session').set('Content-Type', 'application/json').send('{"email":');
     expect(res.status).toBe(400);
     expect(res.body.error.code).toBe('invalid');
+    // Told what is wrong with the body as a whole, not which fields are missing from it.
+    expect(res.body.error.message).toMatch(/not valid JSON/);
+    expect(res.body.error.fields ?? {}).toEqual({});
     expect(JSON.stringify(res.body)).not.toMatch(/at .*\.ts/);
   });
 
