@@ -1,5 +1,5 @@
 import path from 'node:path';
-import express, { type Express, type Router } from 'express';
+import express, { type Express, type Request, type Router } from 'express';
 import session from 'express-session';
 import { pino, type Logger } from 'pino';
 import type { Knex } from 'knex';
@@ -54,6 +54,8 @@ export interface AppDeps {
   lifecycle?: Lifecycle;
 }
 
+const isRead = (req: Request) => req.method === 'GET' || req.method === 'HEAD';
+
 /** Builds the whole app; only server/main.ts listens, so tests build it on a fresh database each. */
 export function createApp(deps: AppDeps): Express {
   const { config, db } = deps;
@@ -93,8 +95,7 @@ export function createApp(deps: AppDeps): Express {
   // Reads carry no body: skip the parsers' content-type checks for them.
   const json = express.json({ limit: '1mb' });
   const form = express.urlencoded({ extended: false, limit: '1mb' });
-  app.use((req, res, next) => (req.method === 'GET' || req.method === 'HEAD' ? next() : json(req, res, next)));
-  app.use((req, res, next) => (req.method === 'GET' || req.method === 'HEAD' ? next() : form(req, res, next)));
+  app.use((req, res, next) => (isRead(req) ? next() : json(req, res, (err?: unknown) => (err ? next(err) : form(req, res, next)))));
 
   const passport = people.configurePassport(db, config.BCRYPT_ROUNDS, deps.fastReads);
   app.use(
@@ -112,7 +113,10 @@ export function createApp(deps: AppDeps): Express {
       },
     }),
   );
-  app.use(passport.initialize());
+  // passport's per-request set-up gives req.logIn and req.logout, which only writes use (sign-in,
+  // sign-out, the password change); reads skip it, as the user is loaded by sessionUser below.
+  const signInOut = passport.initialize();
+  app.use((req, res, next) => (isRead(req) ? next() : signInOut(req, res, next)));
   app.use(people.sessionUser(db, deps.fastReads)); // what passport.session() does, for less per request
   app.use(requestContext);
 
