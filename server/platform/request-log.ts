@@ -37,10 +37,9 @@ export function requestLog(logger: Logger): RequestHandler | null {
     const reqId = typeof incoming === 'string' && PLAIN_ID.test(incoming) ? incoming : `${prefix}-${(++counter).toString(36)}`;
     req.requestId = reqId;
     res.setHeader('X-Request-Id', reqId);
-    let done = false;
-    const write = (aborted: boolean) => {
-      if (done) return;
-      done = true;
+    // 'close' comes once per answer, after 'finish' when it was sent whole: one listener for both.
+    res.once('close', () => {
+      const aborted = !res.writableFinished;
       logger.info(
         {
           reqId,
@@ -52,9 +51,7 @@ export function requestLog(logger: Logger): RequestHandler | null {
         },
         'request',
       );
-    };
-    res.once('finish', () => write(false));
-    res.once('close', () => write(!res.writableFinished));
+    });
     next();
   };
 }
