@@ -33,10 +33,7 @@ function keptSecret(config: Config, name: string): string {
 
 async function main() {
   const config = loadConfig();
-  // Written asynchronously: lines logged while a write is under way go out together in the next
-  // one (one write per request cost the busy server a few points); pino writes what is left when
-  // the process exits, so only a crash of the machine itself can lose the last lines.
-  const logger = pino({ level: config.LOG_LEVEL }, pino.destination({ sync: false }));
+  const logger = pino({ level: config.LOG_LEVEL });
   // Registers are signed with a key kept outside the database (README, "Register signatures").
   config.REGISTER_SIGNING_KEY ??= keptSecret(config, '.register-signing-key');
   if (!config.S3_BUCKET) fs.mkdirSync(path.resolve(config.UPLOADS_DIR), { recursive: true });
