@@ -1,5 +1,6 @@
 import { inToCm, lbPerAcToKgPerHa } from '../../shared/calc';
 import { CsvReadError, readCsvText, type CsvTable } from '../platform/csv-read';
+import { formatUpTo } from '../../shared/format/figures';
 import { BIOMASS_UNITS, LENGTH_UNITS, type BiomassUnit, type DatasetPoint, type LengthUnit } from './db';
 
 /*
@@ -162,7 +163,6 @@ function isIsoDate(s: string): boolean {
   return !Number.isNaN(d.getTime()) && d.toISOString().slice(0, 10) === s;
 }
 
-const fmtLimit = (v: number) => String(Math.round(v * 10) / 10).replace(/\B(?=(\d{3})+(?!\d))/g, ',');
 
 export interface CheckOptions {
   lengthUnit?: LengthUnit | null;
@@ -234,11 +234,11 @@ export function checkCalibrationCsv(text: string, options: CheckOptions = {}): I
     if (rawLength === '') fail(line, `${lengthName} is empty.`);
     else if (length === null) fail(line, `${lengthName} “${rawLength}” is not a number.`);
     else if (length <= 0) fail(line, `${lengthName} must be greater than 0 (it is ${rawLength}).`);
-    else if (lengthUnit && length > maxLen) fail(line, `${lengthName} ${rawLength}${lenUnit} is longer than ${fmtLimit(maxLen)}${lenUnit}: check the value and the unit.`);
+    else if (lengthUnit && length > maxLen) fail(line, `${lengthName} ${rawLength}${lenUnit} is longer than ${formatUpTo(maxLen, 1)}${lenUnit}: check the value and the unit.`);
     if (rawBiomass === '') fail(line, `${biomassName} is empty.`);
     else if (biomass === null) fail(line, `${biomassName} “${rawBiomass}” is not a number.`);
     else if (biomass < 0) fail(line, `${biomassName} must not be negative (it is ${rawBiomass}).`);
-    else if (biomassUnit && biomass > maxBio) fail(line, `${biomassName} ${rawBiomass}${bioUnit} is more than ${fmtLimit(maxBio)}${bioUnit}: check the value and the unit.`);
+    else if (biomassUnit && biomass > maxBio) fail(line, `${biomassName} ${rawBiomass}${bioUnit} is more than ${formatUpTo(maxBio, 1)}${bioUnit}: check the value and the unit.`);
     const date = cell(map.date);
     if (date && !isIsoDate(date)) fail(line, `date “${date}” is not a date written YYYY-MM-DD.`);
     const site = cell(map.site);

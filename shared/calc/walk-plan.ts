@@ -23,6 +23,7 @@ import {
   toXY,
   unrotate,
 } from '../geo/plane';
+import { formatNumber, formatUpTo } from '../format/figures';
 import { CalcError } from './errors';
 import { M_PER_FT } from './units';
 import { requireNonNegative } from './validate';
@@ -662,7 +663,7 @@ export function englishNote(parts: WalkNotePart[], formatM: (m: number) => strin
     } else if (p.code === 'margin_reduced') {
       out.push(`The field is too small for a ${formatM(p.askedM)} edge margin, so ${formatM(p.usedM)} is kept.`);
     } else if (p.code === 'no_boundary') {
-      out.push(`No boundary on file: the plan assumes a square field of ${p.areaHa.toFixed(2)} ha.`);
+      out.push(`No boundary on file: the plan assumes a square field of ${formatNumber(p.areaHa, 2)} ha.`);
     } else {
       out.push(`Paces assume a ${p.paceM} m step (common practice).`);
     }
@@ -671,7 +672,7 @@ export function englishNote(parts: WalkNotePart[], formatM: (m: number) => strin
 }
 
 function metres(m: number): string {
-  return `${m >= 10 ? Math.round(m) : Math.round(m * 10) / 10} m`;
+  return `${m >= 10 ? formatNumber(m) : formatUpTo(m, 1)} m`;
 }
 
 /** A field's plan as the phone draws it, and whether its boundary on file had to be set aside. */

@@ -1,4 +1,5 @@
 import type { z } from 'zod';
+import { formatUpTo } from '../format/figures';
 
 /*
  * Plain words for every check a schema states without its own message. zod's own texts ("Invalid
@@ -34,7 +35,7 @@ const FORMAT_WORDS: Record<string, string> = {
   regex: 'This is not written the expected way.',
 };
 
-const plainNumber = (n: number | bigint) => String(n).replace(/\B(?=(\d{3})+(?!\d))/g, ',');
+const plainNumber = (n: number | bigint) => formatUpTo(Number(n), 6);
 
 /** The plain-words message for one zod issue, or undefined to keep the schema's own message. */
 export function plainIssueMessage(issue: Issue): string {
