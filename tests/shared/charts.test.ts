@@ -29,6 +29,8 @@ describe('nice ticks', () => {
     expect(tickLabel(0.4, 0.2)).toBe('0.4');
     expect(tickLabel(-2000, 1000)).toBe('−2,000');
     expect(tickLabel(0, 0.5)).toBe('0.0');
+    expect(tickLabel(-0.001, 0.5)).toBe('0.0'); // −0.001 to one decimal is 0.0: no minus sign on zero
+    expect(tickLabel(-0.25, 0.05)).toBe('−0.25');
   });
 });
 
