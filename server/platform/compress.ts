@@ -4,6 +4,7 @@ import zlib from 'node:zlib';
 import compression from 'compression';
 import expressStaticGzip from 'express-static-gzip';
 import type { Request, RequestHandler, Response } from 'express';
+import { DOCUMENT_ONLY } from './security';
 
 /**
  * What crosses the wire compressed, and how (README, "Speed", compression):
@@ -17,24 +18,10 @@ import type { Request, RequestHandler, Response } from 'express';
 /** Hashed file names (Vite's assets/) never change content: a year, immutable. */
 const HASHED = `${path.sep}assets${path.sep}`;
 
-/**
- * Headers that only a document (or a worker) acts on: a script, stylesheet, font or web manifest
- * is never one, so they are left off those files, where they were a third of each small answer on
- * a phone's first visit. HTML and SVG (which can be opened as a page) keep them all; every file
- * keeps nosniff and Cross-Origin-Resource-Policy, which do apply to it.
- */
-const DOCUMENT_ONLY = [
-  'Content-Security-Policy',
-  'Cross-Origin-Opener-Policy',
-  'Origin-Agent-Cluster',
-  'Referrer-Policy',
-  'Strict-Transport-Security',
-  'X-DNS-Prefetch-Control',
-  'X-Download-Options',
-  'X-Frame-Options',
-  'X-Permitted-Cross-Domain-Policies',
-  'X-XSS-Protection',
-];
+// Headers that only a document acts on (DOCUMENT_ONLY in security.ts) are left off scripts,
+// styles, fonts and the web manifest, which are never one: they were a third of each small answer
+// on a phone's first visit. HTML and SVG (which can be opened as a page) keep them all; every file
+// keeps nosniff and Cross-Origin-Resource-Policy, which do apply to it.
 const NEVER_A_DOCUMENT = /\.(?:js|mjs|css|woff2?|webmanifest)(?:\.(?:br|gz))?$/i;
 
 /** The built client under /static, each file as its smallest copy the browser accepts. */

@@ -8,26 +8,53 @@ import { HttpError } from './errors';
  * and images; no inline script. In development Vite's hot reload needs inline styles and a socket.
  */
 export function securityHeaders(dev: boolean): RequestHandler {
-  return precomputed(helmetFor(dev));
+  const { set, removed } = recorded(helmetFor(dev));
+  // A JSON answer is never a page that runs or frames anything: it keeps nosniff and the resource
+  // policy, and a content policy that allows nothing; the headers only a document acts on are left
+  // off, as they are for built scripts and styles (DOCUMENT_ONLY).
+  const api: Header[] = [...set.filter(([name]) => !DOCUMENT_ONLY.includes(name.toLowerCase())), ['Content-Security-Policy', API_CONTENT_POLICY]];
+  return (req, res, next) => {
+    for (const [name, value] of req.url.startsWith('/api/') ? api : set) res.setHeader(name, value);
+    for (const name of removed) res.removeHeader(name);
+    next();
+  };
 }
+
+type Header = [string, string | number | readonly string[]];
+
+/** The content policy of JSON answers: nothing may load, and no page may frame them. */
+export const API_CONTENT_POLICY = "default-src 'none'; frame-ancestors 'none'";
+
+/**
+ * Headers that only a document (or a worker) acts on. Built scripts, styles, fonts and the web
+ * manifest go without them (server/platform/compress.ts), and so do JSON answers.
+ */
+export const DOCUMENT_ONLY = [
+  'content-security-policy',
+  'cross-origin-opener-policy',
+  'origin-agent-cluster',
+  'referrer-policy',
+  'strict-transport-security',
+  'x-dns-prefetch-control',
+  'x-download-options',
+  'x-frame-options',
+  'x-permitted-cross-domain-policies',
+  'x-xss-protection',
+];
 
 /**
  * helmet's headers do not depend on the request (no nonces here), so they are worked out once and
  * then copied onto each response: the same headers for a fraction of the per-request work.
  */
-function precomputed(middleware: RequestHandler): RequestHandler {
-  const set: [string, string | number | readonly string[]][] = [];
+function recorded(middleware: RequestHandler): { set: Header[]; removed: string[] } {
+  const set: Header[] = [];
   const removed: string[] = [];
   const recorder = {
     setHeader: (name: string, value: string | number | readonly string[]) => void set.push([name, value]),
     removeHeader: (name: string) => void removed.push(name),
   };
   middleware({} as never, recorder as never, () => undefined);
-  return (_req, res, next) => {
-    for (const [name, value] of set) res.setHeader(name, value);
-    for (const name of removed) res.removeHeader(name);
-    next();
-  };
+  return { set, removed };
 }
 
 function helmetFor(dev: boolean): RequestHandler {
