@@ -1,10 +1,11 @@
-import { formatNumber } from '../../shared/format/figures';
+import { date, formatNumber } from '../../shared/format/figures';
 import { LOCALES, type Language } from './i18n';
 
 /**
  * Numbers, lengths, masses, distances and dates for the chosen language and units. Numbers are
  * written by the one shared formatter (shared/format/figures.ts: "4,495.8" in English and Spanish
- * alike, as Intl writes en-US and es-MX); dates through Intl in the user's locale.
+ * alike, as Intl writes en-US and es-MX) and calendar dates too ("Dec 2, 2026", "2 dic 2026");
+ * only a moment with its hour goes through Intl, in the phone's own time zone.
  * Values arrive in SI (cm, kg/ha, m, ha) and are shown in the user's units.
  * Conversion factors are the exact ones of shared/calc/units.ts, repeated here so the first screen
  * does not load the estimation core.
@@ -54,9 +55,11 @@ export function makeFormatter(language: Language, units: Units, labels: UnitLabe
     area: (ha: number) => `${num(us ? ha / HA_PER_ACRE : ha, 1)} ${us ? labels.ac : labels.ha}`,
     /** 'YYYY-MM-DD' as a short local date (no time zone shift: it is a calendar date). */
     date: (iso: string) => {
-      const [y, m, d] = iso.slice(0, 10).split('-').map(Number);
-      if (!y || !m || !d) return iso;
-      return new Intl.DateTimeFormat(locale, { day: 'numeric', month: 'short', year: 'numeric' }).format(new Date(y, m - 1, d));
+      try {
+        return date(iso.slice(0, 10), language);
+      } catch {
+        return iso; // not a real calendar date: shown as it came
+      }
     },
     dateTime: (ms: number) =>
       new Intl.DateTimeFormat(locale, { day: 'numeric', month: 'short', hour: 'numeric', minute: '2-digit' }).format(new Date(ms)),

@@ -1,11 +1,11 @@
 import { haToAc, kgPerHaToLbPerAc } from '../../shared/calc/units';
 import type { Units } from '../../shared/schemas/session';
-import { dateTime, formatNumber, TIME_ZONE } from '../../shared/format/figures';
+import { date, dateTime, formatNumber, TIME_ZONE } from '../../shared/format/figures';
 
 /**
- * Numbers and dates as one user reads them: their units (SI is what is stored) and their
- * browser's locale for dates. Numbers are written by the one shared formatter
- * (shared/format/figures.ts: "4,495.8"), the same characters as the PDF, CSV and the phone.
+ * Numbers and dates as one user reads them: their units (SI is what is stored), and dates in
+ * Spanish when the browser prefers it. Both are written by the one shared formatter
+ * (shared/format/figures.ts: "4,495.8", "Dec 2, 2026" or "2 dic 2026"), as the PDF, CSV and phone write them.
  */
 export interface Formatter {
   units: Units;
@@ -27,7 +27,7 @@ const SUPPORTED = ['en-US', 'en-GB', 'en-AU', 'en-CA', 'es-MX', 'es-ES', 'es-US'
 
 const cache = new Map<string, Formatter>();
 
-/** One formatter per units and locale: building an Intl date formatter is far slower than using it. */
+/** One formatter per units and locale, made once. */
 export function makeFormatter(units: Units, acceptLanguage: string | false): Formatter {
   const key = `${units}|${acceptLanguage || ''}`;
   let f = cache.get(key);
@@ -39,10 +39,9 @@ export function makeFormatter(units: Units, acceptLanguage: string | false): For
 }
 
 function buildFormatter(units: Units, acceptLanguage: string | false): Formatter {
-  const locale = acceptLanguage || 'en-US';
+  const lang = acceptLanguage && acceptLanguage.startsWith('es') ? 'es' : 'en';
   const areaOf = (ha: number) => (units === 'us' ? haToAc(ha) : ha);
   const rateOf = (kg: number) => (units === 'us' ? kgPerHaToLbPerAc(kg) : kg);
-  const dateFmt = new Intl.DateTimeFormat(locale, { year: 'numeric', month: 'short', day: 'numeric', timeZone: 'UTC' });
   return {
     units,
     areaUnit: units === 'us' ? 'ac' : 'ha',
@@ -52,7 +51,8 @@ function buildFormatter(units: Units, acceptLanguage: string | false): Formatter
     areaValue: (ha) => (ha == null ? '' : String(Math.round(areaOf(ha) * 1000) / 1000)),
     rate: (kg) => (kg == null ? '—' : `${formatNumber(rateOf(kg))} ${units === 'us' ? 'lb/ac' : 'kg/ha'}`),
     rateValue: (kg) => (kg == null ? '' : String(Math.round(rateOf(kg) * 10) / 10)),
-    date: (iso) => (iso ? dateFmt.format(new Date(`${iso.slice(0, 10)}T00:00:00Z`)) : '—'),
+    // A stored timestamp is shown by its UTC calendar day, as before.
+    date: (iso) => (iso ? date(iso.slice(0, 10), lang) : '—'),
     number: (n, digits = 0) => formatNumber(n, digits),
     dateTime: (iso) => dateTime(iso, 'en', TIME_ZONE),
     timeZone: TIME_ZONE,

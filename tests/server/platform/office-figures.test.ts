@@ -18,4 +18,21 @@ describe('office figures', () => {
     expect(metric.rate(5043.83)).toBe('5,044 kg/ha');
     expect(metric.area(null)).toBe('—');
   });
+
+  // Calendar days through the shared formatter, checked against Intl (an independent writer):
+  // en-US for English and es-MX, the app's Spanish, for a browser preferring Spanish.
+  const DAYS = ['2026-12-02', '2027-01-15', '2026-09-05'];
+  const intl = (locale: string, day: string) => new Intl.DateTimeFormat(locale, { day: 'numeric', month: 'short', year: 'numeric', timeZone: 'UTC' }).format(new Date(`${day}T00:00:00Z`));
+  it.each([
+    ['en-US', 'en-US'],
+    [false, 'en-US'],
+    ['es-ES', 'es-MX'],
+    ['es', 'es-MX'],
+  ] as const)('write a calendar day for a browser asking for %s as Intl %s does', (locale, like) => {
+    const f = makeFormatter('us', locale);
+    for (const day of DAYS) expect(f.date(day)).toBe(intl(like, day));
+    // A stored timestamp shows its UTC calendar day.
+    expect(f.date('2026-12-02T23:30:00.000Z')).toBe(intl(like, '2026-12-02'));
+    expect(f.date(null)).toBe('—');
+  });
 });
