@@ -1,4 +1,4 @@
-import type { Request, RequestHandler } from 'express';
+import type { Request, RequestHandler, Response } from 'express';
 import { HttpError } from '../platform/errors';
 import { normaliseEmail } from './db';
 
@@ -98,17 +98,22 @@ export function accessLimits(settings: AccessLimitSettings, store: AttemptStore 
       }
       const delay = accountDelayMs(account, settings);
       if (delay) await sleep(delay);
-      // Failures (wrong password, unknown address, bad token) count once the answer is known;
-      // a successful sign-in clears its own pair.
-      res.on('finish', () => {
+      // Failures (wrong password, unknown address, bad token) count once the answer is known, and
+      // are written before the answer goes out: a client that tries again the moment it hears
+      // "wrong password" finds the failure counted, also where the counters are in the database.
+      // A successful sign-in clears its own pair.
+      const end = res.end.bind(res) as unknown as (...args: unknown[]) => Response;
+      res.end = ((...args: unknown[]) => {
         const failed = res.statusCode >= 400 && res.statusCode !== 429;
         const work = failed
           ? Promise.all([store.hit(k.pair, WINDOW_MS), store.hit(k.address, WINDOW_MS), k.account !== 'acct:' ? store.hit(k.account, WINDOW_MS) : 0])
           : res.statusCode < 400
             ? store.reset(k.pair)
-            : Promise.resolve();
-        work.catch(() => undefined);
-      });
+            : null;
+        if (!work) return end(...args);
+        work.catch(() => undefined).then(() => end(...args));
+        return res;
+      }) as Response['end'];
       next();
     } catch (err) {
       next(err);
