@@ -9,7 +9,7 @@
  */
 import { pathToFileURL } from 'node:url';
 import { CONNECTIONS, SECONDS, best, loadGet, loadWalks, signIn, type LoadResult, type WalkLoadResult } from './http';
-import { nth } from './nth';
+import { at } from '../tests/helpers/lists';
 import type { Row } from './report';
 import { DEMO_PASSWORD, makeDataDir, startServer, type StartedServer } from './server-process';
 import { createThrowawayDatabase, dropDatabase, postgresUnavailable } from '../tests/helpers/postgres';
@@ -49,7 +49,7 @@ export async function runPostgresBench(): Promise<Row[]> {
         const clerk = await signIn(server.url, 'clerk@crowntip.test', DEMO_PASSWORD);
         const sampler = await signIn(server.url, 'sampler@crowntip.test', DEMO_PASSWORD);
         const today = (await (await fetch(`${server.url}/api/today`, { headers: { cookie: sampler.cookie } })).json()) as { items: { plantingId: string; calibrationId: string | null }[] };
-        const planting = today.items.find((p) => p.calibrationId) ?? nth(today.items, 0);
+        const planting = today.items.find((p) => p.calibrationId) ?? at(today.items, 0);
         return { clerk, sampler, plantingId: planting.plantingId };
       }),
     );
@@ -57,11 +57,11 @@ export async function runPostgresBench(): Promise<Row[]> {
     const rounds: { reads: LoadResult[][]; walks: WalkLoadResult[] }[] = engines.map(() => ({ reads: READS.map(() => []), walks: [] }));
     for (let round = 0; round < 2; round++) {
       for (const [p, path] of READS.entries()) {
-        for (const [e, { server }] of engines.entries()) nth(nth(rounds, e).reads, p).push(await loadGet(`${server.url}${path}`, { cookie: nth(sessions, e).clerk.cookie }));
+        for (const [e, { server }] of engines.entries()) at(at(rounds, e).reads, p).push(await loadGet(`${server.url}${path}`, { cookie: at(sessions, e).clerk.cookie }));
       }
       for (const [e, { server }] of engines.entries()) {
-        const session = nth(sessions, e);
-        nth(rounds, e).walks.push(await loadWalks(server.url, session.sampler, session.plantingId, walkedOn));
+        const session = at(sessions, e);
+        at(rounds, e).walks.push(await loadWalks(server.url, session.sampler, session.plantingId, walkedOn));
       }
     }
     const results: EngineResult[] = rounds.map((r) => ({
@@ -72,21 +72,21 @@ export async function runPostgresBench(): Promise<Row[]> {
     console.log(`\nPostgreSQL beside SQLite, ${CONNECTIONS} connections, better of two ${SECONDS}-s rounds, taken in turn (PostgreSQL at ${new URL(adminUrl!).host})`);
     for (const [p, path] of READS.entries()) {
       for (const [e, { name }] of engines.entries()) {
-        const r = nth(nth(results, e).reads, p);
-        console.log(`  ${`GET ${path}`.padEnd(24)} ${name.padEnd(10)} ${rps(r.rps)} (rounds: ${nth(nth(rounds, e).reads, p).map((x) => Math.round(x.rps)).join(', ')}), p99 ${ms(r.p99)}`);
+        const r = at(at(results, e).reads, p);
+        console.log(`  ${`GET ${path}`.padEnd(24)} ${name.padEnd(10)} ${rps(r.rps)} (rounds: ${at(at(rounds, e).reads, p).map((x) => Math.round(x.rps)).join(', ')}), p99 ${ms(r.p99)}`);
       }
     }
     for (const [e, { name }] of engines.entries()) {
-      const w = nth(results, e).walks;
+      const w = at(results, e).walks;
       console.log(`  walks ${name.padEnd(10)} ${w.walks} walks (${w.walksPerSec.toFixed(0)}/s), create+submit p99 ${ms(w.p99PairMs)}, ${w.non2xx} non-2xx, ${w.duplicates} duplicates`);
     }
 
-    const [lite, post] = [nth(results, 0), nth(results, 1)];
+    const [lite, post] = [at(results, 0), at(results, 1)];
     const rows: Row[] = READS.map((path, p) => ({
       what: `PostgreSQL: GET ${path} (clerk), req/s`,
-      measured: rps(nth(post.reads, p).rps),
-      target: `SQLite ${rps(nth(lite.reads, p).rps)}`,
-      ratio: `${((100 * nth(post.reads, p).rps) / nth(lite.reads, p).rps).toFixed(0)} %`,
+      measured: rps(at(post.reads, p).rps),
+      target: `SQLite ${rps(at(lite.reads, p).rps)}`,
+      ratio: `${((100 * at(post.reads, p).rps) / at(lite.reads, p).rps).toFixed(0)} %`,
       verdict: 'INFO',
     }));
     rows.push(
@@ -99,10 +99,10 @@ export async function runPostgresBench(): Promise<Row[]> {
       },
       {
         what: 'PostgreSQL: duplicate walks after both rounds',
-        measured: String(nth(rounds, 1).walks.reduce((s, w) => s + w.duplicates, 0)),
+        measured: String(at(rounds, 1).walks.reduce((s, w) => s + w.duplicates, 0)),
         target: '0',
         ratio: '—',
-        verdict: nth(rounds, 1).walks.every((w) => w.duplicates === 0 && w.walks > 0) ? 'PASS' : 'FAIL',
+        verdict: at(rounds, 1).walks.every((w) => w.duplicates === 0 && w.walks > 0) ? 'PASS' : 'FAIL',
       },
     );
     return rows;

@@ -13,7 +13,7 @@ import { FIRST_SCREEN_JS_BUDGET, runCaptureBench } from './capture-size';
 import { printFirstLoad, runFirstLoad, type FirstLoadResult } from './first-load';
 import { best, CONNECTIONS, loadGet, loadWalks, SECONDS, signIn, startBare, type LoadResult, type WalkLoadResult } from './http';
 import { REGISTER_CLERK, REGISTER_FIELDS, addLargeRegister, timeRegisterBuild, type RegisterBuildResult } from './register-build';
-import { nth } from './nth';
+import { at } from '../tests/helpers/lists';
 import { atMost, printRows, shareOfBare, type Row } from './report';
 import { DEMO_PASSWORD, makeDataDir, startServer } from './server-process';
 import { runPostgresBench } from './postgres';
@@ -81,7 +81,7 @@ try {
   for (let round = 0; round < 2; round++) {
     bareRounds.push(await loadGet(`${bare.url}/ping`));
     for (const [i, r] of READS.entries()) {
-      nth(readRounds, i).push(await loadGet(`${server.url}${r.path}`, { cookie: clerk.cookie }));
+      at(readRounds, i).push(await loadGet(`${server.url}${r.path}`, { cookie: clerk.cookie }));
       if (i === 0) quietRounds.push(await loadGet(`${quiet.url}${r.path}`, { cookie: quietClerk.cookie }));
     }
   }
@@ -92,7 +92,7 @@ try {
   const quietBest = quietRounds.reduce(best);
 
   // 5. Walk submissions at 50 connections (the sampler, one planting with a calibration).
-  const planting = today.items.find((p) => p.calibrationId) ?? nth(today.items, 0);
+  const planting = today.items.find((p) => p.calibrationId) ?? at(today.items, 0);
   const walkedOn = new Date().toISOString().slice(0, 10);
   const walkRounds: WalkLoadResult[] = [];
   for (let round = 0; round < 2; round++) walkRounds.push(await loadWalks(server.url, sampler, planting.plantingId, walkedOn));
@@ -119,7 +119,7 @@ try {
   console.log(`\nHTTP, ${CONNECTIONS} connections, better of two ${SECONDS}-s rounds, loopback, each server in its own process`);
   console.log(`  bare Express /ping              ${Math.round(bareBest.rps)} req/s (rounds: ${bareRounds.map((r) => Math.round(r.rps)).join(', ')}), p99 ${ms(bareBest.p99)}`);
   for (const [i, r] of READS.entries()) {
-    console.log(`  ${`GET ${r.path}`.padEnd(32)} ${Math.round(nth(readBest, i).rps)} req/s (rounds: ${nth(readRounds, i).map((x) => Math.round(x.rps)).join(', ')}), p99 ${ms(nth(readBest, i).p99)}`);
+    console.log(`  ${`GET ${r.path}`.padEnd(32)} ${Math.round(at(readBest, i).rps)} req/s (rounds: ${at(readRounds, i).map((x) => Math.round(x.rps)).join(', ')}), p99 ${ms(at(readBest, i).p99)}`);
   }
   console.log(`  GET /api/session, LOG_LEVEL=warn ${Math.round(quietBest.rps)} req/s (rounds: ${quietRounds.map((x) => Math.round(x.rps)).join(', ')}), p99 ${ms(quietBest.p99)}`);
   for (const [i, w] of walkRounds.entries()) {
@@ -136,7 +136,7 @@ try {
   printFirstLoad(firstLoad, server.url);
 
   // The table, in the order of the targets.
-  const pctSession = (100 * nth(readBest, 0).rps) / bareBest.rps;
+  const pctSession = (100 * at(readBest, 0).rps) / bareBest.rps;
   const pctQuiet = (100 * quietBest.rps) / bareBest.rps;
   const loggingPoints = pctQuiet - pctSession;
   rows.push(
@@ -158,8 +158,8 @@ try {
     },
   );
   for (const [i, r] of READS.entries()) {
-    rows.push(shareOfBare(`GET ${r.path} (clerk), req/s`, nth(readBest, i).rps, bareBest.rps, r.minPct));
-    rows.push(atMost(`GET ${r.path}, p99 at ${CONNECTIONS} connections`, nth(readBest, i).p99, 100, ms));
+    rows.push(shareOfBare(`GET ${r.path} (clerk), req/s`, at(readBest, i).rps, bareBest.rps, r.minPct));
+    rows.push(atMost(`GET ${r.path}, p99 at ${CONNECTIONS} connections`, at(readBest, i).p99, 100, ms));
   }
   rows.push(
     {
