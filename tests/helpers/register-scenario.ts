@@ -1,3 +1,5 @@
+import { afterEach, beforeEach } from 'vitest';
+import { createTestApp, type TestApp } from './app';
 import { randomUUID } from 'node:crypto';
 import type { Knex } from 'knex';
 import { CEREAL_CROPS } from '../../shared/calc/rules';
@@ -155,4 +157,21 @@ export async function buildHandWorkedScenario(db: Knex) {
     i: await insertWalk(db, p.i, '2025-03-05', 6000),
   };
   return { ranchId, fields: f, plantings: p, walks: w, ruleV2: v2 };
+}
+
+export type HandWorkedScenario = Awaited<ReturnType<typeof buildHandWorkedScenario>>;
+
+/**
+ * Gives each test of the file a fresh app holding the hand-worked scenario: `use` receives both
+ * before every test, and the app is closed after it.
+ */
+export function freshScenarioForEachTest(use: (t: TestApp, s: HandWorkedScenario) => void): void {
+  let app: TestApp | undefined;
+  beforeEach(async () => {
+    app = await createTestApp();
+    use(app, await buildHandWorkedScenario(app.db));
+  });
+  afterEach(async () => {
+    await app?.close();
+  });
 }

@@ -1,7 +1,7 @@
-import { afterEach, beforeEach, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import request from 'supertest';
-import { createTestApp, csrfFromHtml, signInApi, signInPages, type TestApp, locationOf } from '../../helpers/app';
-import { ORG, YEAR, buildHandWorkedScenario } from '../../helpers/register-scenario';
+import { csrfFromHtml, signInApi, signInPages, type TestApp, locationOf } from '../../helpers/app';
+import { ORG, YEAR, freshScenarioForEachTest, type HandWorkedScenario } from '../../helpers/register-scenario';
 import { acToHa } from '../../../shared/calc/units';
 import { computeRegister } from '../../../server/registers/service';
 import { endOfYear, registryCutoff, rewindRegistry } from '../../../server/registers/registry-as-of';
@@ -9,13 +9,10 @@ import { endOfYear, registryCutoff, rewindRegistry } from '../../../server/regis
 // Reporting year 2025 (season 2024-25) is over on the machine's clock (tests run after 2025), so
 // its drafts read the registry as it stood at the end of 2025 until a version is finalised.
 let t: TestApp;
-let s: Awaited<ReturnType<typeof buildHandWorkedScenario>>;
-beforeEach(async () => {
-  t = await createTestApp();
-  s = await buildHandWorkedScenario(t.db);
-});
-afterEach(async () => {
-  await t.close();
+let s: HandWorkedScenario;
+freshScenarioForEachTest((app, scenario) => {
+  t = app;
+  s = scenario;
 });
 
 type Agent = ReturnType<typeof request.agent>;

@@ -1,8 +1,8 @@
 import { createHash, createHmac } from 'node:crypto';
-import { afterEach, beforeEach, describe, expect, it } from 'vitest';
+import { afterEach, describe, expect, it } from 'vitest';
 import type { Express } from 'express';
-import { createTestApp, signInApi, signInPages, TEST_SIGNING_KEY, type TestApp } from '../../helpers/app';
-import { YEAR, buildHandWorkedScenario } from '../../helpers/register-scenario';
+import { signInApi, signInPages, TEST_SIGNING_KEY, type TestApp } from '../../helpers/app';
+import { YEAR, freshScenarioForEachTest, type HandWorkedScenario } from '../../helpers/register-scenario';
 import { createApp } from '../../../server/app';
 import { loadConfig } from '../../../server/platform/config';
 
@@ -19,13 +19,10 @@ const hmac = (key: string, s: string) => createHmac('sha256', key).update(s, 'ut
 const keyId = (key: string) => sha(`crowntip register key\n${key}`).slice(0, 16);
 
 let t: TestApp;
-let s: Awaited<ReturnType<typeof buildHandWorkedScenario>>;
-beforeEach(async () => {
-  t = await createTestApp();
-  s = await buildHandWorkedScenario(t.db);
-});
-afterEach(async () => {
-  await t.close();
+let s: HandWorkedScenario;
+freshScenarioForEachTest((app, scenario) => {
+  t = app;
+  s = scenario;
 });
 
 /** Two finalised versions: v1, then v2 after a registry change (C terminated earlier). */

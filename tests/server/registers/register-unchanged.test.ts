@@ -1,15 +1,12 @@
-import { afterEach, beforeEach, describe, expect, it } from 'vitest';
-import { createTestApp, csrfFromHtml, signInApi, signInPages, type TestApp, locationOf } from '../../helpers/app';
-import { YEAR, buildHandWorkedScenario } from '../../helpers/register-scenario';
+import { describe, expect, it } from 'vitest';
+import { csrfFromHtml, signInApi, signInPages, type TestApp, locationOf } from '../../helpers/app';
+import { YEAR, freshScenarioForEachTest, type HandWorkedScenario } from '../../helpers/register-scenario';
 
 let t: TestApp;
-let s: Awaited<ReturnType<typeof buildHandWorkedScenario>>;
-beforeEach(async () => {
-  t = await createTestApp();
-  s = await buildHandWorkedScenario(t.db);
-});
-afterEach(async () => {
-  await t.close();
+let s: HandWorkedScenario;
+freshScenarioForEachTest((app, scenario) => {
+  t = app;
+  s = scenario;
 });
 
 describe('finalising an identical register again', () => {

@@ -1,7 +1,7 @@
-import { afterEach, beforeEach, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { parse } from 'csv-parse/sync';
-import { createTestApp, signInApi, signInPages, type TestApp } from '../../helpers/app';
-import { ORG, YEAR, buildHandWorkedScenario, estimateSnapshot } from '../../helpers/register-scenario';
+import { signInApi, signInPages, type TestApp } from '../../helpers/app';
+import { ORG, YEAR, estimateSnapshot, freshScenarioForEachTest, type HandWorkedScenario } from '../../helpers/register-scenario';
 import { canonicalJson, computeRegister, sha256Hex, type RegisterRow } from '../../../server/registers/service';
 
 /*
@@ -19,13 +19,10 @@ import { canonicalJson, computeRegister, sha256Hex, type RegisterRow } from '../
 const TODAY = '2026-12-01';
 
 let t: TestApp;
-let s: Awaited<ReturnType<typeof buildHandWorkedScenario>>;
-beforeEach(async () => {
-  t = await createTestApp();
-  s = await buildHandWorkedScenario(t.db);
-});
-afterEach(async () => {
-  await t.close();
+let s: HandWorkedScenario;
+freshScenarioForEachTest((app, scenario) => {
+  t = app;
+  s = scenario;
 });
 
 const rowOf = (rows: RegisterRow[], name: string) => rows.find((r) => r.fieldName === name)!;

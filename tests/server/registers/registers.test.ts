@@ -1,11 +1,11 @@
 import { createHash } from 'node:crypto';
-import { afterEach, beforeEach, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import request from 'supertest';
 import type { Knex } from 'knex';
 import { parse } from 'csv-parse/sync';
 import { extractText, getDocumentProxy } from 'unpdf';
-import { createTestApp, csrfFromHtml, signInApi, signInPages, type TestApp, locationOf } from '../../helpers/app';
-import { ORG, OTHER_ORG, YEAR, buildHandWorkedScenario, insertField, insertRanch } from '../../helpers/register-scenario';
+import { csrfFromHtml, signInApi, signInPages, type TestApp, locationOf } from '../../helpers/app';
+import { ORG, OTHER_ORG, YEAR, insertField, insertRanch, freshScenarioForEachTest, type HandWorkedScenario } from '../../helpers/register-scenario';
 import { HttpError } from '../../../server/platform/errors';
 import { jsonValue } from '../../../server/platform/column-values';
 import { computeRegister, finaliseRegister, canonicalJson, seasonOfYear, reportingYearOf } from '../../../server/registers/service';
@@ -49,13 +49,10 @@ const AC = 0.40468564224;
 const LB = 0.45359237;
 
 let t: TestApp;
-let s: Awaited<ReturnType<typeof buildHandWorkedScenario>>;
-beforeEach(async () => {
-  t = await createTestApp();
-  s = await buildHandWorkedScenario(t.db);
-});
-afterEach(async () => {
-  await t.close();
+let s: HandWorkedScenario;
+freshScenarioForEachTest((app, scenario) => {
+  t = app;
+  s = scenario;
 });
 
 const rowOf = (reg: { rows: { fieldName: string }[] }, name: string) => {

@@ -1,9 +1,9 @@
-import { afterEach, beforeEach, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import request from 'supertest';
 import { parse } from 'csv-parse/sync';
 import { extractText, getDocumentProxy } from 'unpdf';
-import { createTestApp, csrfFromHtml, signInApi, signInPages, type TestApp } from '../../helpers/app';
-import { OTHER_ORG, YEAR, buildHandWorkedScenario, estimateSnapshot, insertField, insertPlanting, insertRanch, insertWalk } from '../../helpers/register-scenario';
+import { csrfFromHtml, signInApi, signInPages, type TestApp } from '../../helpers/app';
+import { OTHER_ORG, YEAR, estimateSnapshot, insertField, insertPlanting, insertRanch, insertWalk, freshScenarioForEachTest, type HandWorkedScenario } from '../../helpers/register-scenario';
 
 /*
  * The lab's tissue N % of a walk and one walk read the same everywhere.
@@ -17,13 +17,10 @@ import { OTHER_ORG, YEAR, buildHandWorkedScenario, estimateSnapshot, insertField
  *   interval 4,034.8 × 0.025 = 100.87 kg N/ha = 89.994 → "90"; 6,052.2 × 0.025 = 151.305 = 134.99 → "135".
  */
 let t: TestApp;
-let s: Awaited<ReturnType<typeof buildHandWorkedScenario>>;
-beforeEach(async () => {
-  t = await createTestApp();
-  s = await buildHandWorkedScenario(t.db);
-});
-afterEach(async () => {
-  await t.close();
+let s: HandWorkedScenario;
+freshScenarioForEachTest((app, scenario) => {
+  t = app;
+  s = scenario;
 });
 
 const put = (agent: ReturnType<typeof request.agent>, csrf: string, walkId: string, body: unknown) =>
