@@ -1,5 +1,5 @@
 import { createHash, createHmac } from 'node:crypto';
-import { afterEach, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import type { Express } from 'express';
 import { signInApi, signInPages, TEST_SIGNING_KEY, type TestApp } from '../../helpers/app';
 import { YEAR, freshScenarioForEachTest, type HandWorkedScenario } from '../../helpers/register-scenario';
